@@ -1,0 +1,55 @@
+/// <reference types="vitest/config" />
+import { reactRouter } from "@react-router/dev/vite";
+import tailwindcss from "@tailwindcss/vite";
+import { fileURLToPath } from "node:url";
+import { defineConfig } from "vite";
+
+const alias = {
+  "~": fileURLToPath(new URL("./app", import.meta.url)),
+  "@analysis": fileURLToPath(new URL("./analysis", import.meta.url)),
+};
+
+// Vitest loads this file too; the React Router plugin must stay out of test runs.
+const underVitest = Boolean(process.env.VITEST);
+
+export default defineConfig({
+  plugins: underVitest ? [] : [tailwindcss(), reactRouter()],
+  resolve: { alias },
+  server: { port: 5173, host: "127.0.0.1" },
+  test: {
+    projects: [
+      {
+        resolve: { alias },
+        test: {
+          name: "unit",
+          include: ["analysis/**/*.test.ts", "app/**/*.test.ts", "drizzle/**/*.test.ts"],
+          environment: "node",
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: "integration",
+          include: ["tests/integration/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/integration/global-setup.ts"],
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
+          name: "browser",
+          include: ["tests/e2e/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/e2e/global-setup.ts"],
+          fileParallelism: false,
+          testTimeout: 60_000,
+          hookTimeout: 120_000,
+        },
+      },
+    ],
+  },
+});
