@@ -1,0 +1,4 @@
+export * from "./auth";
+export * from "./company";
+export * from "./field";
+export * from "./routebook";
