@@ -25,7 +25,13 @@ export function createDatabase(pool: mysql.Pool): Database {
 const holder = globalThis as typeof globalThis & { __patinaPool?: mysql.Pool; __patinaDb?: Database };
 
 export function pool(): mysql.Pool {
-  holder.__patinaPool ??= createPool(serverEnv().DATABASE_URL);
+  if (!holder.__patinaPool) {
+    holder.__patinaPool = createPool(serverEnv().DATABASE_URL);
+    // An open pool keeps the server process alive after SIGTERM.
+    for (const signal of ["SIGTERM", "SIGINT"] as const) {
+      process.once(signal, () => void closeDatabase().finally(() => process.exit(0)));
+    }
+  }
   return holder.__patinaPool;
 }
 

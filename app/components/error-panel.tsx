@@ -1,0 +1,32 @@
+import { isRouteErrorResponse, Link } from "react-router";
+
+const headings: Record<number, string> = {
+  401: "Please sign in",
+  403: "This page is not part of your role",
+  404: "Nothing here",
+};
+
+/** The one error display shared by every route's error boundary. */
+export function ErrorPanel({ error }: { error: unknown }) {
+  let status: number | undefined;
+  let message = "Something went wrong on our side. Try again, and tell your administrator if it keeps happening.";
+  if (isRouteErrorResponse(error)) {
+    status = error.status;
+    message = typeof error.data === "string" && error.data ? error.data : error.statusText || message;
+  } else if (import.meta.env.DEV && error instanceof Error) {
+    message = error.message;
+  }
+  const heading = (status && headings[status]) ?? "Something went wrong";
+  return (
+    <section role="alert" className="rounded-xl border border-line bg-white p-6 shadow-sm">
+      {status ? <p className="text-sm font-semibold text-muted">Error {status}</p> : null}
+      <h1 className="mt-1 text-xl font-semibold">{heading}</h1>
+      <p className="mt-2 text-muted">{message}</p>
+      <p className="mt-4">
+        <Link to="/" className="font-medium text-verdigris-700 underline">
+          Back to your home page
+        </Link>
+      </p>
+    </section>
+  );
+}

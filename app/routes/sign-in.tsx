@@ -1,0 +1,123 @@
+import { APIError } from "better-auth/api";
+import { data, Form, redirect, useNavigation } from "react-router";
+import { z } from "zod";
+import { auth } from "~/.server/auth";
+import { currentUser } from "~/.server/guard";
+import { PatinaMark } from "~/components/patina-mark";
+import type { Route } from "./+types/sign-in";
+
+export const meta: Route.MetaFunction = () => [{ title: "Sign in · Patina" }];
+
+const signInSchema = z.object({
+  email: z.email({ error: "Enter the e-mail address you were invited with." }),
+  password: z.string().min(1, { error: "Enter your password." }),
+  next: z.string().optional(),
+});
+
+/** Only same-site paths, so the sign-in form cannot bounce anyone elsewhere. */
+function safeNext(next: string | null | undefined): string {
+  return next && next.startsWith("/") && !next.startsWith("//") ? next : "/";
+}
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const next = safeNext(new URL(request.url).searchParams.get("next"));
+  if (await currentUser(request)) throw redirect(next);
+  return { next };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const parsed = signInSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) {
+    const fieldErrors: Record<string, string> = {};
+    for (const issue of parsed.error.issues) fieldErrors[String(issue.path[0])] ??= issue.message;
+    return data({ fieldErrors, formError: null }, { status: 400 });
+  }
+  try {
+    const response = await auth().api.signInEmail({
+      body: { email: parsed.data.email, password: parsed.data.password },
+      headers: request.headers,
+      asResponse: true,
+    });
+    if (!response.ok) {
+      return data(
+        { fieldErrors: {}, formError: "That e-mail and password do not match an account." },
+        { status: response.status === 429 ? 429 : 401 },
+      );
+    }
+    const headers = new Headers();
+    for (const cookie of response.headers.getSetCookie()) headers.append("Set-Cookie", cookie);
+    return redirect(safeNext(parsed.data.next), { headers });
+  } catch (error) {
+    if (error instanceof APIError) {
+      return data({ fieldErrors: {}, formError: "That e-mail and password do not match an account." }, { status: 401 });
+    }
+    throw error;
+  }
+}
+
+export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {
+  const navigation = useNavigation();
+  const busy = navigation.state !== "idle";
+  const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
+  return (
+    <main className="mx-auto flex min-h-dvh max-w-sm flex-col justify-center px-5 py-10">
+      <div className="mb-8 flex items-center gap-3">
+        <PatinaMark className="size-10" />
+        <div>
+          <p className="text-2xl font-semibold tracking-tight">Patina</p>
+          <p className="text-sm text-muted">Water records and metal tracking for pool routes</p>
+        </div>
+      </div>
+      <Form method="post" className="space-y-4 rounded-2xl border border-line bg-white p-6 shadow-sm" noValidate>
+        <h1 className="text-lg font-semibold">Sign in</h1>
+        <input type="hidden" name="next" value={loaderData.next} />
+        <label className="block">
+          <span className="text-sm font-medium">E-mail</span>
+          <input
+            name="email"
+            type="email"
+            autoComplete="username"
+            required
+            aria-invalid={Boolean(fieldErrors.email)}
+            aria-describedby={fieldErrors.email ? "email-error" : undefined}
+            className="mt-1 block w-full rounded-lg border border-line px-3 py-3 text-base"
+          />
+          {fieldErrors.email ? (
+            <span id="email-error" className="mt-1 block text-sm text-alert">
+              {fieldErrors.email}
+            </span>
+          ) : null}
+        </label>
+        <label className="block">
+          <span className="text-sm font-medium">Password</span>
+          <input
+            name="password"
+            type="password"
+            autoComplete="current-password"
+            required
+            aria-invalid={Boolean(fieldErrors.password)}
+            aria-describedby={fieldErrors.password ? "password-error" : undefined}
+            className="mt-1 block w-full rounded-lg border border-line px-3 py-3 text-base"
+          />
+          {fieldErrors.password ? (
+            <span id="password-error" className="mt-1 block text-sm text-alert">
+              {fieldErrors.password}
+            </span>
+          ) : null}
+        </label>
+        {actionData?.formError ? (
+          <p role="alert" className="rounded-lg bg-orange-50 px-3 py-2 text-sm text-alert">
+            {actionData.formError}
+          </p>
+        ) : null}
+        <button
+          type="submit"
+          disabled={busy}
+          className="w-full rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60"
+        >
+          {busy ? "Signing in…" : "Sign in"}
+        </button>
+      </Form>
+    </main>
+  );
+}

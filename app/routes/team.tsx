@@ -1,0 +1,40 @@
+import { requireMember } from "~/.server/guard";
+import { companyMembers } from "~/.server/queries/team";
+import { ErrorPanel } from "~/components/error-panel";
+import { formatDate } from "~/lib/format";
+import { ROLE_LABELS } from "~/lib/roles";
+import type { Route } from "./+types/team";
+
+export const meta: Route.MetaFunction = () => [{ title: "Team · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "team");
+  return { members: await companyMembers(scope), timeZone: scope.timeZone };
+}
+
+export default function Team({ loaderData }: Route.ComponentProps) {
+  const { members, timeZone } = loaderData;
+  return (
+    <div className="space-y-4">
+      <h1 className="text-2xl font-semibold tracking-tight">Team</h1>
+      <ul className="divide-y divide-line rounded-xl border border-line bg-white">
+        {members.map((m) => (
+          <li key={m.userId} className="flex flex-wrap items-center justify-between gap-2 px-4 py-3">
+            <span>
+              <span className="block font-medium">{m.name}</span>
+              <span className="block text-sm text-muted">{m.email}</span>
+            </span>
+            <span className="text-sm">
+              <span className="rounded-full bg-verdigris-100 px-2 py-1 font-medium text-verdigris-900">{ROLE_LABELS[m.role]}</span>
+              <span className="ml-2 text-muted">since {formatDate(m.since, timeZone)}</span>
+            </span>
+          </li>
+        ))}
+      </ul>
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}
