@@ -2,6 +2,7 @@ import { and, count, eq, max, sql } from "drizzle-orm";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../db/client";
 import { pools, routes, waterTests } from "../db/schema";
+import { utcDate } from "../db/values";
 import type { Scope } from "../guard";
 import { poolsInScope } from "./scope";
 
@@ -47,18 +48,18 @@ async function openCases(scope: Scope, thresholds: MetalThresholds): Promise<Ope
       MAX(CASE WHEN ${belowDetection} = 0 AND ${value} >= ${elevated} THEN t.sampled_at END) AS ${sql.raw(`${metal}_last_elevated`)}`;
   });
   const [rows] = (await db().execute(sql`
-    SELECT p.id AS pool_id, p.customer_name, p.street, ${sql.join(aggregates, sql`, `)}
+    SELECT pools.id AS pool_id, pools.customer_name, pools.street, ${sql.join(aggregates, sql`, `)}
     FROM water_tests t
-    JOIN pools p ON p.id = t.pool_id
+    JOIN pools ON pools.id = t.pool_id
     WHERE ${poolsInScope(scope)} AND t.company_id = ${scope.companyId}
-    GROUP BY p.id, p.customer_name, p.street
+    GROUP BY pools.id, pools.customer_name, pools.street
   `)) as unknown as [Array<Record<string, unknown>>];
 
   const candidates: Array<Omit<OpenMetalCase, "lastElevatedValue">> = [];
   for (const row of rows) {
     for (const metal of METALS) {
-      const lastElevated = row[`${metal}_last_elevated`] as Date | null;
-      const lastClear = row[`${metal}_last_clear`] as Date | null;
+      const lastElevated = utcDate(row[`${metal}_last_elevated`]);
+      const lastClear = utcDate(row[`${metal}_last_clear`]);
       if (lastElevated && (!lastClear || lastElevated > lastClear)) {
         candidates.push({
           poolId: Number(row.pool_id),
@@ -120,7 +121,7 @@ export async function homeSummary(scope: Scope, thresholds: MetalThresholds, now
     routes: routeCount,
     tests: testFigures?.tests ?? 0,
     testsLast30Days: testFigures?.recent ?? 0,
-    lastTestAt: testFigures?.last ? new Date(testFigures.last) : null,
+    lastTestAt: utcDate(testFigures?.last),
     openCasesByMetal,
     openCases: cases,
   };
@@ -157,5 +158,5 @@ export async function stopsForWeekday(scope: Scope, isoWeekday: number): Promise
       ),
     )
     .orderBy(routes.name, pools.neighbourhood, pools.street);
-  return rows.map((r) => ({ ...r, lastVisitAt: r.lastVisitAt ? new Date(r.lastVisitAt) : null }));
+  return rows.map((r) => ({ ...r, lastVisitAt: utcDate(r.lastVisitAt) }));
 }

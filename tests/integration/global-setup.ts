@@ -1,0 +1,5 @@
+import { resetTestDatabase } from "../fixtures/database";
+
+export default async function setup() {
+  await resetTestDatabase();
+}
