@@ -11,9 +11,25 @@ export const ROLE_LABELS: Record<RoleName, string> = {
 /** Who may open each area of the app; the guard and the navigation both read this. */
 export const AREA_ROLES = {
   home: ["owner", "manager", "technician", "analyst"],
+  /** Pool pages and the pool list; technicians are further limited to their routes' pools. */
   pools: ["owner", "manager", "technician", "analyst"],
+  /** Logging a visit: tests, observations, treatments. */
+  visit: ["owner", "manager", "technician"],
+  /** Reading routes, fill sources, products. */
+  routebook: ["owner", "manager", "technician", "analyst"],
+  /** Creating and changing routes, pools, fill sources, equipment, products. */
+  routebookEdit: ["owner", "manager"],
+  overview: ["owner", "manager"],
+  recurring: ["owner", "manager", "analyst"],
+  risk: ["owner", "manager", "analyst"],
+  sources: ["owner", "manager", "technician", "analyst"],
+  outcomes: ["owner", "manager"],
+  imports: ["owner", "analyst"],
+  exports: ["owner", "manager", "analyst"],
   team: ["owner"],
   settings: ["owner"],
+  /** The development mail viewer. */
+  mailbox: ["owner"],
 } as const satisfies Record<string, readonly RoleName[]>;
 
 export type Area = keyof typeof AREA_ROLES;

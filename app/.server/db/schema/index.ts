@@ -2,3 +2,4 @@ export * from "./auth";
 export * from "./company";
 export * from "./field";
 export * from "./routebook";
+export * from "./exchange";

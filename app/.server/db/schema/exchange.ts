@@ -1,0 +1,150 @@
+import { sql } from "drizzle-orm";
+import {
+  bigint,
+  boolean,
+  datetime,
+  index,
+  int,
+  json,
+  mysqlEnum,
+  mysqlTable,
+  text,
+  unique,
+  varchar,
+} from "drizzle-orm/mysql-core";
+import { user } from "./auth";
+import { companies, memberships, ROLES } from "./company";
+import { fillSources, pools } from "./routebook";
+
+const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+
+/** A company's saved CSV column mapping, reused for files of the same shape. */
+export const importMappings = mysqlTable(
+  "import_mappings",
+  {
+    id: int("id").autoincrement().primaryKey(),
+    companyId: int("company_id")
+      .notNull()
+      .references(() => companies.id, { onDelete: "cascade" }),
+    name: varchar("name", { length: 120 }).notNull(),
+    /** Column header -> Patina field (and unit), as the import pipeline defines it. */
+    mapping: json("mapping").$type<Record<string, unknown>>().notNull(),
+    createdBy: varchar("created_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [unique("import_mappings_company_name").on(t.companyId, t.name)],
+);
+
+export const UPLOAD_PHASES = ["uploaded", "checking", "checked", "committing", "committed", "failed", "discarded"] as const;
+
+/** An uploaded file on its way to an import batch: kept until committed or discarded. */
+export const importUploads = mysqlTable(
+  "import_uploads",
+  {
+    id: varchar("id", { length: 36 }).primaryKey(),
+    companyId: int("company_id")
+      .notNull()
+      .references(() => companies.id, { onDelete: "cascade" }),
+    userId: varchar("user_id", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    fileName: varchar("file_name", { length: 255 }).notNull(),
+    byteSize: bigint("byte_size", { mode: "number" }).notNull(),
+    fileSha256: varchar("file_sha256", { length: 64 }).notNull(),
+    /** Where the bytes are kept on the server, relative to the upload folder. */
+    storedAs: varchar("stored_as", { length: 255 }).notNull(),
+    encoding: varchar("encoding", { length: 20 }),
+    delimiter: varchar("delimiter", { length: 4 }),
+    phase: mysqlEnum("phase", UPLOAD_PHASES).notNull().default("uploaded"),
+    rowsTotal: int("rows_total"),
+    rowsDone: int("rows_done").notNull().default(0),
+    /** Mapping, date order and choices made on the preview page. */
+    options: json("options").$type<Record<string, unknown>>().notNull().default({}),
+    /** Counts of the last check (to add, duplicates, refused, unknown pools). */
+    summary: json("summary").$type<Record<string, unknown>>(),
+    error: text("error"),
+    importBatchId: int("import_batch_id"),
+    createdAt: createdAt(),
+    updatedAt: datetime("updated_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  },
+  (t) => [index("import_uploads_company_idx").on(t.companyId, t.createdAt)],
+);
+
+export const invitations = mysqlTable(
+  "invitations",
+  {
+    id: int("id").autoincrement().primaryKey(),
+    companyId: int("company_id")
+      .notNull()
+      .references(() => companies.id, { onDelete: "cascade" }),
+    email: varchar("email", { length: 255 }).notNull(),
+    role: mysqlEnum("role", ROLES).notNull(),
+    /** SHA-256 of the token in the link; the token itself is never stored. */
+    tokenHash: varchar("token_hash", { length: 64 }).notNull().unique(),
+    invitedBy: varchar("invited_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    expiresAt: datetime("expires_at", { fsp: 3 }).notNull(),
+    acceptedAt: datetime("accepted_at", { fsp: 3 }),
+    acceptedBy: varchar("accepted_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("invitations_company_idx").on(t.companyId, t.createdAt)],
+);
+
+export const ALERT_KINDS = ["episode_opened", "pool_recurring", "shared_source"] as const;
+
+/** Something worth telling people about, recorded once per event (dedupe key). */
+export const alertEvents = mysqlTable(
+  "alert_events",
+  {
+    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
+    companyId: int("company_id")
+      .notNull()
+      .references(() => companies.id, { onDelete: "cascade" }),
+    kind: mysqlEnum("kind", ALERT_KINDS).notNull(),
+    dedupeKey: varchar("dedupe_key", { length: 191 }).notNull(),
+    poolId: int("pool_id").references(() => pools.id, { onDelete: "cascade" }),
+    fillSourceId: int("fill_source_id").references(() => fillSources.id, { onDelete: "cascade" }),
+    metal: mysqlEnum("metal", ["copper", "iron", "manganese"]),
+    occurredAt: datetime("occurred_at", { fsp: 3 }).notNull(),
+    details: json("details").$type<Record<string, unknown>>().notNull().default({}),
+    createdAt: createdAt(),
+  },
+  (t) => [
+    unique("alert_events_company_key").on(t.companyId, t.dedupeKey),
+    index("alert_events_company_time_idx").on(t.companyId, t.occurredAt),
+  ],
+);
+
+export const OUTBOX_STATUSES = ["pending", "sent", "failed"] as const;
+
+/** Every e-mail goes through here first, so a failed send is retried, never lost. */
+export const mailOutbox = mysqlTable(
+  "mail_outbox",
+  {
+    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
+    companyId: int("company_id").references(() => companies.id, { onDelete: "cascade" }),
+    /** One message per recipient and event. */
+    dedupeKey: varchar("dedupe_key", { length: 191 }).notNull().unique(),
+    kind: varchar("kind", { length: 40 }).notNull(),
+    recipient: varchar("recipient", { length: 255 }).notNull(),
+    subject: varchar("subject", { length: 255 }).notNull(),
+    html: text("html").notNull(),
+    text: text("text").notNull(),
+    status: mysqlEnum("status", OUTBOX_STATUSES).notNull().default("pending"),
+    attempts: int("attempts").notNull().default(0),
+    nextAttemptAt: datetime("next_attempt_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    lastError: text("last_error"),
+    sentAt: datetime("sent_at", { fsp: 3 }),
+    createdAt: createdAt(),
+  },
+  (t) => [index("mail_outbox_due_idx").on(t.status, t.nextAttemptAt)],
+);
+
+/** Per-member mail preferences; the digest link unsubscribes with the token. */
+export const mailPreferences = mysqlTable("mail_preferences", {
+  membershipId: int("membership_id")
+    .primaryKey()
+    .references(() => memberships.id, { onDelete: "cascade" }),
+  digest: boolean("digest").notNull().default(true),
+  alerts: boolean("alerts").notNull().default(true),
+  unsubscribeToken: varchar("unsubscribe_token", { length: 64 }).notNull().unique(),
+  updatedAt: datetime("updated_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+});
