@@ -1,0 +1,206 @@
+import type { Episode, MetalTest } from "../metals/episodes";
+import type { Metal } from "../metals/reading";
+import {
+  DEFAULT_HEATER_AGE_EDGES,
+  exchangerMetalAt,
+  heaterAgeBucketAt,
+  type PoolProfile,
+} from "../metals/route-book";
+import {
+  DEFAULT_CONFIDENCE,
+  poissonRateInterval,
+  rateRatioInterval,
+  wilsonInterval,
+  type Interval,
+  type RateRatio,
+} from "./intervals";
+
+export type GroupingKey =
+  | "fill-source"
+  | "fill-source-kind"
+  | "heater-age"
+  | "exchanger-metal"
+  | "neighbourhood"
+  | "route"
+  | "surface"
+  | "sanitiser";
+
+export const GROUPING_KEYS: readonly GroupingKey[] = [
+  "fill-source",
+  "fill-source-kind",
+  "heater-age",
+  "exchanger-metal",
+  "neighbourhood",
+  "route",
+  "surface",
+  "sanitiser",
+];
+
+export const UNKNOWN_GROUP = "unknown";
+
+export const MS_PER_YEAR = 365.25 * 86_400_000;
+
+/** One pool's time and episode openings inside one group. */
+export interface GroupObservation {
+  group: string;
+  poolId: string;
+  years: number;
+  openings: number;
+}
+
+export interface GroupRules {
+  /** Groups with fewer pools are shown but marked too small to judge. */
+  minPools: number;
+  /** Risky when the rate ratio's lower bound is above this. */
+  riskyRatioLowerBound: number;
+  level: number;
+  heaterAgeEdges: readonly number[];
+}
+
+export const DEFAULT_GROUP_RULES: GroupRules = {
+  minPools: 3,
+  riskyRatioLowerBound: 1,
+  level: DEFAULT_CONFIDENCE,
+  heaterAgeEdges: DEFAULT_HEATER_AGE_EDGES,
+};
+
+export function groupOf(pool: PoolProfile, key: GroupingKey, at: number, rules: Pick<GroupRules, "heaterAgeEdges"> = DEFAULT_GROUP_RULES): string {
+  switch (key) {
+    case "fill-source":
+      return pool.fillSourceId ?? UNKNOWN_GROUP;
+    case "fill-source-kind":
+      return pool.fillSourceKind ?? UNKNOWN_GROUP;
+    case "heater-age":
+      return heaterAgeBucketAt(pool, at, rules.heaterAgeEdges);
+    case "exchanger-metal":
+      return exchangerMetalAt(pool, at);
+    case "neighbourhood":
+      return pool.neighbourhood ?? UNKNOWN_GROUP;
+    case "route":
+      return pool.routeId ?? UNKNOWN_GROUP;
+    case "surface":
+      return pool.surface ?? UNKNOWN_GROUP;
+    case "sanitiser":
+      return pool.sanitiser ?? UNKNOWN_GROUP;
+  }
+}
+
+export interface ObservationOptions {
+  metal?: Metal;
+  rules?: Partial<GroupRules>;
+}
+
+/**
+ * Splits each pool's observed time (first to last test) into groups. Keys that
+ * change over time, such as heater age, are read at each test, and the time up
+ * to the next test is credited to that group, so equipment age is always the
+ * age at the date of a test. An opening belongs to the group at its own test.
+ */
+export function groupObservations(
+  pools: readonly PoolProfile[],
+  tests: readonly Pick<MetalTest, "poolId" | "takenAt">[],
+  episodes: readonly Episode[],
+  key: GroupingKey,
+  options: ObservationOptions = {},
+): GroupObservation[] {
+  const rules = { ...DEFAULT_GROUP_RULES, ...options.rules };
+  const profiles = new Map(pools.map((p) => [p.poolId, p]));
+  const cells = new Map<string, GroupObservation>();
+  const cell = (group: string, poolId: string): GroupObservation => {
+    const id = `${group}\u0000${poolId}`;
+    let found = cells.get(id);
+    if (!found) {
+      found = { group, poolId, years: 0, openings: 0 };
+      cells.set(id, found);
+    }
+    return found;
+  };
+
+  const timesByPool = new Map<string, number[]>();
+  for (const test of tests) {
+    if (!profiles.has(test.poolId)) continue;
+    const list = timesByPool.get(test.poolId);
+    if (list) list.push(test.takenAt);
+    else timesByPool.set(test.poolId, [test.takenAt]);
+  }
+  for (const [poolId, times] of timesByPool) {
+    const pool = profiles.get(poolId)!;
+    times.sort((a, b) => a - b);
+    for (let i = 0; i + 1 < times.length; i++) {
+      const at = times[i]!;
+      cell(groupOf(pool, key, at, rules), poolId).years += (times[i + 1]! - at) / MS_PER_YEAR;
+    }
+    if (times.length === 1) cell(groupOf(pool, key, times[0]!, rules), poolId);
+  }
+  for (const episode of episodes) {
+    if (options.metal && episode.metal !== options.metal) continue;
+    const pool = profiles.get(episode.poolId);
+    if (!pool) continue;
+    cell(groupOf(pool, key, episode.openedAt, rules), episode.poolId).openings++;
+  }
+  return [...cells.values()];
+}
+
+export interface GroupStatistics {
+  group: string;
+  pools: number;
+  poolsWithEpisode: number;
+  poolYears: number;
+  openings: number;
+  /** Episode openings per pool-year, exact Poisson interval. */
+  rate: Interval;
+  /** Share of the group's pools with any episode opening, Wilson interval. */
+  shareWithEpisode: Interval;
+  /** This group's rate over the rest of the route book's. */
+  rateRatio: RateRatio;
+  risky: boolean;
+  tooSmallToJudge: boolean;
+}
+
+export function compareGroups(observations: readonly GroupObservation[], rulesOverride: Partial<GroupRules> = {}): GroupStatistics[] {
+  const rules = { ...DEFAULT_GROUP_RULES, ...rulesOverride };
+  const totals = { years: 0, openings: 0 };
+  const groups = new Map<string, { pools: Set<string>; poolsWithEpisode: Set<string>; years: number; openings: number }>();
+  for (const o of observations) {
+    totals.years += o.years;
+    totals.openings += o.openings;
+    let g = groups.get(o.group);
+    if (!g) {
+      g = { pools: new Set(), poolsWithEpisode: new Set(), years: 0, openings: 0 };
+      groups.set(o.group, g);
+    }
+    g.pools.add(o.poolId);
+    if (o.openings > 0) g.poolsWithEpisode.add(o.poolId);
+    g.years += o.years;
+    g.openings += o.openings;
+  }
+  const result: GroupStatistics[] = [];
+  for (const [group, g] of groups) {
+    const rateRatio = rateRatioInterval(g.openings, g.years, totals.openings - g.openings, totals.years - g.years, rules.level);
+    const tooSmallToJudge = g.pools.size < rules.minPools;
+    result.push({
+      group,
+      pools: g.pools.size,
+      poolsWithEpisode: g.poolsWithEpisode.size,
+      poolYears: g.years,
+      openings: g.openings,
+      rate: poissonRateInterval(g.openings, g.years, rules.level),
+      shareWithEpisode: wilsonInterval(g.poolsWithEpisode.size, g.pools.size, rules.level),
+      rateRatio,
+      risky: !tooSmallToJudge && rateRatio.lower > rules.riskyRatioLowerBound,
+      tooSmallToJudge,
+    });
+  }
+  return result.sort((a, b) => (a.group < b.group ? -1 : a.group > b.group ? 1 : 0));
+}
+
+/** Observations and comparison in one call, for one grouping key. */
+export function groupComparison(
+  pools: readonly PoolProfile[],
+  tests: readonly Pick<MetalTest, "poolId" | "takenAt">[],
+  episodes: readonly Episode[],
+  key: GroupingKey,
+  options: ObservationOptions = {},
+): GroupStatistics[] {
+  return compareGroups(groupObservations(pools, tests, episodes, key, options), options.rules);
+}
