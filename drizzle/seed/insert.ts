@@ -5,7 +5,7 @@ import { inArray, sql } from "drizzle-orm";
 import type { MySqlTable } from "drizzle-orm/mysql-core";
 import type { Database } from "../../app/.server/db/client";
 import * as schema from "../../app/.server/db/schema";
-import { hashString } from "./random";
+import { hexFromLabel } from "./random";
 import type { TreatmentRow, WaterTestRow } from "./history";
 import { buildRouteBook, type IdBase } from "./routebook";
 import { poolHistories, resolveOptions, type ScenarioOptions } from "./scenario";
@@ -50,7 +50,7 @@ export async function seedDemo(db: Database, options: SeedOptions = {}): Promise
 
     const accounts = await Promise.all(
       book.users.map(async (u) => ({
-        id: hashString(`account:${u.id}`).toString(16).padStart(8, "0") + u.id.slice(8),
+        id: hexFromLabel(`account:${u.id}`, 32),
         accountId: u.id,
         providerId: "credential",
         userId: u.id,

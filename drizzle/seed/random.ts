@@ -82,3 +82,11 @@ export class Random {
     return copy;
   }
 }
+
+/** A deterministic lowercase hex string, e.g. for ids that must look random but repeat per seed. */
+export function hexFromLabel(label: string, length: number): string {
+  const rng = new Random(hashString(label));
+  let hex = "";
+  while (hex.length < length) hex += Math.floor(rng.next() * 4294967296).toString(16).padStart(8, "0");
+  return hex.slice(0, length);
+}

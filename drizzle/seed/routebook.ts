@@ -30,7 +30,7 @@ import {
   type RouteKey,
 } from "./names";
 import { PRODUCTS, type ProductKey } from "./products";
-import { hashString, Random } from "./random";
+import { hexFromLabel, Random } from "./random";
 
 export type ScenarioOptions = {
   seed: number;
@@ -158,12 +158,6 @@ export type RouteBook = {
 
 const YEAR_DAYS = 365.25;
 
-function demoUserId(seed: number, key: string): string {
-  let id = "";
-  for (let part = 0; id.length < 32; part++) id += hashString(`${seed}:${key}:${part}`).toString(16).padStart(8, "0");
-  return id.slice(0, 32);
-}
-
 type Segment = "ironWell" | "cleanWell" | "privateWell" | "municipal";
 
 const NEIGHBOURHOOD_ROUTE: Record<NeighbourhoodKey, RouteKey> = {
@@ -200,7 +194,7 @@ export function buildRouteBook(options: ScenarioOptions, ids: IdBase = FRESH_IDS
 
   const users: DemoUser[] = DEMO_USERS.map((u) => ({
     key: u.key,
-    id: demoUserId(options.seed, u.key),
+    id: hexFromLabel(`user:${options.seed}:${u.key}`, 32),
     name: u.name,
     email: `${u.email}@${DEMO_EMAIL_DOMAIN}`,
     password: u.password,
@@ -249,13 +243,13 @@ export function buildRouteBook(options: ScenarioOptions, ids: IdBase = FRESH_IDS
   let nextEquipmentId = ids.equipment;
   let privateWellCount = 0;
   const stopsPerRouteDay = new Map<string, number>();
+  const usedAddresses = new Set<string>();
 
   shuffled.forEach((segment, index) => {
     const prng = rng.fork(`pool:${index}`);
     const poolId = ids.pool + index;
     const accountCode = `${COMPANY.accountPrefix}-${String(index + 1).padStart(4, "0")}`;
 
-    const houseNumber = prng.int(2, 240);
     let neighbourhood: NeighbourhoodKey;
     let source: SourceProfile;
     if (segment === "ironWell") {
@@ -283,6 +277,9 @@ export function buildRouteBook(options: ScenarioOptions, ids: IdBase = FRESH_IDS
     const visitSecond = 8 * 3600 + ((stop * 1320) % (9 * 3600)) + prng.int(0, 240);
 
     const street = prng.pick(STREETS[neighbourhood]);
+    let houseNumber = prng.int(2, 240);
+    while (usedAddresses.has(`${houseNumber} ${street}`)) houseNumber = prng.int(2, 240 + usedAddresses.size);
+    usedAddresses.add(`${houseNumber} ${street}`);
     // A private well is named after the house it serves.
     if (source.kind === "private_well") source.name = `Private well, ${houseNumber} ${street}`;
     const first = prng.pick(FIRST_NAMES);
@@ -418,7 +415,7 @@ export function buildRouteBook(options: ScenarioOptions, ids: IdBase = FRESH_IDS
     companyId,
     userId: userId("analyst"),
     fileName: "route-log-first-year.csv",
-    fileSha256: hashString(`${options.seed}:import`).toString(16).padStart(64, "0"),
+    fileSha256: hexFromLabel(`import:${options.seed}`, 64),
     status: "committed" as const,
     createdAt: new Date((importedBeforeDay + 20) * 86_400_000),
   };

@@ -66,6 +66,11 @@ try {
     printCounts(summary);
     printSignIns(summary.users);
   }
+} catch (error) {
+  // Driver errors carry the whole multi-row statement; the cause is what helps.
+  const cause = error instanceof Error && error.cause instanceof Error ? error.cause : error;
+  console.error(`[seed] failed: ${cause instanceof Error ? cause.message : String(cause)}`);
+  process.exitCode = 1;
 } finally {
   await pool.end();
 }
