@@ -1,6 +1,7 @@
 /**
  * Episodes and recurrence over large synthetic route books.
- * Run: npx vitest bench --run tests/bench/analysis-episodes.bench.ts
+ * Run: npx vitest bench --run --project unit tests/bench/analysis-episodes.bench.ts
+ * (the unit project keeps the database projects' global setup out of the run).
  *
  * Sizes 100k, 250k and 500k tests: time per test should stay flat if the
  * computation is linear.
@@ -8,6 +9,9 @@
 import { bench, describe } from "vitest";
 import { DAY_MS, analyseMetalHistory, type MetalTest } from "../../analysis/metals/episodes";
 import type { MetalReading } from "../../analysis/metals/reading";
+import type { PoolProfile } from "../../analysis/metals/route-book";
+import { groupComparison } from "../../analysis/stats/groups";
+import { sharedSourceAlerts } from "../../analysis/metals/shared-source";
 
 /** Deterministic 32-bit generator (mulberry32) so every run sees the same data. */
 function seededRandom(seed: number): () => number {
@@ -83,4 +87,29 @@ describe(`episodes and recurrence (${shape})`, () => {
   bench("500,000 tests, shuffled (one sort first)", () => {
     analyseMetalHistory(shuffled);
   }, { iterations: 3, warmupIterations: 1 });
+});
+
+describe("route-book comparisons on the 500,000-test history", () => {
+  const tests = datasets.get(500_000)!;
+  const history = analyseMetalHistory(tests);
+  const random = seededRandom(99);
+  const pools: PoolProfile[] = history.pools.map((p, i) => ({
+    poolId: p.poolId,
+    fillSourceId: `source-${i % 40}`,
+    fillSourceKind: i % 40 < 6 ? "shared-well" : "municipal",
+    routeId: `route-${i % 25}`,
+    equipment:
+      random() < 0.6
+        ? [{ id: `h${i}`, kind: "heater", exchangerMetal: random() < 0.5 ? "copper" : "titanium", installedAt: Date.UTC(2004 + Math.floor(random() * 20), 3, 1) }]
+        : [],
+  }));
+  bench("group comparison by heater age at test date", () => {
+    groupComparison(pools, tests, history.episodes, "heater-age");
+  }, { iterations: 3, warmupIterations: 1 });
+  bench("group comparison by fill source", () => {
+    groupComparison(pools, tests, history.episodes, "fill-source");
+  }, { iterations: 3, warmupIterations: 1 });
+  bench("shared-source alerts", () => {
+    sharedSourceAlerts(history.episodes, pools);
+  }, { iterations: 5, warmupIterations: 1 });
 });
