@@ -273,7 +273,7 @@ class PoolSimulation {
   private noteEquipmentChanges(day: number) {
     const heater = this.activeHeater(day);
     if (heater !== this.lastHeater) {
-      if (heater && this.lastHeater) this.pendingNotes.push(`Heater replaced; new unit has a ${heater.exchangerMetal} exchanger`);
+      if (heater && this.lastHeater) this.pendingNotes.push(`Old heater swapped out; exchanger of the replacement: ${heater.exchangerMetal}`);
       this.lastHeater = heater;
     }
   }
