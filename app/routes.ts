@@ -4,16 +4,42 @@ export default [
   route("sign-in", "routes/sign-in.tsx"),
   route("sign-out", "routes/sign-out.tsx"),
   // mail and invitations: public pages (invitation links, password reset, unsubscribe)
+  route("invite/:token", "routes/invite.tsx"),
+  route("forgot-password", "routes/forgot-password.tsx"),
+  route("reset-password", "routes/reset-password.tsx"),
+  route("unsubscribe/:token", "routes/unsubscribe.tsx"),
 
   layout("routes/app-layout.tsx", [
     index("routes/home.tsx"),
     route("team", "routes/team.tsx"),
     route("settings", "routes/settings.tsx"),
     // route book and visits
+    route("visit", "routes/visit.tsx"),
+    route("visit/:poolId", "routes/visit-pool.tsx"),
+    route("pools", "routes/pools.tsx"),
+    route("pools/new", "routes/pool-new.tsx"),
     route("pools/:poolId", "routes/pool.tsx"),
+    route("pools/:poolId/edit", "routes/pool-edit.tsx"),
+    route("routes", "routes/route-list.tsx"),
+    route("routes/new", "routes/route-new.tsx"),
+    route("routes/:routeId/edit", "routes/route-edit.tsx"),
+    route("sources", "routes/sources.tsx"),
+    route("sources/new", "routes/source-new.tsx"),
+    route("sources/:sourceId", "routes/source.tsx"),
+    route("sources/:sourceId/edit", "routes/source-edit.tsx"),
+    route("products", "routes/products.tsx"),
+    route("products/new", "routes/product-new.tsx"),
+    route("products/:productId/edit", "routes/product-edit.tsx"),
     // analytics
     // imports and exports
+    route("imports", "routes/imports.tsx"),
+    route("imports/new", "routes/imports-new.tsx"),
+    route("imports/:uploadId", "routes/import-check.tsx"),
+    route("exports", "routes/exports.tsx"),
     // mail and invitations: signed-in pages
+    route("team/invitations", "routes/team-invitations.tsx"),
+    route("mailbox", "routes/mailbox.tsx"),
+    route("mailbox/:messageId", "routes/mailbox-message.tsx"),
   ]),
 
   ...prefix("api", [
@@ -23,6 +49,10 @@ export default [
     // api: route book and visits
     // api: analytics
     // api: imports and exports
+    route("imports/uploads", "routes/api/import-uploads.ts"),
+    route("imports/:uploadId", "routes/api/import-upload.ts"),
+    route("imports/:uploadId/refused.csv", "routes/api/import-refused.ts"),
+    route("exports/:dataset", "routes/api/export.ts"),
     // api: mail
   ]),
 ] satisfies RouteConfig;

@@ -3,6 +3,8 @@ import { drizzleAdapter } from "better-auth/adapters/drizzle";
 import { db } from "./db/client";
 import { account, session, user, verification } from "./db/schema";
 import { serverEnv } from "./env";
+import { enqueuePasswordResetMail, RESET_LINK_MINUTES } from "./mail/password-reset";
+import { ensureMailWorker } from "./mail/worker";
 
 function trustedOrigins(baseUrl: string): string[] {
   const url = new URL(baseUrl);
@@ -13,6 +15,8 @@ function trustedOrigins(baseUrl: string): string[] {
 
 function createAuth() {
   const env = serverEnv();
+  // The first request of a server process starts its outbox sender.
+  ensureMailWorker();
   return betterAuth({
     appName: "Patina",
     baseURL: env.PATINA_URL,
@@ -27,6 +31,9 @@ function createAuth() {
       minPasswordLength: 12,
       // Accounts are created by the company (seed, invitations), never by open sign-up.
       disableSignUp: true,
+      resetPasswordTokenExpiresIn: RESET_LINK_MINUTES * 60,
+      revokeSessionsOnPasswordReset: true,
+      sendResetPassword: ({ user, token }) => enqueuePasswordResetMail(user, token),
     },
     session: {
       expiresIn: 60 * 60 * 24 * 14,
@@ -36,7 +43,10 @@ function createAuth() {
       enabled: true,
       window: 60,
       max: 120,
-      customRules: { "/sign-in/email": { window: 60, max: 30 } },
+      customRules: {
+        "/sign-in/email": { window: 60, max: 30 },
+        "/request-password-reset": { window: 15 * 60, max: 5 },
+      },
     },
     telemetry: { enabled: false },
   });

@@ -7,8 +7,16 @@ import type { Route } from "./+types/app-layout";
 
 const NAV: Array<{ to: string; label: string; area: Area }> = [
   { to: "/", label: "Home", area: "home" },
+  { to: "/visit", label: "Visit", area: "visit" },
+  { to: "/pools", label: "Pools", area: "pools" },
+  { to: "/routes", label: "Routes", area: "routebook" },
+  { to: "/sources", label: "Fill sources", area: "routebook" },
+  { to: "/products", label: "Products", area: "routebook" },
+  { to: "/imports", label: "Imports", area: "imports" },
+  { to: "/exports", label: "Exports", area: "exports" },
   { to: "/team", label: "Team", area: "team" },
   { to: "/settings", label: "Settings", area: "settings" },
+  { to: "/mailbox", label: "Mailbox", area: "mailbox" },
 ];
 
 export async function loader({ request }: Route.LoaderArgs) {

@@ -1,5 +1,5 @@
 import { APIError } from "better-auth/api";
-import { data, Form, redirect, useNavigation } from "react-router";
+import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { currentUser } from "~/.server/guard";
@@ -117,6 +117,11 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
         >
           {busy ? "Signing in…" : "Sign in"}
         </button>
+        <p className="text-center text-sm">
+          <Link to="/forgot-password" className="font-medium text-verdigris-700 underline">
+            Forgot your password?
+          </Link>
+        </p>
       </Form>
     </main>
   );

@@ -1,6 +1,8 @@
 import { requireMember } from "~/.server/guard";
+import { pendingInvitations } from "~/.server/mail/invitations";
 import { companyMembers } from "~/.server/queries/team";
 import { ErrorPanel } from "~/components/error-panel";
+import { InvitePanel } from "~/components/mail/invite-panel";
 import { formatDate } from "~/lib/format";
 import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/team";
@@ -9,11 +11,11 @@ export const meta: Route.MetaFunction = () => [{ title: "Team · Patina" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "team");
-  return { members: await companyMembers(scope), timeZone: scope.timeZone };
+  return { members: await companyMembers(scope), invitations: await pendingInvitations(scope), timeZone: scope.timeZone };
 }
 
 export default function Team({ loaderData }: Route.ComponentProps) {
-  const { members, timeZone } = loaderData;
+  const { members, invitations, timeZone } = loaderData;
   return (
     <div className="space-y-4">
       <h1 className="text-2xl font-semibold tracking-tight">Team</h1>
@@ -31,6 +33,7 @@ export default function Team({ loaderData }: Route.ComponentProps) {
           </li>
         ))}
       </ul>
+      <InvitePanel pending={invitations} timeZone={timeZone} />
     </div>
   );
 }

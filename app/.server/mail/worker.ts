@@ -1,0 +1,42 @@
+import { serverEnv } from "../env";
+import { deliverDueMail } from "./outbox";
+
+const INTERVAL_MS = 15_000;
+
+type WorkerState = { timer: NodeJS.Timeout; running: boolean; again: boolean };
+const holder = globalThis as typeof globalThis & { __patinaMailWorker?: WorkerState };
+
+function drain(state: WorkerState) {
+  if (state.running) {
+    state.again = true;
+    return;
+  }
+  state.running = true;
+  deliverDueMail()
+    .catch((error: unknown) => console.error("[patina] mail delivery failed:", error))
+    .finally(() => {
+      state.running = false;
+      if (state.again) {
+        state.again = false;
+        drain(state);
+      }
+    });
+}
+
+/**
+ * One sender per server process: it drains the outbox every few seconds and
+ * never runs inside a request. Tests call deliverDueMail() themselves.
+ */
+export function ensureMailWorker(): void {
+  if (holder.__patinaMailWorker || serverEnv().NODE_ENV === "test") return;
+  const state: WorkerState = { timer: setInterval(() => drain(state), INTERVAL_MS), running: false, again: false };
+  // The interval must not keep a finished process (a script, a shutdown) alive.
+  state.timer.unref();
+  holder.__patinaMailWorker = state;
+}
+
+/** Asks the sender to look at the outbox now rather than at its next tick. */
+export function nudgeMailWorker(): void {
+  const state = holder.__patinaMailWorker;
+  if (state) setImmediate(() => drain(state));
+}

@@ -1,0 +1,69 @@
+import type { ReactNode } from "react";
+import { PatinaMark } from "~/components/patina-mark";
+
+/** The frame of the pages people reach from an e-mail link, before or without signing in. */
+export function PublicCard({ title, children }: { title: string; children: ReactNode }) {
+  return (
+    <main className="mx-auto flex min-h-dvh max-w-md flex-col justify-center px-5 py-10">
+      <div className="mb-8 flex items-center gap-3">
+        <PatinaMark className="size-10" />
+        <p className="text-2xl font-semibold tracking-tight">Patina</p>
+      </div>
+      <section className="space-y-4 rounded-2xl border border-line bg-white p-6 shadow-sm">
+        <h1 className="text-lg font-semibold">{title}</h1>
+        {children}
+      </section>
+    </main>
+  );
+}
+
+export function TextField(props: {
+  name: string;
+  label: string;
+  type?: "text" | "email" | "password";
+  autoComplete?: string;
+  error?: string;
+  hint?: string;
+  defaultValue?: string;
+}) {
+  const errorId = `${props.name}-error`;
+  const hintId = `${props.name}-hint`;
+  const describedBy = [props.error ? errorId : null, props.hint ? hintId : null].filter(Boolean).join(" ") || undefined;
+  return (
+    <label className="block">
+      <span className="text-sm font-medium">{props.label}</span>
+      <input
+        name={props.name}
+        type={props.type ?? "text"}
+        autoComplete={props.autoComplete}
+        defaultValue={props.defaultValue}
+        required
+        aria-invalid={Boolean(props.error)}
+        aria-describedby={describedBy}
+        className="mt-1 block w-full rounded-lg border border-line px-3 py-3 text-base"
+      />
+      {props.hint ? (
+        <span id={hintId} className="mt-1 block text-sm text-muted">
+          {props.hint}
+        </span>
+      ) : null}
+      {props.error ? (
+        <span id={errorId} className="mt-1 block text-sm text-alert">
+          {props.error}
+        </span>
+      ) : null}
+    </label>
+  );
+}
+
+export function FormProblem({ message }: { message: string | null | undefined }) {
+  if (!message) return null;
+  return (
+    <p role="alert" className="rounded-lg bg-orange-50 px-3 py-2 text-sm text-alert">
+      {message}
+    </p>
+  );
+}
+
+export const primaryButton =
+  "w-full rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60";

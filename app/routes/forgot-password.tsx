@@ -1,0 +1,71 @@
+import { data, Form, Link, useNavigation } from "react-router";
+import { z } from "zod";
+import { requestPasswordReset } from "~/.server/mail/reset-request";
+import { ErrorPanel } from "~/components/error-panel";
+import { FormProblem, primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { fieldErrorsOf } from "~/lib/account-forms";
+import type { Route } from "./+types/forgot-password";
+
+export const meta: Route.MetaFunction = () => [{ title: "Forgot your password · Patina" }];
+
+const requestSchema = z.object({
+  email: z.email({ error: "Enter the e-mail address you sign in with." }),
+});
+
+export async function action({ request }: Route.ActionArgs) {
+  const parsed = requestSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) {
+    return data({ sent: false, fieldErrors: fieldErrorsOf(parsed.error.issues), formError: null }, { status: 400 });
+  }
+  const outcome = await requestPasswordReset(request, parsed.data.email);
+  if (outcome.status === "rate_limited") {
+    const minutes = Math.max(1, Math.ceil(outcome.retryAfterSeconds / 60));
+    return data(
+      { sent: false, fieldErrors: {}, formError: `Too many requests from here. Try again in ${minutes} minute${minutes === 1 ? "" : "s"}.` },
+      { status: 429 },
+    );
+  }
+  return { sent: true, fieldErrors: {}, formError: null };
+}
+
+export default function ForgotPassword({ actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state !== "idle";
+  if (actionData?.sent) {
+    return (
+      <PublicCard title="Check your e-mail">
+        <p>If an account uses that address, a link to choose a new password is on its way. It works for one hour.</p>
+        <p>
+          <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
+            Back to sign-in
+          </Link>
+        </p>
+      </PublicCard>
+    );
+  }
+  const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
+  return (
+    <PublicCard title="Forgot your password?">
+      <p className="text-sm text-muted">Enter the address you sign in with; we e-mail you a link to choose a new password.</p>
+      <Form method="post" className="space-y-4" noValidate>
+        <TextField name="email" label="E-mail" type="email" autoComplete="username" error={fieldErrors.email} />
+        <FormProblem message={actionData?.formError} />
+        <button type="submit" disabled={busy} className={primaryButton}>
+          {busy ? "Sending…" : "Send the link"}
+        </button>
+      </Form>
+      <p className="text-sm">
+        <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
+          Back to sign-in
+        </Link>
+      </p>
+    </PublicCard>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return (
+    <main className="mx-auto max-w-xl p-6">
+      <ErrorPanel error={error} />
+    </main>
+  );
+}

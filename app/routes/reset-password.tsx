@@ -1,0 +1,102 @@
+import { APIError } from "better-auth/api";
+import { data, Form, Link, useNavigation } from "react-router";
+import { z } from "zod";
+import { auth } from "~/.server/auth";
+import { ErrorPanel } from "~/components/error-panel";
+import { FormProblem, primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
+import type { Route } from "./+types/reset-password";
+
+export const meta: Route.MetaFunction = () => [{ title: "Choose a new password · Patina" }];
+
+const resetSchema = z
+  .object({ token: z.string().min(1, { error: "The link has no token; open the link from the e-mail again." }), ...newPasswordFields })
+  .refine(passwordsMatch, passwordMismatch);
+
+export async function loader({ request }: Route.LoaderArgs) {
+  return { token: new URL(request.url).searchParams.get("token") ?? "" };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const parsed = resetSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) {
+    const fieldErrors = fieldErrorsOf(parsed.error.issues);
+    return data({ done: false, fieldErrors, formError: fieldErrors.token ?? null }, { status: 400 });
+  }
+  try {
+    await auth().api.resetPassword({ body: { token: parsed.data.token, newPassword: parsed.data.password } });
+  } catch (error) {
+    if (error instanceof APIError) {
+      return data(
+        { done: false, fieldErrors: {}, formError: "This link has expired or was already used. Ask for a new one." },
+        { status: 410 },
+      );
+    }
+    throw error;
+  }
+  return { done: true, fieldErrors: {}, formError: null };
+}
+
+export default function ResetPassword({ loaderData, actionData }: Route.ComponentProps) {
+  const busy = useNavigation().state !== "idle";
+  if (actionData?.done) {
+    return (
+      <PublicCard title="Password changed">
+        <p>Your new password is set, and every earlier session is signed out.</p>
+        <p>
+          <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
+            Sign in
+          </Link>
+        </p>
+      </PublicCard>
+    );
+  }
+  if (!loaderData.token) {
+    return (
+      <PublicCard title="Choose a new password">
+        <p>This page needs the link from the e-mail. </p>
+        <p>
+          <Link to="/forgot-password" className="font-medium text-verdigris-700 underline">
+            Ask for a new link
+          </Link>
+        </p>
+      </PublicCard>
+    );
+  }
+  const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
+  return (
+    <PublicCard title="Choose a new password">
+      <Form method="post" className="space-y-4" noValidate>
+        <input type="hidden" name="token" value={loaderData.token} />
+        <TextField
+          name="password"
+          label="New password"
+          type="password"
+          autoComplete="new-password"
+          hint="At least 12 characters."
+          error={fieldErrors.password}
+        />
+        <TextField name="confirm" label="New password again" type="password" autoComplete="new-password" error={fieldErrors.confirm} />
+        <FormProblem message={actionData?.formError} />
+        <button type="submit" disabled={busy} className={primaryButton}>
+          {busy ? "Saving…" : "Save the new password"}
+        </button>
+      </Form>
+      {actionData?.formError ? (
+        <p className="text-sm">
+          <Link to="/forgot-password" className="font-medium text-verdigris-700 underline">
+            Ask for a new link
+          </Link>
+        </p>
+      ) : null}
+    </PublicCard>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return (
+    <main className="mx-auto max-w-xl p-6">
+      <ErrorPanel error={error} />
+    </main>
+  );
+}

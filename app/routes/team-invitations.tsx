@@ -1,0 +1,38 @@
+import { data } from "react-router";
+import { z } from "zod";
+import { requireMember } from "~/.server/guard";
+import { inviteMember, withdrawInvitation } from "~/.server/mail/invitations";
+import { fieldErrorsOf } from "~/lib/account-forms";
+import { ROLE_NAMES } from "~/lib/roles";
+import type { Route } from "./+types/team-invitations";
+
+const inviteSchema = z.discriminatedUnion("intent", [
+  z.object({
+    intent: z.literal("invite"),
+    email: z.email({ error: "Enter the e-mail address of the person to invite." }).max(255),
+    role: z.enum(ROLE_NAMES, { error: `Choose a role: ${ROLE_NAMES.join(", ")}.` }),
+  }),
+  z.object({
+    intent: z.literal("withdraw"),
+    invitationId: z.coerce.number().int().positive({ error: "invitationId must be a positive whole number" }),
+  }),
+]);
+
+/** Sending and withdrawing invitations from the team page (owners only). */
+export async function action({ request }: Route.ActionArgs) {
+  const scope = await requireMember(request, "team");
+  const parsed = inviteSchema.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) return data({ ok: false as const, fieldErrors: fieldErrorsOf(parsed.error.issues) }, { status: 400 });
+  if (parsed.data.intent === "withdraw") {
+    const withdrawn = await withdrawInvitation(scope, parsed.data.invitationId);
+    if (!withdrawn) throw data("No pending invitation with that number in your company.", { status: 404 });
+    return { ok: true as const, fieldErrors: {}, invited: null };
+  }
+  const result = await inviteMember(scope, { email: parsed.data.email, role: parsed.data.role });
+  if (!result.ok) return data({ ok: false as const, fieldErrors: { [result.field]: result.message } }, { status: 409 });
+  return { ok: true as const, fieldErrors: {}, invited: parsed.data.email };
+}
+
+export async function loader() {
+  throw data("Invitations are sent from the team page.", { status: 404 });
+}
