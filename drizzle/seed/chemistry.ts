@@ -1,6 +1,7 @@
-// Just enough water chemistry to drive the simulation; the product's own
-// analysis code lives elsewhere and is not imported here so the seed stays
-// self-contained.
+// The simulation's water chemistry. The saturation index comes from the
+// product's own analysis code, so the demo's corrosive spells are corrosive by
+// the same rule the analytics apply.
+import { carbonateAlkalinity, continuousSaturationIndex } from "../../analysis/chemistry/saturation";
 
 export type Balance = {
   ph: number;
@@ -11,15 +12,16 @@ export type Balance = {
   tds: number;
 };
 
-/** Langelier saturation index, continuous form, alkalinity corrected for cyanuric acid. */
+/** Continuous form, alkalinity corrected for cyanuric acid; floors keep the logarithms defined. */
 export function saturationIndex(water: Balance): number {
-  const cyaFactor = 0.3877 / (1 + 10 ** (6.83 - water.ph));
-  const carbonateAlkalinity = Math.max(10, water.totalAlkalinity - water.cyanuricAcid * cyaFactor);
-  const a = (Math.log10(Math.max(50, water.tds)) - 1) / 10;
-  const b = -13.12 * Math.log10(water.temperatureC + 273) + 34.55;
-  const c = Math.log10(Math.max(10, water.calciumHardness)) - 0.4;
-  const d = Math.log10(carbonateAlkalinity);
-  return water.ph - (9.3 + a + b - (c + d));
+  const alkalinity = Math.max(10, carbonateAlkalinity(water.totalAlkalinity, water.cyanuricAcid, water.ph));
+  return continuousSaturationIndex(
+    water.ph,
+    Math.max(50, water.tds),
+    water.temperatureC,
+    Math.max(10, water.calciumHardness),
+    alkalinity,
+  );
 }
 
 /**
