@@ -1,0 +1,288 @@
+import { and, count, eq, inArray, or } from "drizzle-orm";
+import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode } from "@analysis/metals/episodes";
+import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import type { PoolProfile } from "@analysis/metals/route-book";
+import { DEFAULT_SHARED_SOURCE_RULES, sharedSourceAlerts } from "@analysis/metals/shared-source";
+import { metalThresholdsFrom } from "../company-settings";
+import { db } from "../db/client";
+import { alertEvents, ALERT_KINDS, companies, fillSources, mailPreferences, memberships, pools, routes, user } from "../db/schema";
+import { serverEnv } from "../env";
+import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
+import { metalTestsOfPools } from "./metal-rows";
+import { enqueueMail } from "./outbox";
+import type { RenderedMail } from "./templates";
+import { nudgeMailWorker } from "./worker";
+
+/**
+ * Only events this recent are announced, so bringing in years of old logs
+ * does not mail every episode of the past.
+ */
+export const ALERT_LOOKBACK_DAYS = 14;
+
+type AlertKind = (typeof ALERT_KINDS)[number];
+
+type Company = { id: number; name: string; timeZone: string; thresholds: MetalThresholds; alertOwners: boolean };
+
+type AlertEvent = {
+  kind: AlertKind;
+  dedupeKey: string;
+  poolId: number | null;
+  fillSourceId: number | null;
+  metal: Metal;
+  occurredAt: number;
+  details: Record<string, unknown>;
+  mail: RenderedMail;
+};
+
+export type RecordedAlert = { kind: AlertKind; dedupeKey: string; recipients: string[] };
+
+async function companyFor(companyId: number): Promise<Company | null> {
+  const [row] = await db().select().from(companies).where(eq(companies.id, companyId));
+  if (!row) return null;
+  return {
+    id: row.id,
+    name: row.name,
+    timeZone: row.timeZone,
+    thresholds: metalThresholdsFrom(row.settings),
+    alertOwners: row.settings?.alertOwners === true,
+  };
+}
+
+/** The managers, and the owners when the company asks for it, who have not turned alerts off. */
+async function alertRecipients(company: Company) {
+  const roles: Array<"manager" | "owner"> = company.alertOwners ? ["manager", "owner"] : ["manager"];
+  const rows = await db()
+    .select({ userId: user.id, email: user.email, alerts: mailPreferences.alerts })
+    .from(memberships)
+    .innerJoin(user, eq(user.id, memberships.userId))
+    .leftJoin(mailPreferences, eq(mailPreferences.membershipId, memberships.id))
+    .where(and(eq(memberships.companyId, company.id), inArray(memberships.role, roles)));
+  return rows.filter((r) => r.alerts !== false);
+}
+
+async function poolLabels(companyId: number, poolIds: readonly number[]): Promise<Map<number, PoolLabel & { fillSourceId: number | null; active: boolean }>> {
+  if (poolIds.length === 0) return new Map();
+  const rows = await db()
+    .select({
+      poolId: pools.id,
+      customerName: pools.customerName,
+      street: pools.street,
+      routeName: routes.name,
+      fillSourceId: pools.fillSourceId,
+      active: pools.active,
+    })
+    .from(pools)
+    .leftJoin(routes, eq(routes.id, pools.routeId))
+    .where(and(eq(pools.companyId, companyId), inArray(pools.id, [...poolIds])));
+  return new Map(rows.map((r) => [r.poolId, r]));
+}
+
+/** Stores each event once (UNIQUE company + key) and, only for a new event, queues one mail per recipient. */
+async function recordEvents(company: Company, events: AlertEvent[]): Promise<RecordedAlert[]> {
+  if (events.length === 0) return [];
+  const recipients = await alertRecipients(company);
+  const recorded: RecordedAlert[] = [];
+  for (const event of events) {
+    const mailed = await db().transaction(async (tx) => {
+      const [inserted] = await tx
+        .insert(alertEvents)
+        .ignore()
+        .values({
+          companyId: company.id,
+          kind: event.kind,
+          dedupeKey: event.dedupeKey,
+          poolId: event.poolId,
+          fillSourceId: event.fillSourceId,
+          metal: event.metal,
+          occurredAt: new Date(event.occurredAt),
+          details: event.details,
+        });
+      if (inserted.affectedRows !== 1) return null;
+      for (const recipient of recipients) {
+        await enqueueMail(
+          {
+            companyId: company.id,
+            dedupeKey: `alert:${company.id}:${event.dedupeKey}:${recipient.userId}`,
+            kind: "alert",
+            recipient: recipient.email,
+            mail: event.mail,
+          },
+          tx,
+        );
+      }
+      return recipients.map((r) => r.email);
+    });
+    if (mailed) recorded.push({ kind: event.kind, dedupeKey: event.dedupeKey, recipients: mailed });
+  }
+  if (recorded.length > 0) nudgeMailWorker();
+  return recorded;
+}
+
+/** Episodes that opened a case, and openings that made the pool recurring (its first repeat inside the window). */
+function poolEvents(company: Company, label: PoolLabel, episodes: readonly Episode[], valueAt: Map<string, number>, since: number): AlertEvent[] {
+  const common = { baseUrl: serverEnv().PATINA_URL, companyName: company.name, timeZone: company.timeZone };
+  const windowDays = DEFAULT_EPISODE_RULES.recurrenceWindowDays;
+  const events: AlertEvent[] = [];
+  const byMetal = new Map<Metal, Episode[]>();
+  for (const e of episodes) byMetal.set(e.metal, [...(byMetal.get(e.metal) ?? []), e]);
+  for (const [metal, list] of byMetal) {
+    list.sort((a, b) => a.openedAt - b.openedAt);
+    list.forEach((episode, i) => {
+      if (episode.openedAt < since) return;
+      const value = valueAt.get(`${episode.openedByTestId}:${metal}`) ?? episode.peak;
+      const levels = company.thresholds[metal];
+      events.push({
+        kind: "episode_opened",
+        dedupeKey: `episode:${label.poolId}:${metal}:${episode.openedAt}`,
+        poolId: label.poolId,
+        fillSourceId: null,
+        metal,
+        occurredAt: episode.openedAt,
+        details: { value, elevated: levels.elevated, clear: levels.clear, testId: episode.openedByTestId },
+        mail: episodeOpenedMail({ ...common, pool: label, metal, openedAt: episode.openedAt, value, elevatedLevel: levels.elevated, clearLevel: levels.clear }),
+      });
+      const previous = list[i - 1];
+      // The pool "becomes" recurring at the first repeat; later repeats of an already recurring pool are not news.
+      if (episode.recurrence && previous && !previous.recurrence) {
+        const openingsLastYear = list.filter((e) => e.openedAt <= episode.openedAt && episode.openedAt - e.openedAt <= windowDays * DAY_MS).length;
+        events.push({
+          kind: "pool_recurring",
+          dedupeKey: `recurring:${label.poolId}:${metal}:${episode.openedAt}`,
+          poolId: label.poolId,
+          fillSourceId: null,
+          metal,
+          occurredAt: episode.openedAt,
+          details: { previousOpenedAt: new Date(previous.openedAt).toISOString(), openingsLastYear, windowDays },
+          mail: poolRecurringMail({ ...common, pool: label, metal, openedAt: episode.openedAt, previousOpenedAt: previous.openedAt, openingsLastYear, windowDays }),
+        });
+      }
+    });
+  }
+  return events;
+}
+
+async function poolAlerts(company: Company, poolId: number, now: number): Promise<AlertEvent[]> {
+  const labels = await poolLabels(company.id, [poolId]);
+  const label = labels.get(poolId);
+  if (!label) return [];
+  const tests = (await metalTestsOfPools(company.id, [poolId])).filter((t) => t.takenAt <= now);
+  const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
+  const valueAt = new Map<string, number>();
+  for (const t of tests) {
+    for (const metal of ["copper", "iron", "manganese"] as const) {
+      const r = t[metal];
+      if (r) valueAt.set(`${t.id}:${metal}`, r.value);
+    }
+  }
+  return poolEvents(company, label, history.episodes, valueAt, now - ALERT_LOOKBACK_DAYS * DAY_MS);
+}
+
+async function sourceAlerts(company: Company, fillSourceId: number, now: number): Promise<AlertEvent[]> {
+  const [source] = await db()
+    .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
+    .from(fillSources)
+    .where(and(eq(fillSources.id, fillSourceId), eq(fillSources.companyId, company.id)));
+  if (!source) return [];
+  const onSource = await db()
+    .select({ id: pools.id, active: pools.active })
+    .from(pools)
+    .where(and(eq(pools.companyId, company.id), eq(pools.fillSourceId, fillSourceId)));
+  const [activeRow] = await db()
+    .select({ n: count() })
+    .from(pools)
+    .where(and(eq(pools.companyId, company.id), eq(pools.fillSourceId, fillSourceId), eq(pools.active, true)));
+  const tests = (await metalTestsOfPools(company.id, onSource.map((p) => p.id))).filter((t) => t.takenAt <= now);
+  const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
+  const profiles: PoolProfile[] = onSource.map((p) => ({ poolId: String(p.id), fillSourceId: String(fillSourceId) }));
+  const alerts = sharedSourceAlerts(history.episodes, profiles, {
+    activePools: new Map([[String(fillSourceId), activeRow?.n ?? 0]]),
+  });
+  const since = now - ALERT_LOOKBACK_DAYS * DAY_MS;
+  const recent = alerts.filter((a) => a.lastOpeningAt >= since);
+  if (recent.length === 0) return [];
+  const labels = await poolLabels(company.id, [...new Set(recent.flatMap((a) => a.poolIds.map(Number)))]);
+  const common = { baseUrl: serverEnv().PATINA_URL, companyName: company.name, timeZone: company.timeZone };
+  return recent.map((alert) => {
+    const poolsInWave = alert.poolIds.map((id) => labels.get(Number(id))).filter((p): p is NonNullable<typeof p> => Boolean(p));
+    return {
+      kind: "shared_source" as const,
+      // The wave keeps its first opening as it grows, so one wave is one event.
+      dedupeKey: `shared:${fillSourceId}:${alert.metal}:${alert.firstOpeningAt}`,
+      poolId: null,
+      fillSourceId,
+      metal: alert.metal,
+      occurredAt: alert.lastOpeningAt,
+      details: {
+        poolIds: alert.poolIds.map(Number),
+        activePools: alert.activePools,
+        poolsRequired: alert.poolsRequired,
+        firstOpeningAt: new Date(alert.firstOpeningAt).toISOString(),
+        lastOpeningAt: new Date(alert.lastOpeningAt).toISOString(),
+      },
+      mail: sharedSourceMail({
+        ...common,
+        source,
+        metal: alert.metal,
+        firstOpeningAt: alert.firstOpeningAt,
+        lastOpeningAt: alert.lastOpeningAt,
+        pools: poolsInWave,
+        activePools: alert.activePools,
+        poolsRequired: alert.poolsRequired,
+        windowDays: DEFAULT_SHARED_SOURCE_RULES.windowDays,
+      }),
+    };
+  });
+}
+
+/**
+ * Works out the pool's alerts from its metal readings (new episode, newly
+ * recurring, a shared-source wave on its fill source), records each event once
+ * and queues one e-mail per recipient. Safe to call any number of times.
+ */
+export async function recordAlertsForPool(companyId: number, poolId: number, options: { now?: Date } = {}): Promise<RecordedAlert[]> {
+  return recordAlertsForPools(companyId, [poolId], options);
+}
+
+async function recordAlertsForPools(companyId: number, poolIds: readonly number[], options: { now?: Date }): Promise<RecordedAlert[]> {
+  const company = await companyFor(companyId);
+  if (!company) return [];
+  const now = (options.now ?? new Date()).getTime();
+  const unique = [...new Set(poolIds)];
+  const events: AlertEvent[] = [];
+  for (const poolId of unique) events.push(...(await poolAlerts(company, poolId, now)));
+  const labels = await poolLabels(companyId, unique);
+  const sources = new Set([...labels.values()].map((p) => p.fillSourceId).filter((id): id is number => id !== null));
+  for (const sourceId of sources) events.push(...(await sourceAlerts(company, sourceId, now)));
+  return recordEvents(company, events);
+}
+
+/**
+ * For the visit log and the import: call after the tests are committed, e.g.
+ * `void afterWaterTestsSaved(companyId, poolIds)`. It never throws, so a
+ * problem with alerts can never undo or fail the save that triggered it.
+ */
+export async function afterWaterTestsSaved(
+  companyId: number,
+  poolIds: readonly number[],
+  options: { now?: Date } = {},
+): Promise<RecordedAlert[]> {
+  try {
+    return await recordAlertsForPools(companyId, poolIds, options);
+  } catch (error) {
+    console.error(`[patina] alerts for company ${companyId} could not be worked out:`, error);
+    return [];
+  }
+}
+
+/** Events already recorded for a pool or its fill source (for pages and tests). */
+export async function alertEventsFor(companyId: number, where: { poolId?: number; fillSourceId?: number }) {
+  const conditions = [
+    where.poolId !== undefined ? eq(alertEvents.poolId, where.poolId) : undefined,
+    where.fillSourceId !== undefined ? eq(alertEvents.fillSourceId, where.fillSourceId) : undefined,
+  ].filter(Boolean);
+  return db()
+    .select()
+    .from(alertEvents)
+    .where(and(eq(alertEvents.companyId, companyId), conditions.length > 0 ? or(...conditions) : undefined))
+    .orderBy(alertEvents.occurredAt);
+}
