@@ -1,0 +1,262 @@
+import type { PoolConnection, ResultSetHeader, RowDataPacket } from "mysql2/promise";
+import { and, eq } from "drizzle-orm";
+import { readImportOptions } from "~/lib/imports/options";
+import { accountKey } from "~/lib/imports/match-keys";
+import { db, pool as connectionPool } from "../db/client";
+import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
+import type { Scope } from "../guard";
+import { type ImportPlan, type PlannedRow, planImport, type PlanSummary } from "./plan";
+import { findUpload, reportProgress } from "./uploads";
+
+/** Rows per multi-row INSERT: large enough to be quick, small enough for one packet. */
+export const INSERT_CHUNK = 1000;
+
+export type CommitHooks = {
+  /** Called after each stored chunk, inside the open transaction (tests use it to break the commit). */
+  afterChunk?: (info: { table: "water_tests" | "treatments"; stored: number; connectionId: number }) => Promise<void>;
+};
+
+export type CommitResult =
+  | { ok: true; batchId: number; testsAdded: number; treatmentsAdded: number; summary: PlanSummary }
+  | { ok: false; status: 404 | 409 | 422; message: string };
+
+const TEST_COLUMNS = [
+  "company_id",
+  "pool_id",
+  "sampled_at",
+  "free_chlorine",
+  "combined_chlorine",
+  "ph",
+  "total_alkalinity",
+  "calcium_hardness",
+  "cyanuric_acid",
+  "salt",
+  "tds",
+  "temperature_c",
+  "copper",
+  "copper_below_detection",
+  "iron",
+  "iron_below_detection",
+  "manganese",
+  "manganese_below_detection",
+  "note",
+  "import_batch_id",
+] as const;
+
+function testValues(companyId: number, poolId: number, batchId: number, entry: PlannedRow) {
+  const t = entry.record.test!;
+  return [
+    companyId,
+    poolId,
+    entry.record.sampledAt,
+    t.freeChlorine ?? null,
+    t.combinedChlorine ?? null,
+    t.ph ?? null,
+    t.totalAlkalinity ?? null,
+    t.calciumHardness ?? null,
+    t.cyanuricAcid ?? null,
+    t.salt ?? null,
+    t.tds ?? null,
+    t.temperatureC ?? null,
+    t.copper ?? null,
+    t.copperBelowDetection ?? false,
+    t.iron ?? null,
+    t.ironBelowDetection ?? false,
+    t.manganese ?? null,
+    t.manganeseBelowDetection ?? false,
+    t.note ?? null,
+    batchId,
+  ];
+}
+
+/**
+ * Stores every accepted row of the upload as one import batch, in one
+ * transaction: a failure anywhere (a refused insert, a lost connection, a
+ * stopped server) leaves nothing behind. Rows already stored are skipped.
+ */
+export async function commitUpload(scope: Scope, uploadId: string, hooks: CommitHooks = {}): Promise<CommitResult> {
+  const upload = await findUpload(scope, uploadId);
+  if (!upload) return { ok: false, status: 404, message: "No upload with that id in your company." };
+  if (upload.phase === "committed") return { ok: false, status: 409, message: "This file has already been imported." };
+  if (upload.phase === "discarded") return { ok: false, status: 409, message: "This upload was set aside; upload the file again." };
+  const options = readImportOptions(upload.options);
+  if (!options) return { ok: false, status: 422, message: "The column choices for this file are not valid; choose them again." };
+  if (!(await claimForCommit(upload.id))) {
+    return { ok: false, status: 409, message: "This file is being imported right now." };
+  }
+
+  let planned: Awaited<ReturnType<typeof planImport>>;
+  try {
+    planned = await planImport(scope, upload, options, "committing");
+  } catch (error) {
+    await reportProgress(upload.id, { phase: "failed", error: `Nothing was stored: ${String(error)}` });
+    throw error;
+  }
+  const { plan, summary } = planned;
+  if ((plan.dateOrder.kind === "ambiguous" || plan.dateOrder.kind === "conflicting") && !options.dateOrder) {
+    await reportProgress(upload.id, { phase: "checked" });
+    return { ok: false, status: 422, message: `Choose the date order first: ${plan.dateOrder.reason}.` };
+  }
+  const total = plan.testsToAdd + plan.treatmentsToAdd;
+  await reportProgress(upload.id, { phase: "committing", rowsDone: 0, rowsTotal: total });
+
+  const connection = await connectionPool().getConnection();
+  let broken = false;
+  try {
+    const [[{ connectionId }]] = (await connection.query("SELECT CONNECTION_ID() AS connectionId")) as unknown as [[{ connectionId: number }]];
+    await connection.beginTransaction();
+    const batchId = await insertBatch(connection, scope, upload.fileName, upload.fileSha256, plan);
+    const newPools = await createPools(connection, scope, plan);
+    const newProducts = await createProducts(connection, scope, plan);
+    const poolIdOf = (entry: PlannedRow) => ("id" in entry.pool ? entry.pool.id : newPools.get(entry.pool.newKey)!);
+
+    let stored = 0;
+    const tests = plan.planned.filter((p) => p.testIsNew);
+    for (let i = 0; i < tests.length; i += INSERT_CHUNK) {
+      const chunk = tests.slice(i, i + INSERT_CHUNK);
+      await connection.query(`INSERT INTO water_tests (${TEST_COLUMNS.join(", ")}) VALUES ?`, [
+        chunk.map((entry) => testValues(scope.companyId, poolIdOf(entry), batchId, entry)),
+      ]);
+      stored += chunk.length;
+      await reportProgress(upload.id, { rowsDone: stored });
+      await hooks.afterChunk?.({ table: "water_tests", stored, connectionId });
+    }
+
+    const withTreatment = plan.planned.filter((p) => p.product !== null && p.record.treatment);
+    const testIds = withTreatment.some((p) => p.testIsNew) ? await storedTestIds(connection, batchId) : new Map<string, number>();
+    for (let i = 0; i < withTreatment.length; i += INSERT_CHUNK) {
+      const chunk = withTreatment.slice(i, i + INSERT_CHUNK);
+      await connection.query(
+        "INSERT INTO treatments (company_id, pool_id, product_id, applied_at, amount, unit, cost, water_test_id, import_batch_id) VALUES ?",
+        [
+          chunk.map((entry) => {
+            const poolId = poolIdOf(entry);
+            const product = entry.product!;
+            const treatment = entry.record.treatment!;
+            return [
+              scope.companyId,
+              poolId,
+              "id" in product ? product.id : newProducts.get(product.newKey)!,
+              entry.record.sampledAt,
+              treatment.amount,
+              treatment.unit,
+              treatment.cost,
+              testIds.get(`${poolId}|${entry.record.sampledAt.getTime()}`) ?? null,
+              batchId,
+            ];
+          }),
+        ],
+      );
+      stored += chunk.length;
+      await reportProgress(upload.id, { rowsDone: stored });
+      await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
+    }
+
+    await connection.query(
+      "UPDATE import_uploads SET phase = 'committed', rows_done = ?, import_batch_id = ?, summary = ?, error = NULL, updated_at = CURRENT_TIMESTAMP(3) WHERE id = ?",
+      [stored, batchId, JSON.stringify(summary), upload.id],
+    );
+    await connection.commit();
+    return { ok: true, batchId, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
+  } catch (error) {
+    broken = true;
+    await connection.rollback().catch(() => undefined);
+    await reportProgress(upload.id, {
+      phase: "failed",
+      rowsDone: 0,
+      error: `Nothing was stored: ${error instanceof Error ? error.message : String(error)}`,
+    }).catch(() => undefined);
+    throw error;
+  } finally {
+    // A connection that failed half-way may be dead or mid-transaction: never hand it back.
+    if (broken) connection.destroy();
+    else connection.release();
+  }
+}
+
+/**
+ * Only one commit per upload at a time. A commit that has said nothing for ten
+ * minutes belongs to a stopped server, so it may be taken over (its
+ * transaction was rolled back when its connection closed).
+ */
+async function claimForCommit(uploadId: string): Promise<boolean> {
+  const [result] = await connectionPool().query<ResultSetHeader>(
+    `UPDATE import_uploads SET phase = 'committing', rows_done = 0, error = NULL, updated_at = CURRENT_TIMESTAMP(3)
+     WHERE id = ? AND (phase NOT IN ('committing', 'committed', 'discarded') OR (phase = 'committing' AND updated_at < NOW(3) - INTERVAL 10 MINUTE))`,
+    [uploadId],
+  );
+  return result.affectedRows === 1;
+}
+
+async function insertBatch(
+  connection: PoolConnection,
+  scope: Scope,
+  fileName: string,
+  fileSha256: string,
+  plan: ImportPlan,
+): Promise<number> {
+  const [result] = await connection.query<ResultSetHeader>(
+    "INSERT INTO import_batches (company_id, user_id, file_name, file_sha256, status, tests_added, treatments_added, rows_duplicate, rows_refused) VALUES (?, ?, ?, ?, 'committed', ?, ?, ?, ?)",
+    [scope.companyId, scope.userId, fileName, fileSha256, plan.testsToAdd, plan.treatmentsToAdd, plan.duplicates, plan.refusedRows],
+  );
+  return result.insertId;
+}
+
+/** Creates the unknown pools the person chose to add, from the file's own columns. */
+async function createPools(connection: PoolConnection, scope: Scope, plan: ImportPlan): Promise<Map<string, number>> {
+  const ids = new Map<string, number>();
+  for (const unknown of plan.unknownPools.filter((p) => p.create)) {
+    const code = unknown.accountCode ? accountKey(unknown.accountCode) : `IMP-${unknown.firstRow}-${Date.now().toString(36)}`.slice(0, 40);
+    const [result] = await connection.query<ResultSetHeader>(
+      "INSERT INTO pools (company_id, account_code, customer_name, street) VALUES (?, ?, ?, ?)",
+      [scope.companyId, code, unknown.customerName ?? "Not given in the imported file", unknown.address ?? "Not given in the imported file"],
+    );
+    ids.set(unknown.key, result.insertId);
+  }
+  return ids;
+}
+
+async function createProducts(connection: PoolConnection, scope: Scope, plan: ImportPlan): Promise<Map<string, number>> {
+  const ids = new Map<string, number>();
+  for (const unknown of plan.unknownProducts.filter((p) => p.create)) {
+    const [result] = await connection.query<ResultSetHeader>(
+      "INSERT INTO products (company_id, name, category) VALUES (?, ?, 'other')",
+      [scope.companyId, unknown.name],
+    );
+    ids.set(unknown.key, result.insertId);
+  }
+  return ids;
+}
+
+async function storedTestIds(connection: PoolConnection, batchId: number): Promise<Map<string, number>> {
+  const [rows] = await connection.query<RowDataPacket[]>(
+    "SELECT id, pool_id AS poolId, sampled_at AS sampledAt FROM water_tests WHERE import_batch_id = ?",
+    [batchId],
+  );
+  return new Map(rows.map((r) => [`${r.poolId}|${new Date(r.sampledAt).getTime()}`, Number(r.id)]));
+}
+
+/** Removes exactly the rows of one batch and marks it undone. */
+export async function undoBatch(scope: Scope, batchId: number): Promise<{ ok: true; tests: number; treatments: number } | { ok: false; status: 404 | 409; message: string }> {
+  return db().transaction(async (tx) => {
+    const [batch] = await tx
+      .select()
+      .from(importBatches)
+      .where(and(eq(importBatches.id, batchId), eq(importBatches.companyId, scope.companyId)))
+      .for("update");
+    if (!batch) return { ok: false as const, status: 404 as const, message: "No import batch with that number in your company." };
+    if (batch.status === "undone") return { ok: false as const, status: 409 as const, message: "This import has already been undone." };
+    const [removedTreatments] = await tx
+      .delete(treatments)
+      .where(and(eq(treatments.importBatchId, batchId), eq(treatments.companyId, scope.companyId)));
+    const [removedTests] = await tx
+      .delete(waterTests)
+      .where(and(eq(waterTests.importBatchId, batchId), eq(waterTests.companyId, scope.companyId)));
+    await tx.update(importBatches).set({ status: "undone", undoneAt: new Date() }).where(eq(importBatches.id, batchId));
+    await tx
+      .update(importUploads)
+      .set({ phase: "discarded", updatedAt: new Date() })
+      .where(and(eq(importUploads.importBatchId, batchId), eq(importUploads.companyId, scope.companyId)));
+    return { ok: true as const, tests: removedTests.affectedRows, treatments: removedTreatments.affectedRows };
+  });
+}

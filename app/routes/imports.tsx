@@ -1,0 +1,151 @@
+import { z } from "zod";
+import { data, Form, Link, useNavigation } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { importHistory } from "~/.server/imports/check";
+import { undoBatch } from "~/.server/imports/commit";
+import { uploadsInProgress } from "~/.server/imports/uploads";
+import { ErrorPanel } from "~/components/error-panel";
+import { formatCount, formatDateTime } from "~/lib/format";
+import type { Route } from "./+types/imports";
+
+export const meta: Route.MetaFunction = () => [{ title: "Imports · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "imports");
+  const [batches, uploads] = await Promise.all([importHistory(scope), uploadsInProgress(scope)]);
+  return { batches, uploads, timeZone: scope.timeZone };
+}
+
+const undoForm = z.object({
+  intent: z.literal("undo", { error: "intent must be undo" }),
+  batchId: z.coerce.number({ error: "batchId must be a number" }).int().positive({ error: "batchId must be positive" }),
+});
+
+export async function action({ request }: Route.ActionArgs) {
+  const scope = await requireMember(request, "imports");
+  const parsed = undoForm.safeParse(Object.fromEntries(await request.formData()));
+  if (!parsed.success) {
+    const issue = parsed.error.issues[0];
+    return data({ ok: false as const, message: `${issue?.path.join(".")}: ${issue?.message}` }, { status: 400 });
+  }
+  const result = await undoBatch(scope, parsed.data.batchId);
+  if (!result.ok) return data({ ok: false as const, message: result.message }, { status: result.status });
+  return {
+    ok: true as const,
+    message: `Import ${parsed.data.batchId} undone: ${formatCount(result.tests)} water tests and ${formatCount(result.treatments)} treatments removed.`,
+  };
+}
+
+const PHASE_WORDS: Record<string, string> = {
+  uploaded: "waiting for a check",
+  checking: "being checked",
+  checked: "checked, not imported yet",
+  committing: "being imported",
+  failed: "stopped; nothing stored",
+};
+
+export default function Imports({ loaderData, actionData }: Route.ComponentProps) {
+  const { batches, uploads, timeZone } = loaderData;
+  const navigation = useNavigation();
+  return (
+    <div className="space-y-8">
+      <div className="flex flex-wrap items-end justify-between gap-3">
+        <div>
+          <h1 className="text-2xl font-semibold tracking-tight">Imports</h1>
+          <p className="text-muted">Past logs brought into Patina, newest first. Each import can be taken back whole.</p>
+        </div>
+        <Link to="/imports/new" className="rounded-lg bg-verdigris-700 px-4 py-2 font-medium text-white hover:bg-verdigris-900">
+          Upload a log
+        </Link>
+      </div>
+      {actionData ? (
+        <p role={actionData.ok ? "status" : "alert"} className={`rounded-lg border bg-white p-3 text-sm ${actionData.ok ? "border-line" : "border-alert text-alert"}`}>
+          {actionData.message}
+        </p>
+      ) : null}
+
+      <section aria-labelledby="open-uploads">
+        <h2 id="open-uploads" className="mb-2 text-lg font-semibold">Files not imported yet</h2>
+        {uploads.length === 0 ? (
+          <p className="rounded-xl border border-line bg-white p-4 text-muted">No file is waiting: every upload has been imported or set aside.</p>
+        ) : (
+          <ul className="divide-y divide-line rounded-xl border border-line bg-white">
+            {uploads.map((u) => (
+              <li key={u.id} className="flex flex-wrap items-center justify-between gap-2 px-4 py-3">
+                <Link to={`/imports/${u.id}`} className="font-medium text-verdigris-700 underline">{u.fileName}</Link>
+                <span className="text-sm text-muted">
+                  {PHASE_WORDS[u.phase] ?? u.phase} · {formatCount(u.rowsTotal ?? 0)} rows · {formatDateTime(u.createdAt, timeZone)}
+                </span>
+              </li>
+            ))}
+          </ul>
+        )}
+      </section>
+
+      <section aria-labelledby="history">
+        <h2 id="history" className="mb-2 text-lg font-semibold">Import history</h2>
+        {batches.length === 0 ? (
+          <p className="rounded-xl border border-line bg-white p-4 text-muted">Nothing has been imported yet. Upload a log to bring past tests in.</p>
+        ) : (
+          <div className="overflow-x-auto rounded-xl border border-line bg-white">
+            <table className="w-full text-left text-sm tabular-nums">
+              <caption className="sr-only">Every import: file, who, when, what it added and what it skipped</caption>
+              <thead className="border-b border-line text-muted">
+                <tr>
+                  <th scope="col" className="px-3 py-2 font-medium">File</th>
+                  <th scope="col" className="px-3 py-2 font-medium">By</th>
+                  <th scope="col" className="px-3 py-2 font-medium">When</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Tests added</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Treatments added</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Already stored</th>
+                  <th scope="col" className="px-3 py-2 font-medium">Refused</th>
+                  <th scope="col" className="px-3 py-2 font-medium"><span className="sr-only">Undo</span></th>
+                </tr>
+              </thead>
+              <tbody className="divide-y divide-line">
+                {batches.map((b) => (
+                  <tr key={b.id}>
+                    <td className="px-3 py-2 font-medium">{b.fileName}</td>
+                    <td className="px-3 py-2">{b.userName ?? "—"}</td>
+                    <td className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.createdAt, timeZone)}</td>
+                    <td className="px-3 py-2">{formatCount(b.testsAdded)}</td>
+                    <td className="px-3 py-2">{formatCount(b.treatmentsAdded)}</td>
+                    <td className="px-3 py-2">{formatCount(b.rowsDuplicate)}</td>
+                    <td className="px-3 py-2">{formatCount(b.rowsRefused)}</td>
+                    <td className="px-3 py-2">
+                      {b.status === "undone" ? (
+                        <span className="text-muted">undone {formatDateTime(b.undoneAt, timeZone)}</span>
+                      ) : (
+                        <Form
+                          method="post"
+                          onSubmit={(event) => {
+                            if (!confirm(`Remove the ${b.testsAdded} tests and ${b.treatmentsAdded} treatments of "${b.fileName}"?`)) event.preventDefault();
+                          }}
+                        >
+                          <input type="hidden" name="intent" value="undo" />
+                          <input type="hidden" name="batchId" value={b.id} />
+                          <button
+                            type="submit"
+                            disabled={navigation.state !== "idle"}
+                            className="rounded-lg border border-line px-3 py-1 font-medium hover:bg-verdigris-50"
+                            aria-label={`Undo the import of ${b.fileName}`}
+                          >
+                            Undo
+                          </button>
+                        </Form>
+                      )}
+                    </td>
+                  </tr>
+                ))}
+              </tbody>
+            </table>
+          </div>
+        )}
+      </section>
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

@@ -1,0 +1,99 @@
+import mysql from "mysql2/promise";
+import { count, eq } from "drizzle-orm";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { db } from "~/.server/db/client";
+import { importBatches, importUploads, waterTests } from "~/.server/db/schema";
+import type { Scope } from "~/.server/guard";
+import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
+import { storeUpload } from "~/.server/imports/uploads";
+import { TEST_DATABASE_URL } from "../fixtures/database";
+import { createCompany, createMember, createPool } from "../fixtures/company";
+import { useScratchUploadDir } from "./imports-helpers";
+
+const ROWS = 5_000;
+const POOLS = 10;
+let scope: Scope;
+let other: mysql.Connection;
+
+/** A file written for this test: 5,000 hourly readings spread over 10 pools, all valid. */
+function largeFile(): Uint8Array {
+  const lines = ["Account,Date,pH,Cu"];
+  const start = Date.UTC(2023, 0, 1);
+  for (let i = 0; i < ROWS; i++) {
+    const at = new Date(start + i * 3_600_000).toISOString().slice(0, 16).replace("T", " ");
+    lines.push(`AT-${i % POOLS},${at},7.${i % 10},0.${i % 5}`);
+  }
+  return new TextEncoder().encode(lines.join("\n"));
+}
+
+async function stored() {
+  const [tests] = await db().select({ n: count() }).from(waterTests).where(eq(waterTests.companyId, scope.companyId));
+  const [batches] = await db().select({ n: count() }).from(importBatches).where(eq(importBatches.companyId, scope.companyId));
+  return { tests: tests!.n, batches: batches!.n };
+}
+
+beforeAll(async () => {
+  useScratchUploadDir();
+  const companyId = await createCompany();
+  for (let p = 0; p < POOLS; p++) await createPool(companyId, { routeId: null, accountCode: `AT-${p}` });
+  const member = await createMember(companyId, "analyst");
+  scope = { userId: member.userId, userName: "Test analyst", email: member.email, companyId, companyName: "", timeZone: "UTC", role: "analyst", routeIds: null };
+  other = await mysql.createConnection({ uri: TEST_DATABASE_URL, timezone: "Z" });
+});
+
+afterAll(async () => {
+  await other?.end();
+});
+
+describe("a commit that fails half-way stores nothing", () => {
+  it("the database connection is killed after the second chunk", async () => {
+    const uploadId = await storeUpload(scope, "killed.csv", largeFile());
+    let killedAt = 0;
+    await expect(
+      commitUpload(scope, uploadId, {
+        afterChunk: async ({ stored: done, connectionId }) => {
+          if (done === 2 * INSERT_CHUNK) {
+            killedAt = done;
+            await other.query(`KILL CONNECTION ${Number(connectionId)}`);
+          }
+        },
+      }),
+    ).rejects.toThrow();
+    // 2,000 rows had been sent inside the transaction when the connection died.
+    expect(killedAt).toBe(2000);
+    expect(await stored()).toEqual({ tests: 0, batches: 0 });
+    const [upload] = await db().select().from(importUploads).where(eq(importUploads.id, uploadId));
+    expect(upload!.phase).toBe("failed");
+    expect(upload!.error).toMatch(/^Nothing was stored/);
+  });
+
+  it("the last row is refused by the database after 4,000 rows went in", async () => {
+    const uploadId = await storeUpload(scope, "late-failure.csv", largeFile());
+    // The file's last row: i = 4999 -> pool AT-9 at 2023-01-01 00:00 + 4999 h.
+    const [[lastPool]] = (await other.query("SELECT id FROM pools WHERE company_id = ? AND account_code = 'AT-9'", [scope.companyId])) as unknown as [[{ id: number }]];
+    const lastAt = new Date(Date.UTC(2023, 0, 1) + 4999 * 3_600_000);
+    await expect(
+      commitUpload(scope, uploadId, {
+        afterChunk: async ({ stored: done }) => {
+          // Another visit is logged for the same pool and time while the import runs.
+          if (done === INSERT_CHUNK) {
+            await other.query("INSERT INTO water_tests (company_id, pool_id, sampled_at, ph) VALUES (?, ?, ?, 7.2)", [scope.companyId, lastPool.id, lastAt]);
+          }
+        },
+      }),
+    ).rejects.toThrow(/Duplicate entry/);
+    // Only the visit logged by the other connection remains; none of the 4,999 rows before it.
+    expect(await stored()).toEqual({ tests: 1, batches: 0 });
+    await other.query("DELETE FROM water_tests WHERE company_id = ?", [scope.companyId]);
+  });
+
+  it("after a failure the same upload can be committed, and then stores every row once", async () => {
+    const [failed] = await db().select({ id: importUploads.id }).from(importUploads).where(eq(importUploads.fileName, "killed.csv"));
+    const result = await commitUpload(scope, failed!.id);
+    expect(result).toMatchObject({ ok: true, testsAdded: ROWS });
+    expect(await stored()).toEqual({ tests: ROWS, batches: 1 });
+    const again = await storeUpload(scope, "killed-again.csv", largeFile());
+    expect(await commitUpload(scope, again)).toMatchObject({ ok: true, testsAdded: 0 });
+    expect((await stored()).tests).toBe(ROWS);
+  });
+});

@@ -1,0 +1,62 @@
+import { readFileSync } from "node:fs";
+import { mkdtempSync } from "node:fs";
+import { tmpdir } from "node:os";
+import { join } from "node:path";
+import { callRoute } from "../fixtures/route-call";
+import { type FixtureMember, requestAs } from "../fixtures/company";
+import * as uploadsApi from "~/routes/api/import-uploads";
+import * as checkPage from "~/routes/import-check";
+
+/** Uploads go to a folder of this run's own. */
+export function useScratchUploadDir() {
+  process.env.PATINA_UPLOAD_DIR = mkdtempSync(join(tmpdir(), "patina-imports-"));
+}
+
+export function fixtureBytes(name: string): Uint8Array<ArrayBuffer> {
+  return new Uint8Array(readFileSync(new URL(`../fixtures/imports/${name}`, import.meta.url)));
+}
+
+export async function upload(member: FixtureMember | null, fileName: string, bytes: Uint8Array<ArrayBuffer>) {
+  const form = new FormData();
+  form.append("file", new File([bytes], fileName, { type: "text/csv" }));
+  const request = requestAs(member, "/api/imports/uploads", {
+    method: "POST",
+    body: form,
+    headers: { Accept: "application/json" },
+  });
+  return callRoute(uploadsApi.action, request);
+}
+
+export async function uploadFixture(member: FixtureMember, name: string) {
+  const outcome = await upload(member, name, fixtureBytes(name));
+  if (outcome.status !== 201) throw new Error(`upload of ${name} answered ${outcome.status}: ${JSON.stringify(outcome.body)}`);
+  return (outcome.body as { uploadId: string }).uploadId;
+}
+
+type CheckData = Awaited<ReturnType<typeof checkPage.loader>>;
+
+export async function checkPageData(member: FixtureMember, uploadId: string) {
+  const outcome = await callRoute(checkPage.loader, requestAs(member, `/imports/${uploadId}`), { uploadId });
+  return outcome as { status: number; body: CheckData };
+}
+
+/** Posts the check page's form with the upload's current choices, changed by `change`. */
+export async function postCheckForm(
+  member: FixtureMember,
+  uploadId: string,
+  intent: string,
+  change: (form: FormData) => void = () => undefined,
+) {
+  const page = await checkPageData(member, uploadId);
+  const form = new FormData();
+  form.set("intent", intent);
+  page.body.options?.columns.forEach((column, index) => {
+    form.set(`column-${index}`, column.field);
+    if (column.unit) form.set(`unit-${index}`, column.unit);
+  });
+  if (page.body.options?.dateOrder) form.set("dateOrder", page.body.options.dateOrder);
+  for (const key of page.body.options?.createPools ?? []) form.append("createPool", key);
+  for (const key of page.body.options?.createProducts ?? []) form.append("createProduct", key);
+  change(form);
+  return callRoute(checkPage.action, requestAs(member, `/imports/${uploadId}`, { method: "POST", body: form }), { uploadId });
+}
