@@ -48,6 +48,15 @@ export default [
     route("pools/:poolId", "routes/api/pool.ts"),
     // api: route book and visits
     // api: analytics
+    route("analytics/summary", "routes/api/analytics/summary.ts"),
+    route("analytics/trend", "routes/api/analytics/trend.ts"),
+    route("analytics/groups", "routes/api/analytics/groups.ts"),
+    route("analytics/recurring", "routes/api/analytics/recurring.ts"),
+    route("analytics/alerts", "routes/api/analytics/alerts.ts"),
+    route("analytics/sources", "routes/api/analytics/sources.ts"),
+    route("analytics/outcomes", "routes/api/analytics/outcomes.ts"),
+    route("analytics/pools/:poolId/series", "routes/api/analytics/pool-series.ts"),
+    route("analytics/pools/:poolId/evidence", "routes/api/analytics/pool-evidence.ts"),
     // api: imports and exports
     route("imports/uploads", "routes/api/import-uploads.ts"),
     route("imports/:uploadId", "routes/api/import-upload.ts"),

@@ -1,0 +1,90 @@
+import { analyseMetalHistory } from "@analysis/metals/episodes";
+import { likelySourceEvidence, type Evidence, type FillSourceTest } from "@analysis/metals/likely-source";
+import type { BalanceBand } from "@analysis/chemistry/saturation";
+import type { SharedSourceAlert } from "@analysis/metals/shared-source";
+import { episodeJson, isoInstant, type EpisodeJson } from "~/lib/analytics/json";
+import type { Scope } from "../../guard";
+import { poolBalance, poolInScope } from "./pool-series";
+import { dayToMs, metalReadings, poolProfiles, sourceTestRows, treatmentRows } from "./rows";
+import { sharedSourceAlertList } from "./shared-source-alerts";
+import type { AnalyticsParams } from "./window";
+
+export type EpisodeEvidence = EpisodeJson & { evidence: Array<{ kind: Evidence["kind"]; reason: string; at: string | null }> };
+
+export type PoolEvidence = {
+  poolId: number;
+  episodes: EpisodeEvidence[];
+  openEpisodes: number;
+  note: string;
+};
+
+/**
+ * Each metal episode of one pool with the evidence that points at a cause:
+ * fill-water tests and shared-source alerts, an ageing copper exchanger with
+ * corrosive water before onset, copper algaecide or an ioniser, iron with well
+ * water. Evidence, not a verdict. Null when the pool is not in scope.
+ */
+export async function poolEvidence(
+  scope: Scope,
+  poolId: number,
+  params: AnalyticsParams & { balanceBand: BalanceBand },
+  formatDate?: (epochMs: number) => string,
+): Promise<PoolEvidence | null> {
+  if (!(await poolInScope(scope, poolId))) return null;
+  const [readings, book, treated, balance] = await Promise.all([
+    metalReadings(scope, { window: params.window, poolIds: [poolId] }),
+    poolProfiles(scope, { poolIds: [poolId] }),
+    // Algaecide evidence looks back before the window's first episode.
+    treatmentRows(scope, { window: { from: null, to: params.window.to }, poolIds: [poolId] }),
+    poolBalance(scope.companyId, poolId, { from: null, to: params.window.to }),
+  ]);
+  const pool = book.profiles[0]!;
+  const sourceId = book.labels.get(poolId)?.fillSourceId ?? null;
+  const [sourceTests, alerts] = await Promise.all([
+    sourceId === null ? Promise.resolve([]) : sourceTestRows(scope.companyId, [sourceId]),
+    sourceId === null
+      ? Promise.resolve({ alerts: [] })
+      : sharedSourceAlertList(scope, { ...params, window: { from: null, to: params.window.to }, metal: null, sourceIds: [sourceId] }),
+  ]);
+  const fillSourceTests: FillSourceTest[] = sourceTests.map((t) => ({
+    fillSourceId: String(t.fillSourceId),
+    takenAt: dayToMs(t.sampledOn)!,
+    copper: t.copper,
+    iron: t.iron,
+    manganese: t.manganese,
+  }));
+  const sharedSourceAlerts: SharedSourceAlert[] = alerts.alerts.map((a) => ({
+    fillSourceId: String(a.fillSourceId),
+    metal: a.metal,
+    firstOpeningAt: Date.parse(a.firstOpeningAt),
+    lastOpeningAt: Date.parse(a.lastOpeningAt),
+    // The alert names only pools in scope; the count is what the reason uses.
+    poolIds: Array.from({ length: a.poolCount }, (_, i) => String(a.pools[i]?.poolId ?? `other-${i}`)),
+    activePools: a.activePools,
+    poolsRequired: a.poolsRequired,
+  }));
+  const history = analyseMetalHistory(readings, { thresholds: params.thresholds });
+  const episodes = history.episodes
+    .sort((a, b) => b.openedAt - a.openedAt)
+    .map((e) => ({
+      ...episodeJson(e),
+      evidence: likelySourceEvidence({
+        pool,
+        metal: e.metal,
+        onsetAt: e.openedAt,
+        fillSourceTests,
+        sharedSourceAlerts,
+        balance,
+        treatments: treated,
+        thresholds: params.thresholds,
+        rules: { balanceBand: params.balanceBand },
+        formatDate,
+      }).map((ev) => ({ kind: ev.kind, reason: ev.reason, at: isoInstant(ev.at) })),
+    }));
+  return {
+    poolId,
+    episodes,
+    openEpisodes: episodes.filter((e) => e.censored).length,
+    note: "Evidence points at possible causes; more than one can be at work. It is not a verdict.",
+  };
+}

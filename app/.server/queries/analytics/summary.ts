@@ -1,0 +1,146 @@
+import { and, count, countDistinct, eq, gte, isNotNull, lte, or, sql, type SQL } from "drizzle-orm";
+import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
+import { analyseMetalHistory, type MetalHistory } from "@analysis/metals/episodes";
+import type { Metal } from "@analysis/metals/reading";
+import { db } from "../../db/client";
+import { pools, waterTests } from "../../db/schema";
+import type { Scope } from "../../guard";
+import { poolsInScope } from "../scope";
+import { metalReadings } from "./rows";
+import type { AnalyticsParams, AnalyticsWindow } from "./window";
+
+export type BalanceShare = { pools: number; share: number | null };
+
+export type RouteBookSummary = {
+  counts: { activePools: number; routes: number; fillSources: number; tests: number; metalTests: number; poolsTested: number };
+  openEpisodes: Record<Metal, number>;
+  /** Pools with two or more openings of one metal within the recurrence window. */
+  recurringPools: number;
+  chronicPools: number;
+  /** Latest test of each pool that carries pH, temperature, hardness and alkalinity. */
+  balance: {
+    band: BalanceBand;
+    corrosive: BalanceShare;
+    balanced: BalanceShare;
+    scaleForming: BalanceShare;
+    /** Pools whose latest complete-looking test still gave no index (e.g. zero hardness). */
+    notComputable: number;
+    poolsWithoutBalanceTest: number;
+  };
+};
+
+function windowOn(column: typeof waterTests.sampledAt, window: AnalyticsWindow): SQL[] {
+  const conditions: SQL[] = [];
+  if (window.from) conditions.push(gte(column, window.from));
+  if (window.to) conditions.push(lte(column, window.to));
+  return conditions;
+}
+
+async function counts(scope: Scope, window: AnalyticsWindow) {
+  const inScope = poolsInScope(scope);
+  const [poolRow, testRow] = await Promise.all([
+    db()
+      .select({
+        active: sql<number>`SUM(${pools.active})`.mapWith(Number),
+        routes: countDistinct(pools.routeId),
+        sources: countDistinct(pools.fillSourceId),
+      })
+      .from(pools)
+      .where(inScope),
+    db()
+      .select({
+        tests: count(),
+        metalTests: sql<number>`SUM(${or(isNotNull(waterTests.copper), isNotNull(waterTests.iron), isNotNull(waterTests.manganese))})`.mapWith(Number),
+        poolsTested: countDistinct(waterTests.poolId),
+      })
+      .from(waterTests)
+      .innerJoin(pools, eq(pools.id, waterTests.poolId))
+      .where(and(inScope, eq(waterTests.companyId, scope.companyId), ...windowOn(waterTests.sampledAt, window))),
+  ]);
+  return {
+    activePools: poolRow[0]?.active ?? 0,
+    routes: poolRow[0]?.routes ?? 0,
+    fillSources: poolRow[0]?.sources ?? 0,
+    tests: testRow[0]?.tests ?? 0,
+    metalTests: testRow[0]?.metalTests ?? 0,
+    poolsTested: testRow[0]?.poolsTested ?? 0,
+  };
+}
+
+/**
+ * Each pool's latest test with the four balance inputs, one row per pool:
+ * MariaDB finds the latest time per pool, then reads just those tests.
+ */
+async function latestBalanceTests(scope: Scope, window: AnalyticsWindow) {
+  const complete = and(
+    isNotNull(waterTests.ph),
+    isNotNull(waterTests.temperatureC),
+    isNotNull(waterTests.calciumHardness),
+    isNotNull(waterTests.totalAlkalinity),
+  );
+  const latest = db()
+    .select({ poolId: waterTests.poolId, at: sql`MAX(${waterTests.sampledAt})`.as("latest_at") })
+    .from(waterTests)
+    .innerJoin(pools, eq(pools.id, waterTests.poolId))
+    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), complete, ...windowOn(waterTests.sampledAt, window)))
+    .groupBy(waterTests.poolId)
+    .as("latest");
+  return db()
+    .select({
+      ph: waterTests.ph,
+      temperatureC: waterTests.temperatureC,
+      calciumHardness: waterTests.calciumHardness,
+      totalAlkalinity: waterTests.totalAlkalinity,
+      cyanuricAcid: waterTests.cyanuricAcid,
+      tds: waterTests.tds,
+      salt: waterTests.salt,
+    })
+    .from(waterTests)
+    .innerJoin(latest, and(eq(latest.poolId, waterTests.poolId), eq(latest.at, waterTests.sampledAt)));
+}
+
+export async function routeBookSummary(
+  scope: Scope,
+  params: AnalyticsParams & { balanceBand: BalanceBand },
+  history?: MetalHistory,
+): Promise<RouteBookSummary> {
+  const [figures, balanceRows, metalHistory] = await Promise.all([
+    counts(scope, params.window),
+    latestBalanceTests(scope, params.window),
+    history
+      ? Promise.resolve(history)
+      : metalReadings(scope, { window: params.window }).then((r) => analyseMetalHistory(r, { thresholds: params.thresholds })),
+  ]);
+  const openEpisodes = { copper: 0, iron: 0, manganese: 0 } satisfies Record<Metal, number>;
+  const chronic = new Set<string>();
+  for (const e of metalHistory.episodes) {
+    if (e.censored) openEpisodes[e.metal]++;
+    if (e.chronic) chronic.add(e.poolId);
+  }
+  const recurring = new Set(metalHistory.recurrence.filter((r) => r.recurrent).map((r) => r.poolId));
+
+  const tally = { corrosive: 0, balanced: 0, "scale-forming": 0 };
+  let notComputable = 0;
+  for (const row of balanceRows) {
+    const result = saturationIndex(row);
+    if (result.ok) tally[classifyBalance(result.index, params.balanceBand)]++;
+    else notComputable++;
+  }
+  const classified = tally.corrosive + tally.balanced + tally["scale-forming"];
+  const share = (n: number): BalanceShare => ({ pools: n, share: classified > 0 ? n / classified : null });
+  return {
+    counts: figures,
+    openEpisodes,
+    recurringPools: recurring.size,
+    chronicPools: chronic.size,
+    balance: {
+      band: params.balanceBand,
+      corrosive: share(tally.corrosive),
+      balanced: share(tally.balanced),
+      scaleForming: share(tally["scale-forming"]),
+      notComputable,
+      poolsWithoutBalanceTest: Math.max(0, figures.poolsTested - balanceRows.length),
+    },
+  };
+}
+

@@ -1,0 +1,190 @@
+import { and, asc, eq, inArray, isNotNull, or, sql } from "drizzle-orm";
+import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
+import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type OutcomeTest } from "@analysis/outcomes/treatments";
+import { CATEGORY_WORDS } from "~/lib/analytics/labels";
+import { isoInstant, jsonInterval, type JsonInterval } from "~/lib/analytics/json";
+import { db } from "../../db/client";
+import { pools, products, treatments, waterTests } from "../../db/schema";
+import type { Scope } from "../../guard";
+import { poolsInScope } from "../scope";
+import { treatmentRows } from "./rows";
+import type { AnalyticsWindow } from "./window";
+
+export type OutcomeParams = { window: AnalyticsWindow; thresholds: MetalThresholds; metal: Metal; arm: ArmDimension };
+
+export type CurvePoint = { day: number; stillElevated: number; lower: number; upper: number; atRisk: number; cleared: number; censored: number };
+
+export type ArmFigures = {
+  courses: number;
+  pools: number;
+  tooFewToCompare: boolean;
+  /** Percent fall from baseline at the first follow-up 3 to 10 days later. */
+  reduction: { count: number; median: number | null; mean: number | null };
+  /** Kaplan-Meier share of courses still not clear, day by day. */
+  timeToClear: { curve: CurvePoint[]; medianDays: number | null; medianLower: number | null; medianUpper: number | null; cleared: number };
+  clearedPools: number;
+  recurrence: { recurred: number; followed: number; share: JsonInterval | null };
+  totalCost: number;
+  costComplete: boolean;
+  costPerClearedPool: number | null;
+};
+
+export type OutcomeArm = ArmFigures & { arm: string; label: string; byPh: { inside: ArmFigures; outside: ArmFigures; unknown: ArmFigures } };
+
+export type TreatmentOutcomes = {
+  metal: Metal;
+  arm: ArmDimension;
+  rules: { minPoolsToCompare: number; phBand: { low: number; high: number }; followUpDays: number; recurrenceAfterClearDays: number };
+  courses: number;
+  eligibleCourses: number;
+  ineligible: Record<string, number>;
+  arms: OutcomeArm[];
+  escalation: Array<{ poolId: number; street: string; coursesWithoutClearing: number; since: string }>;
+};
+
+function figures(result: ArmResult): ArmFigures {
+  const curve = [
+    { day: 0, stillElevated: 1, lower: 1, upper: 1, atRisk: result.timeToClear.observations, cleared: 0, censored: 0 },
+    ...result.timeToClear.steps.map((s) => ({
+      day: s.time,
+      stillElevated: s.survival,
+      lower: s.lower,
+      upper: s.upper,
+      atRisk: s.atRisk,
+      cleared: s.events,
+      censored: s.censored,
+    })),
+  ];
+  return {
+    courses: result.courses,
+    pools: result.pools,
+    tooFewToCompare: result.tooFewToCompare,
+    reduction: result.reduction,
+    timeToClear: {
+      curve,
+      medianDays: result.timeToClear.median,
+      medianLower: result.timeToClear.medianLower,
+      medianUpper: result.timeToClear.medianUpper,
+      cleared: result.clearedCourses,
+    },
+    clearedPools: result.clearedPools,
+    recurrence: { ...result.recurrence, share: result.recurrence.share ? jsonInterval(result.recurrence.share) : null },
+    totalCost: result.totalCost,
+    costComplete: result.costComplete,
+    costPerClearedPool: result.costPerClearedPool,
+  };
+}
+
+// Tests this long after a treatment still matter: 30 days of follow-up, then
+// 90 days in which a cleared metal may come back, with room for a late visit.
+const FOLLOW_DAYS_AFTER = DEFAULT_OUTCOME_RULES.followUpDays + DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays + 30;
+const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
+
+/**
+ * Tests of treated pools near a metal treatment: from the baseline look-back
+ * to the end of the recurrence check. MariaDB keeps only those rows, using the
+ * treatments' (pool, time) index, and only the metal and pH columns.
+ */
+async function testsNearTreatments(scope: Scope, poolIds: readonly number[]): Promise<OutcomeTest[]> {
+  if (poolIds.length === 0) return [];
+  const rows = await db()
+    .select({
+      id: waterTests.id,
+      poolId: waterTests.poolId,
+      sampledAt: waterTests.sampledAt,
+      ph: waterTests.ph,
+      copper: waterTests.copper,
+      copperBelowDetection: waterTests.copperBelowDetection,
+      iron: waterTests.iron,
+      ironBelowDetection: waterTests.ironBelowDetection,
+      manganese: waterTests.manganese,
+      manganeseBelowDetection: waterTests.manganeseBelowDetection,
+    })
+    .from(waterTests)
+    .innerJoin(pools, eq(pools.id, waterTests.poolId))
+    .where(
+      and(
+        poolsInScope(scope),
+        eq(waterTests.companyId, scope.companyId),
+        inArray(waterTests.poolId, [...poolIds]),
+        or(isNotNull(waterTests.copper), isNotNull(waterTests.iron), isNotNull(waterTests.manganese), isNotNull(waterTests.ph)),
+        sql`EXISTS (
+          SELECT 1 FROM ${treatments} tr JOIN ${products} pr ON pr.id = tr.product_id
+          WHERE tr.pool_id = ${waterTests.poolId}
+            AND pr.category IN ('sequestrant', 'collector_pad', 'ph_decreaser')
+            AND ${waterTests.sampledAt} BETWEEN tr.applied_at - INTERVAL ${LOOK_DAYS_BEFORE} DAY AND tr.applied_at + INTERVAL ${FOLLOW_DAYS_AFTER} DAY)`,
+      ),
+    )
+    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
+  const reading = (value: number | null, below: boolean) => (value === null ? null : { value, belowDetection: below });
+  return rows.map((r) => ({
+    id: String(r.id),
+    poolId: String(r.poolId),
+    takenAt: r.sampledAt.getTime(),
+    ph: r.ph,
+    copper: reading(r.copper, r.copperBelowDetection),
+    iron: reading(r.iron, r.ironBelowDetection),
+    manganese: reading(r.manganese, r.manganeseBelowDetection),
+  }));
+}
+
+/**
+ * How metal treatments did: per product, category or combination, the fall
+ * at the first follow-up, Kaplan-Meier time to clear, recurrence after
+ * clearing and cost per cleared pool, each also split by pH at treatment.
+ */
+export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
+  const applied = await treatmentRows(scope, { window: params.window, categories: ["sequestrant", "collector_pad", "ph_decreaser"] });
+  const courses = buildCourses(applied);
+  const treatedPools = [...new Set(courses.map((c) => Number(c.poolId)))];
+  const tests = await testsNearTreatments(scope, treatedPools);
+  const outcomes = courseOutcomes(courses, tests, params.metal, { thresholds: params.thresholds });
+  const summaries = summariseOutcomes(outcomes, params.arm);
+
+  const productNames = new Map(applied.map((t) => [t.productId, t.productName]));
+  const label = (arm: string) => {
+    if (params.arm === "product") return productNames.get(arm) ?? arm;
+    if (params.arm === "category") return CATEGORY_WORDS[arm] ?? arm;
+    if (params.arm === "combination") return arm.split(" + ").map((id) => productNames.get(id) ?? id).join(" + ");
+    return arm.split(" + ").map((c) => CATEGORY_WORDS[c] ?? c).join(" + ");
+  };
+
+  const ineligible: Record<string, number> = {};
+  for (const o of outcomes) if (o.ineligible) ineligible[o.ineligible] = (ineligible[o.ineligible] ?? 0) + 1;
+
+  const hints = escalationDue(outcomes);
+  const streets = hints.length
+    ? new Map(
+        (await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(poolsInScope(scope), inArray(pools.id, hints.map((h) => Number(h.poolId)))))).map(
+          (p) => [p.id, p.street],
+        ),
+      )
+    : new Map<number, string>();
+
+  return {
+    metal: params.metal,
+    arm: params.arm,
+    rules: {
+      minPoolsToCompare: DEFAULT_OUTCOME_RULES.minPoolsToCompare,
+      phBand: DEFAULT_OUTCOME_RULES.phBand,
+      followUpDays: DEFAULT_OUTCOME_RULES.followUpDays,
+      recurrenceAfterClearDays: DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays,
+    },
+    courses: outcomes.length,
+    eligibleCourses: outcomes.filter((o) => o.ineligible === null).length,
+    ineligible,
+    arms: summaries.map((s) => ({
+      arm: s.arm,
+      label: label(s.arm),
+      ...figures(s),
+      byPh: { inside: figures(s.byPh.inside), outside: figures(s.byPh.outside), unknown: figures(s.byPh.unknown) },
+    })),
+    escalation: hints.map((h) => ({
+      poolId: Number(h.poolId),
+      street: streets.get(Number(h.poolId)) ?? "",
+      coursesWithoutClearing: h.coursesWithoutClearing,
+      since: isoInstant(h.since)!,
+    })),
+  };
+}

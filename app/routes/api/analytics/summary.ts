@@ -1,0 +1,9 @@
+import { readAnalyticsRequest } from "~/.server/analytics-request";
+import { routeBookSummary } from "~/.server/queries/analytics/summary";
+import { summaryQuery } from "~/lib/analytics/params";
+import type { Route } from "./+types/summary";
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const { scope, window, thresholds, balanceBand } = await readAnalyticsRequest(request, "overview", summaryQuery, "api");
+  return Response.json(await routeBookSummary(scope, { window, thresholds, metal: null, balanceBand }));
+}
