@@ -37,9 +37,9 @@ import { callRoute } from "../fixtures/route-call";
 // Episodes: P1 iron 03-01..03-15 (14 d) and 06-01..12-31 (213 d, chronic, a
 // recurrence: 92 days after the first opening); P2 iron 03-08..03-22 (14 d);
 // P3 iron 03-20.. still open at 12-31 (286 d, censored, chronic); P5 copper
-// 02-01..02-15 (14 d). P1 has a copper heater installed 2015-06-01.
+// 02-01..02-15 (14 d). A copper heater was installed at P1 on 2015-06-01.
 //
-// Another company has a pool with iron 0.90 in March: it must never appear.
+// A pool of another company reads iron 0.90 in March: it must never appear.
 
 let owner: FixtureMember;
 let manager: FixtureMember;
