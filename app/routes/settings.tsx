@@ -1,8 +1,14 @@
+import { Form, useNavigation } from "react-router";
 import { METALS } from "@analysis/metals/reading";
-import { metalThresholdsFrom } from "~/.server/company-settings";
 import { requireMember } from "~/.server/guard";
 import { companySettingsRow } from "~/.server/queries/company";
+import { companyPreferences } from "~/.server/queries/routebook-company";
+import { updateCompanySettings } from "~/.server/services/company-settings";
+import { refusedAnswer } from "~/.server/services/result";
 import { ErrorPanel } from "~/components/error-panel";
+import { FormProblem, SelectField, SubmitButton, TextField } from "~/components/form-controls";
+import { fieldErrorsOf, formObject } from "~/lib/forms/fields";
+import { settingsForm } from "~/lib/forms/settings";
 import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/settings";
 
@@ -10,45 +16,88 @@ export const meta: Route.MetaFunction = () => [{ title: "Settings · Patina" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "settings");
-  const company = await companySettingsRow(scope);
+  const [company, prefs] = await Promise.all([companySettingsRow(scope), companyPreferences(scope)]);
   return {
     name: company.name,
     town: company.town,
-    timeZone: company.timeZone,
-    unitSystem: company.unitSystem,
-    thresholds: metalThresholdsFrom(company.settings),
+    prefs,
+    timeZones: ["UTC", ...Intl.supportedValuesOf("timeZone")],
   };
 }
 
-export default function Settings({ loaderData }: Route.ComponentProps) {
-  const { name, town, timeZone, unitSystem, thresholds } = loaderData;
+export async function action({ request }: Route.ActionArgs) {
+  const scope = await requireMember(request, "settings");
+  const parsed = settingsForm.safeParse(formObject(await request.formData()));
+  if (!parsed.success) return refusedAnswer({ fieldErrors: fieldErrorsOf(parsed.error), formError: null });
+  await updateCompanySettings(scope, parsed.data);
+  return { ok: true as const, fieldErrors: {}, formError: null };
+}
+
+export default function Settings({ loaderData, actionData }: Route.ComponentProps) {
+  const { name, town, prefs, timeZones } = loaderData;
+  const busy = useNavigation().state === "submitting";
+  const errors = actionData?.fieldErrors;
   return (
-    <div className="space-y-6">
-      <h1 className="text-2xl font-semibold tracking-tight">Company settings</h1>
-      <dl className="grid grid-cols-2 gap-3 rounded-xl border border-line bg-white p-4 text-sm">
-        <div><dt className="text-muted">Company</dt><dd className="font-medium">{name}</dd></div>
-        <div><dt className="text-muted">Town</dt><dd className="font-medium">{town ?? "—"}</dd></div>
-        <div><dt className="text-muted">Time zone</dt><dd className="font-medium">{timeZone}</dd></div>
-        <div><dt className="text-muted">Units</dt><dd className="font-medium">{unitSystem === "us" ? "US (gallons, °F)" : "Metric (litres, °C)"}</dd></div>
-      </dl>
-      <section aria-labelledby="thresholds">
-        <h2 id="thresholds" className="mb-2 text-lg font-semibold">Metal levels (mg/L)</h2>
-        <table className="w-full rounded-xl border border-line bg-white text-left text-sm tabular-nums">
-          <thead className="text-muted">
-            <tr><th className="px-4 py-2 font-medium">Metal</th><th className="px-4 py-2 font-medium">Elevated at or above</th><th className="px-4 py-2 font-medium">Clear below</th></tr>
-          </thead>
-          <tbody className="divide-y divide-line">
-            {METALS.map((metal) => (
-              <tr key={metal}>
-                <td className="px-4 py-2">{METAL_LABELS[metal]}</td>
-                <td className="px-4 py-2">{thresholds[metal].elevated}</td>
-                <td className="px-4 py-2">{thresholds[metal].clear}</td>
-              </tr>
-            ))}
-          </tbody>
-        </table>
-        <p className="mt-2 text-xs text-muted">Staining levels from common practice, not health limits.</p>
-      </section>
+    <div className="max-w-2xl space-y-6">
+      <div>
+        <h1 className="text-2xl font-semibold tracking-tight">Company settings</h1>
+        <p className="text-muted">
+          {name}
+          {town ? ` · ${town}` : ""}
+        </p>
+      </div>
+      <Form method="post" className="space-y-6" noValidate>
+        <section aria-labelledby="thresholds" className="space-y-3 rounded-xl border border-line bg-white p-4">
+          <h2 id="thresholds" className="text-lg font-semibold">Metal levels (mg/L)</h2>
+          <p className="text-sm text-muted">
+            A reading at or above “elevated” opens a metal case; only a reading below “clear” closes it. These are staining
+            levels from common practice, not health limits.
+          </p>
+          {METALS.map((metal) => (
+            <div key={metal} className="grid grid-cols-2 gap-3">
+              <TextField name={`${metal}Elevated`} label={`${METAL_LABELS[metal]}: elevated at or above`} inputMode="decimal" defaultValue={prefs.thresholds[metal].elevated} errors={errors} />
+              <TextField name={`${metal}Clear`} label={`${METAL_LABELS[metal]}: clear below`} inputMode="decimal" defaultValue={prefs.thresholds[metal].clear} errors={errors} />
+            </div>
+          ))}
+        </section>
+        <section aria-labelledby="balance" className="space-y-3 rounded-xl border border-line bg-white p-4">
+          <h2 id="balance" className="text-lg font-semibold">Water balance</h2>
+          <p className="text-sm text-muted">Saturation index counted as balanced between these values (common practice: −0.3 to +0.3).</p>
+          <div className="grid grid-cols-2 gap-3">
+            <TextField name="balanceLow" label="Balanced from" inputMode="decimal" defaultValue={prefs.balanceBand.low} errors={errors} />
+            <TextField name="balanceHigh" label="Balanced up to" inputMode="decimal" defaultValue={prefs.balanceBand.high} errors={errors} />
+          </div>
+        </section>
+        <section aria-labelledby="units" className="space-y-3 rounded-xl border border-line bg-white p-4">
+          <h2 id="units" className="text-lg font-semibold">Units and time</h2>
+          <SelectField
+            name="unitSystem"
+            label="Units"
+            defaultValue={prefs.units}
+            options={[
+              { value: "us", label: "US (gallons, °F)" },
+              { value: "metric", label: "Metric (litres, °C)" },
+            ]}
+            errors={errors}
+          />
+          <SelectField
+            name="timeZone"
+            label="Time zone (decides which weekday's route is today)"
+            defaultValue={prefs.timeZone}
+            options={timeZones.map((z) => ({ value: z, label: z }))}
+            errors={errors}
+          />
+        </section>
+        {actionData?.ok ? (
+          <p role="status" className="rounded-lg bg-verdigris-50 px-3 py-2 text-sm font-medium">
+            Settings saved.
+          </p>
+        ) : null}
+        <FormProblem message={actionData?.formError} />
+        <SubmitButton busy={busy} busyText="Saving…">
+          Save settings
+        </SubmitButton>
+      </Form>
     </div>
   );
 }
@@ -56,4 +105,3 @@ export default function Settings({ loaderData }: Route.ComponentProps) {
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
   return <ErrorPanel error={error} />;
 }
-

@@ -1,0 +1,118 @@
+import { and, eq, inArray } from "drizzle-orm";
+import type { VisitInput } from "~/lib/forms/visit";
+import { db } from "../db/client";
+import { pools, products, treatments, waterTests } from "../db/schema";
+import type { Scope } from "../guard";
+import { poolsInScope } from "../queries/scope";
+import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
+
+export type VisitSaved = { testId: number; poolId: number; repeated: boolean };
+
+async function alreadyStored(scope: Scope, submissionKey: string) {
+  const [row] = await db()
+    .select({ id: waterTests.id, poolId: waterTests.poolId })
+    .from(waterTests)
+    .where(and(eq(waterTests.companyId, scope.companyId), eq(waterTests.submissionKey, submissionKey)));
+  return row ? { ok: true as const, testId: row.id, poolId: row.poolId, repeated: true } : null;
+}
+
+/** Cost of a treatment from the product's unit cost, when given in the product's own unit. */
+export function treatmentCost(amount: number, unit: string, product: { unitCost: number | null; doseUnit: string | null }) {
+  if (product.unitCost === null || !product.doseUnit) return null;
+  if (unit.toLowerCase() !== product.doseUnit.toLowerCase()) return null;
+  return Math.round(amount * product.unitCost * 100) / 100;
+}
+
+/**
+ * Stores one visit (a water test and the treatments given) in one
+ * transaction. A submission key seen before returns the visit stored then,
+ * so a double tap or a resent form stores nothing twice.
+ */
+export async function logVisit(scope: Scope, poolId: number, input: VisitInput, now: Date): Promise<ServiceResult<VisitSaved>> {
+  const earlier = await alreadyStored(scope, input.submissionKey);
+  if (earlier) return earlier;
+
+  const [pool] = await db()
+    .select({ id: pools.id })
+    .from(pools)
+    .where(and(poolsInScope(scope), eq(pools.id, poolId)));
+  if (!pool) return notFound("No pool with that number is on your routes.");
+
+  const productIds = [...new Set(input.treatments.map((t) => t.productId))];
+  const known =
+    productIds.length === 0
+      ? []
+      : await db()
+          .select({ id: products.id, doseUnit: products.doseUnit, unitCost: products.unitCost })
+          .from(products)
+          .where(and(eq(products.companyId, scope.companyId), inArray(products.id, productIds)));
+  const byId = new Map(known.map((p) => [p.id, p]));
+  const lines: Array<{ productId: number; amount: number; unit: string; cost: number | null }> = [];
+  for (const [i, line] of input.treatments.entries()) {
+    const product = byId.get(line.productId);
+    if (!product) return invalid({ [`treatments.${i}.product`]: `Treatment ${i + 1} product: ${line.productId} is not one of this company's products.` });
+    const unit = line.unit ?? product.doseUnit;
+    if (!unit) return invalid({ [`treatments.${i}.unit`]: `Treatment ${i + 1} unit: name the unit of the amount.` });
+    lines.push({ productId: line.productId, amount: line.amount, unit, cost: treatmentCost(line.amount, unit, product) });
+  }
+
+  const r = input.readings;
+  try {
+    const testId = await db().transaction(async (tx) => {
+      const [test] = await tx
+        .insert(waterTests)
+        .values({
+          companyId: scope.companyId,
+          poolId,
+          sampledAt: now,
+          technicianId: scope.userId,
+          freeChlorine: r.freeChlorine ?? null,
+          combinedChlorine: r.combinedChlorine ?? null,
+          ph: r.ph ?? null,
+          totalAlkalinity: r.totalAlkalinity ?? null,
+          calciumHardness: r.calciumHardness ?? null,
+          cyanuricAcid: r.cyanuricAcid ?? null,
+          salt: r.salt ?? null,
+          tds: r.tds ?? null,
+          temperatureC: r.temperatureC ?? null,
+          copper: r.copper?.value ?? null,
+          copperBelowDetection: r.copper?.belowDetection ?? false,
+          iron: r.iron?.value ?? null,
+          ironBelowDetection: r.iron?.belowDetection ?? false,
+          manganese: r.manganese?.value ?? null,
+          manganeseBelowDetection: r.manganese?.belowDetection ?? false,
+          hardnessEndpoint: input.hardnessEndpoint,
+          stain: input.stain,
+          stainColour: input.stainColour,
+          padTint: input.padTint,
+          note: input.note,
+          submissionKey: input.submissionKey,
+        })
+        .$returningId();
+      const id = test!.id;
+      if (lines.length > 0) {
+        await tx.insert(treatments).values(
+          lines.map((line) => ({
+            companyId: scope.companyId,
+            poolId,
+            appliedAt: now,
+            appliedBy: scope.userId,
+            waterTestId: id,
+            ...line,
+          })),
+        );
+      }
+      return id;
+    });
+    return { ok: true, testId, poolId, repeated: false };
+  } catch (error) {
+    if (isDuplicateKey(error, "water_tests_submission")) {
+      const stored = await alreadyStored(scope, input.submissionKey);
+      if (stored) return stored;
+    }
+    if (isDuplicateKey(error, "water_tests_pool_time")) {
+      return conflict("form", "A test of this pool is already stored for this very moment; wait a second and save again.");
+    }
+    throw error;
+  }
+}

@@ -1,0 +1,113 @@
+import type { PlotOptions } from "@observablehq/plot";
+import { type ReactNode, useEffect, useRef, useState } from "react";
+
+export type TableColumn<Row> = { label: string; value: (row: Row) => string };
+
+/**
+ * The one home of Observable Plot in Patina. The caller builds Plot options
+ * from the available width; this component draws them after hydration,
+ * redraws on resize, removes the old drawing on every change, and offers the
+ * same data as a table for screen readers and for reading exact values.
+ */
+export function PlotFigure<Row>({
+  title,
+  caption,
+  build,
+  rows,
+  columns,
+  empty,
+  height = 260,
+}: {
+  /** Plain-language title, with units. */
+  title: string;
+  caption?: ReactNode;
+  build: (width: number) => PlotOptions;
+  /** The rows behind the chart, shown in the table view. */
+  rows: readonly Row[];
+  columns: ReadonlyArray<TableColumn<Row>>;
+  /** Shown instead of the chart when there are no rows: say why and what would fill it. */
+  empty: ReactNode;
+  height?: number;
+}) {
+  const holder = useRef<HTMLDivElement>(null);
+  const [width, setWidth] = useState(0);
+  const [showTable, setShowTable] = useState(false);
+
+  useEffect(() => {
+    const element = holder.current;
+    if (!element) return;
+    const observer = new ResizeObserver(([entry]) => {
+      if (entry) setWidth(Math.floor(entry.contentRect.width));
+    });
+    observer.observe(element);
+    return () => observer.disconnect();
+  }, []);
+
+  useEffect(() => {
+    const element = holder.current;
+    if (!element || width === 0 || rows.length === 0) return;
+    let drawn: Element | null = null;
+    let cancelled = false;
+    // Loaded in the browser only: Plot needs a document, and pages without charts stay light.
+    void import("@observablehq/plot").then((Plot) => {
+      if (cancelled) return;
+      drawn = Plot.plot({ height, ...build(width), width });
+      element.append(drawn);
+    });
+    return () => {
+      cancelled = true;
+      drawn?.remove();
+    };
+  }, [build, width, rows, height]);
+
+  return (
+    <figure className="rounded-xl border border-line bg-white p-4">
+      <figcaption className="mb-2">
+        <span className="block font-semibold">{title}</span>
+        {caption ? <span className="block text-sm text-muted">{caption}</span> : null}
+      </figcaption>
+      {rows.length === 0 ? (
+        <p className="py-6 text-center text-muted">{empty}</p>
+      ) : (
+        <>
+          <div ref={holder} aria-hidden={showTable} className="w-full overflow-hidden" style={{ minHeight: height }} />
+          <button
+            type="button"
+            onClick={() => setShowTable((v) => !v)}
+            aria-expanded={showTable}
+            className="mt-2 text-sm font-medium text-verdigris-700 underline"
+          >
+            {showTable ? "Hide the table" : "Show as a table"}
+          </button>
+          {showTable ? (
+            <div className="mt-2 max-h-80 overflow-auto">
+              <table className="w-full text-left text-sm tabular-nums">
+                <caption className="sr-only">{title}</caption>
+                <thead className="text-muted">
+                  <tr>
+                    {columns.map((c) => (
+                      <th key={c.label} scope="col" className="px-2 py-1 font-medium">
+                        {c.label}
+                      </th>
+                    ))}
+                  </tr>
+                </thead>
+                <tbody className="divide-y divide-line">
+                  {rows.map((row, i) => (
+                    <tr key={i}>
+                      {columns.map((c) => (
+                        <td key={c.label} className="px-2 py-1">
+                          {c.value(row)}
+                        </td>
+                      ))}
+                    </tr>
+                  ))}
+                </tbody>
+              </table>
+            </div>
+          ) : null}
+        </>
+      )}
+    </figure>
+  );
+}

@@ -1,0 +1,57 @@
+import { Form, useNavigation } from "react-router";
+import { FormProblem, options, SelectField, SubmitButton, TextAreaField, TextField } from "~/components/form-controls";
+import type { FieldErrors } from "~/lib/forms/fields";
+import { DOSE_BASIS_LABELS, PRODUCT_CATEGORY_LABELS, SOURCE_KIND_LABELS } from "~/lib/labels";
+
+type Answer = { fieldErrors: FieldErrors; formError: string | null } | undefined;
+
+export function SourceForm({ source, answer }: { source: { name: string; kind: string; notes: string | null } | null; answer: Answer }) {
+  const busy = useNavigation().state === "submitting";
+  const errors = answer?.fieldErrors;
+  return (
+    <Form method="post" className="max-w-xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
+      <TextField name="name" label="Source name" defaultValue={source?.name} errors={errors} required maxLength={160} />
+      <SelectField name="kind" label="Kind" defaultValue={source?.kind ?? ""} placeholder="Choose…" options={options(SOURCE_KIND_LABELS)} errors={errors} />
+      <TextAreaField name="notes" label="Notes" defaultValue={source?.notes ?? ""} errors={errors} maxLength={2000} />
+      <FormProblem message={answer?.formError} />
+      <SubmitButton busy={busy} busyText="Saving…">
+        Save source
+      </SubmitButton>
+    </Form>
+  );
+}
+
+type ProductValues = {
+  name: string;
+  category: string;
+  labelDose: number | null;
+  doseUnit: string | null;
+  doseBasis: string;
+  unitCost: number | null;
+  active: boolean;
+};
+
+export function ProductForm({ product, answer }: { product: ProductValues | null; answer: Answer }) {
+  const busy = useNavigation().state === "submitting";
+  const errors = answer?.fieldErrors;
+  return (
+    <Form method="post" className="max-w-xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
+      <TextField name="name" label="Product name (your company's own)" defaultValue={product?.name} errors={errors} required maxLength={160} />
+      <SelectField name="category" label="Category" defaultValue={product?.category ?? ""} placeholder="Choose…" options={options(PRODUCT_CATEGORY_LABELS)} errors={errors} />
+      <div className="grid gap-4 sm:grid-cols-3">
+        <TextField name="labelDose" label="Label dose" inputMode="decimal" defaultValue={product?.labelDose ?? ""} errors={errors} />
+        <TextField name="doseUnit" label="Dose unit" defaultValue={product?.doseUnit ?? ""} errors={errors} maxLength={16} hint="e.g. fl oz, lb, pad" />
+        <SelectField name="doseBasis" label="Per" defaultValue={product?.doseBasis ?? "per_10k_gal"} options={options(DOSE_BASIS_LABELS)} errors={errors} />
+      </div>
+      <TextField name="unitCost" label="Cost of one dose unit" inputMode="decimal" defaultValue={product?.unitCost ?? ""} errors={errors} hint="Used to cost each treatment logged in this unit." />
+      <label className="flex items-center gap-2">
+        <input type="checkbox" name="active" defaultChecked={product?.active ?? true} className="size-5 accent-verdigris-700" />
+        <span>In use (untick to archive; past treatments keep it)</span>
+      </label>
+      <FormProblem message={answer?.formError} />
+      <SubmitButton busy={busy} busyText="Saving…">
+        Save product
+      </SubmitButton>
+    </Form>
+  );
+}

@@ -1,0 +1,68 @@
+import { Form, useNavigation } from "react-router";
+import { FormProblem, SubmitButton, TextField } from "~/components/form-controls";
+import type { FieldErrors } from "~/lib/forms/fields";
+import { formatMgL } from "~/lib/format";
+
+type SourceTest = {
+  id: number;
+  sampledOn: string;
+  copper: number | null;
+  copperBelowDetection: boolean;
+  iron: number | null;
+  ironBelowDetection: boolean;
+  manganese: number | null;
+  manganeseBelowDetection: boolean;
+  note: string | null;
+};
+
+export function SourceTestTable({ tests }: { tests: SourceTest[] }) {
+  if (tests.length === 0) return <p className="text-muted">No tests of this water yet. A lab or kit test of the fill water shows whether it brings metals in.</p>;
+  return (
+    <div className="overflow-x-auto rounded-xl border border-line bg-white">
+      <table className="w-full text-left text-sm tabular-nums">
+        <caption className="sr-only">Tests of the fill water, metals in mg/L</caption>
+        <thead className="border-b border-line text-muted">
+          <tr>
+            <th scope="col" className="px-3 py-2 font-medium">Sampled</th>
+            <th scope="col" className="px-3 py-2 font-medium">Copper</th>
+            <th scope="col" className="px-3 py-2 font-medium">Iron</th>
+            <th scope="col" className="px-3 py-2 font-medium">Manganese</th>
+            <th scope="col" className="px-3 py-2 font-medium">Note</th>
+          </tr>
+        </thead>
+        <tbody className="divide-y divide-line">
+          {tests.map((t) => (
+            <tr key={t.id}>
+              <td className="px-3 py-2 whitespace-nowrap">{t.sampledOn}</td>
+              <td className="px-3 py-2">{formatMgL(t.copper, t.copperBelowDetection)}</td>
+              <td className="px-3 py-2">{formatMgL(t.iron, t.ironBelowDetection)}</td>
+              <td className="px-3 py-2">{formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
+              <td className="px-3 py-2">{t.note ?? ""}</td>
+            </tr>
+          ))}
+        </tbody>
+      </table>
+    </div>
+  );
+}
+
+export function SourceTestForm({ today, answer }: { today: string; answer: { fieldErrors: FieldErrors; formError: string | null } | undefined }) {
+  const busy = useNavigation().state === "submitting";
+  const errors = answer?.fieldErrors;
+  return (
+    <Form method="post" className="space-y-3 rounded-xl border border-line bg-white p-4" noValidate>
+      <h3 className="font-semibold">Record a test of this water</h3>
+      <div className="grid gap-3 sm:grid-cols-4">
+        <TextField name="sampledOn" label="Sampled on" type="date" defaultValue={today} max={today} errors={errors} />
+        <TextField name="copper" label="Copper (mg/L)" inputMode="decimal" placeholder="e.g. 0.12 or <0.05" errors={errors} />
+        <TextField name="iron" label="Iron (mg/L)" inputMode="decimal" errors={errors} />
+        <TextField name="manganese" label="Manganese (mg/L)" inputMode="decimal" errors={errors} />
+      </div>
+      <TextField name="note" label="Note (lab, method)" maxLength={2000} errors={errors} />
+      <FormProblem message={answer?.formError} />
+      <SubmitButton busy={busy} busyText="Saving…">
+        Save source test
+      </SubmitButton>
+    </Form>
+  );
+}

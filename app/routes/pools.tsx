@@ -1,0 +1,99 @@
+import { Link } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { companyPreferences } from "~/.server/queries/routebook-company";
+import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/queries/routebook-pools";
+import { routeOptions } from "~/.server/queries/routebook-routes";
+import { sourceOptions } from "~/.server/queries/routebook-sources";
+import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { options } from "~/components/form-controls";
+import { formatDate } from "~/lib/format";
+import { SURFACES } from "~/lib/forms/routebook";
+import { labelOf, SURFACE_LABELS } from "~/lib/labels";
+import { enumFilter, idFilter, listParams } from "~/lib/list-params";
+import { roleMayOpen } from "~/lib/roles";
+import { formatVolume, VOLUME_UNIT } from "~/lib/units";
+import type { Route } from "./+types/pools";
+
+export const meta: Route.MetaFunction = () => [{ title: "Pools · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "pools");
+  const url = new URL(request.url);
+  const params = listParams(url, POOL_SORTS, "street");
+  const filters = {
+    routeId: idFilter(url, "route"),
+    fillSourceId: idFilter(url, "source"),
+    surface: enumFilter(url, "surface", SURFACES),
+    status: enumFilter(url, "status", POOL_STATUSES) ?? "active",
+  };
+  const [list, routes, sources, prefs] = await Promise.all([
+    listPools(scope, params, filters),
+    routeOptions(scope),
+    sourceOptions(scope),
+    companyPreferences(scope),
+  ]);
+  return { ...list, params, routes, sources, units: prefs.units, timeZone: prefs.timeZone, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
+}
+
+type Row = Route.ComponentProps["loaderData"]["rows"][number];
+
+export default function Pools({ loaderData }: Route.ComponentProps) {
+  const { rows, total, params, routes, sources, units, timeZone, mayEdit } = loaderData;
+  const columns: Array<Column<Row>> = [
+    {
+      key: "street",
+      label: "Pool",
+      sortKey: "street",
+      cell: (r) => (
+        <Link to={`/pools/${r.id}`} className="font-medium text-verdigris-700 underline">
+          {r.street}
+        </Link>
+      ),
+    },
+    { key: "account", label: "Account", sortKey: "account", wide: true, cell: (r) => r.accountCode },
+    { key: "customer", label: "Customer", sortKey: "customer", cell: (r) => r.customerName },
+    { key: "neighbourhood", label: "Neighbourhood", sortKey: "neighbourhood", wide: true, cell: (r) => r.neighbourhood ?? "—" },
+    { key: "route", label: "Route", sortKey: "route", wide: true, cell: (r) => r.routeName ?? "no route" },
+    { key: "source", label: "Fill water", wide: true, cell: (r) => r.fillSourceName ?? "unknown" },
+    { key: "surface", label: "Surface", wide: true, cell: (r) => labelOf(SURFACE_LABELS, r.surface) },
+    { key: "volume", label: `Volume (${VOLUME_UNIT[units]})`, sortKey: "volume", numeric: true, wide: true, cell: (r) => formatVolume(r.volumeLitres, units) },
+    { key: "lastTest", label: "Last test", sortKey: "lastTest", cell: (r) => (r.active ? formatDate(r.lastTest, timeZone) : "archived") },
+  ];
+  return (
+    <div>
+      <PageHeader title="Pools" action={mayEdit ? <ButtonLink to="/pools/new">Add a pool</ButtonLink> : null}>
+        {total} {total === 1 ? "pool" : "pools"}
+      </PageHeader>
+      <ListFilters searchLabel="Search address, customer or account">
+        <FilterSelect name="route" label="Route" allLabel="All routes" options={routes.map((r) => ({ value: String(r.id), label: r.name }))} />
+        <FilterSelect name="source" label="Fill water" allLabel="All sources" options={sources.map((s) => ({ value: String(s.id), label: s.name }))} />
+        <FilterSelect name="surface" label="Surface" allLabel="All surfaces" options={options(SURFACE_LABELS)} />
+        <FilterSelect
+          name="status"
+          label="Status"
+          options={[
+            { value: "active", label: "In service" },
+            { value: "archived", label: "Archived" },
+            { value: "all", label: "All" },
+          ]}
+        />
+      </ListFilters>
+      <DataTable
+        caption="Pools"
+        columns={columns}
+        rows={rows}
+        rowKey={(r) => r.id}
+        total={total}
+        sort={params.sort}
+        dir={params.dir}
+        page={params.page}
+        empty={params.q ? `No pool matches "${params.q}".` : "No pools here yet."}
+      />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

@@ -1,0 +1,44 @@
+import { redirect } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { productForEdit } from "~/.server/queries/routebook-products";
+import { refusedAnswer } from "~/.server/services/result";
+import { saveProduct } from "~/.server/services/routebook-products";
+import { PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { ProductForm } from "~/components/routebook/simple-forms";
+import { formObject } from "~/lib/forms/fields";
+import { parseProductForm } from "~/lib/forms/routebook";
+import { idParam, notFoundPage } from "~/lib/route-params";
+import type { Route } from "./+types/product-edit";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.product.name ?? "Product"} · Patina` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  const product = await productForEdit(scope, idParam(params, "productId", "product"));
+  if (!product) notFoundPage("No product with that number in your company.");
+  return { product };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  const productId = idParam(params, "productId", "product");
+  const parsed = parseProductForm(formObject(await request.formData()));
+  if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
+  const result = await saveProduct(scope, productId, parsed.value);
+  if (!result.ok) return refusedAnswer(result);
+  throw redirect("/products");
+}
+
+export default function EditProduct({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <div>
+      <PageHeader title={`Product: ${loaderData.product.name}`} />
+      <ProductForm product={loaderData.product} answer={actionData} />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

@@ -1,0 +1,96 @@
+import { Link } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { listProducts, PRODUCT_SORTS } from "~/.server/queries/routebook-products";
+import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { options } from "~/components/form-controls";
+import { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
+import { DOSE_BASIS_LABELS, labelOf, PRODUCT_CATEGORY_LABELS } from "~/lib/labels";
+import { enumFilter, listParams } from "~/lib/list-params";
+import { roleMayOpen } from "~/lib/roles";
+import type { Route } from "./+types/products";
+
+export const meta: Route.MetaFunction = () => [{ title: "Products · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "routebook");
+  const url = new URL(request.url);
+  const params = listParams(url, PRODUCT_SORTS, "name");
+  const status = enumFilter(url, "status", ["active", "archived", "all"] as const) ?? "active";
+  const list = await listProducts(scope, params, {
+    category: enumFilter(url, "category", PRODUCT_CATEGORIES),
+    active: status === "all" ? null : status === "active",
+  });
+  return { ...list, params, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
+}
+
+type Row = Route.ComponentProps["loaderData"]["rows"][number];
+
+export default function Products({ loaderData }: Route.ComponentProps) {
+  const { rows, total, params, mayEdit } = loaderData;
+  const columns: Array<Column<Row>> = [
+    {
+      key: "name",
+      label: "Product",
+      sortKey: "name",
+      cell: (r) =>
+        mayEdit ? (
+          <Link to={`/products/${r.id}/edit`} className="font-medium text-verdigris-700 underline">
+            {r.name}
+          </Link>
+        ) : (
+          <span className="font-medium">{r.name}</span>
+        ),
+    },
+    { key: "category", label: "Category", sortKey: "category", cell: (r) => labelOf(PRODUCT_CATEGORY_LABELS, r.category) },
+    {
+      key: "labelDose",
+      label: "Label dose",
+      sortKey: "labelDose",
+      numeric: true,
+      cell: (r) => (r.labelDose === null ? "—" : `${r.labelDose} ${r.doseUnit ?? ""} ${DOSE_BASIS_LABELS[r.doseBasis]}`),
+    },
+    {
+      key: "unitCost",
+      label: "Unit cost",
+      sortKey: "unitCost",
+      numeric: true,
+      cell: (r) => (r.unitCost === null ? "—" : `${r.unitCost.toFixed(2)} per ${r.doseUnit ?? "unit"}`),
+    },
+    { key: "active", label: "Status", wide: true, cell: (r) => (r.active ? "In use" : "Archived") },
+  ];
+  return (
+    <div>
+      <PageHeader title="Products" action={mayEdit ? <ButtonLink to="/products/new">Add a product</ButtonLink> : null}>
+        {total} {total === 1 ? "product" : "products"}
+      </PageHeader>
+      <ListFilters searchLabel="Search product names">
+        <FilterSelect name="category" label="Category" allLabel="All categories" options={options(PRODUCT_CATEGORY_LABELS)} />
+        <FilterSelect
+          name="status"
+          label="Status"
+          options={[
+            { value: "active", label: "In use" },
+            { value: "archived", label: "Archived" },
+            { value: "all", label: "All" },
+          ]}
+        />
+      </ListFilters>
+      <DataTable
+        caption="Products"
+        columns={columns}
+        rows={rows}
+        rowKey={(r) => r.id}
+        total={total}
+        sort={params.sort}
+        dir={params.dir}
+        page={params.page}
+        empty={params.q ? `No product matches "${params.q}".` : "No products here yet."}
+      />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

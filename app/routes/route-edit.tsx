@@ -1,0 +1,45 @@
+import { redirect } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { companyTechnicians, routeForEdit } from "~/.server/queries/routebook-routes";
+import { refusedAnswer } from "~/.server/services/result";
+import { saveRoute } from "~/.server/services/routebook-routes";
+import { PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { RouteForm } from "~/components/routebook/route-form";
+import { formObject } from "~/lib/forms/fields";
+import { parseRouteForm } from "~/lib/forms/routebook";
+import { idParam, notFoundPage } from "~/lib/route-params";
+import type { Route } from "./+types/route-edit";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.route.name ?? "Route"} · Patina` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  const routeId = idParam(params, "routeId", "route");
+  const [route, technicians] = await Promise.all([routeForEdit(scope, routeId), companyTechnicians(scope)]);
+  if (!route) notFoundPage("No route with that number in your company.");
+  return { route, technicians };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  const routeId = idParam(params, "routeId", "route");
+  const parsed = parseRouteForm(formObject(await request.formData(), ["serviceWeekdays", "technicianIds"]));
+  if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
+  const result = await saveRoute(scope, routeId, parsed.value);
+  if (!result.ok) return refusedAnswer(result);
+  throw redirect("/routes");
+}
+
+export default function EditRoute({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <div>
+      <PageHeader title={`Route: ${loaderData.route.name}`} />
+      <RouteForm route={loaderData.route} technicians={loaderData.technicians} answer={actionData} />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

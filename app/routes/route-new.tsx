@@ -1,0 +1,40 @@
+import { redirect } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { companyTechnicians } from "~/.server/queries/routebook-routes";
+import { refusedAnswer } from "~/.server/services/result";
+import { saveRoute } from "~/.server/services/routebook-routes";
+import { PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { RouteForm } from "~/components/routebook/route-form";
+import { formObject } from "~/lib/forms/fields";
+import { parseRouteForm } from "~/lib/forms/routebook";
+import type { Route } from "./+types/route-new";
+
+export const meta: Route.MetaFunction = () => [{ title: "New route · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  return { technicians: await companyTechnicians(scope) };
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  const parsed = parseRouteForm(formObject(await request.formData(), ["serviceWeekdays", "technicianIds"]));
+  if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
+  const result = await saveRoute(scope, null, parsed.value);
+  if (!result.ok) return refusedAnswer(result);
+  throw redirect("/routes");
+}
+
+export default function NewRoute({ loaderData, actionData }: Route.ComponentProps) {
+  return (
+    <div>
+      <PageHeader title="New route" />
+      <RouteForm route={null} technicians={loaderData.technicians} answer={actionData} />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

@@ -1,0 +1,39 @@
+import { redirect } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { refusedAnswer } from "~/.server/services/result";
+import { saveSource } from "~/.server/services/routebook-sources";
+import { PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { SourceForm } from "~/components/routebook/simple-forms";
+import { formObject } from "~/lib/forms/fields";
+import { parseSourceForm } from "~/lib/forms/routebook";
+import type { Route } from "./+types/source-new";
+
+export const meta: Route.MetaFunction = () => [{ title: "New fill source · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  await requireMember(request, "routebookEdit");
+  return null;
+}
+
+export async function action({ request }: Route.ActionArgs) {
+  const scope = await requireMember(request, "routebookEdit");
+  const parsed = parseSourceForm(formObject(await request.formData()));
+  if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
+  const result = await saveSource(scope, null, parsed.value);
+  if (!result.ok) return refusedAnswer(result);
+  throw redirect(`/sources/${result.id}`);
+}
+
+export default function NewSource({ actionData }: Route.ComponentProps) {
+  return (
+    <div>
+      <PageHeader title="New fill source" />
+      <SourceForm source={null} answer={actionData} />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

@@ -1,0 +1,77 @@
+import { redirect, type ShouldRevalidateFunctionArgs } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { activeProducts } from "~/.server/queries/routebook-products";
+import { companyPreferences } from "~/.server/queries/routebook-company";
+import { visitPool } from "~/.server/queries/visit";
+import { refusedAnswer } from "~/.server/services/result";
+import { logVisit } from "~/.server/services/visit";
+import { ErrorPanel } from "~/components/error-panel";
+import { VisitForm } from "~/components/visit/visit-form";
+import { formatDateTime } from "~/lib/format";
+import { formObject } from "~/lib/forms/fields";
+import { parseVisitForm } from "~/lib/forms/visit";
+import { idParam, notFoundPage } from "~/lib/route-params";
+import type { Route } from "./+types/visit-pool";
+
+export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Visit ${loaderData?.pool.street ?? "pool"} · Patina` }];
+
+export async function loader({ request, params }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "visit");
+  const poolId = idParam(params, "poolId", "pool");
+  const [found, products, prefs] = await Promise.all([visitPool(scope, poolId), activeProducts(scope), companyPreferences(scope)]);
+  if (!found) notFoundPage("No pool with that number is on your routes.");
+  return {
+    ...found,
+    products,
+    thresholds: prefs.thresholds,
+    balanceBand: prefs.balanceBand,
+    temperatureUnit: prefs.units === "us" ? ("F" as const) : ("C" as const),
+    timeZone: prefs.timeZone,
+    // One key per rendering of the form: a second submit of the same form is recognised and stored once.
+    submissionKey: crypto.randomUUID(),
+  };
+}
+
+export async function action({ request, params }: Route.ActionArgs) {
+  const scope = await requireMember(request, "visit");
+  const poolId = idParam(params, "poolId", "pool");
+  const parsed = parseVisitForm(formObject(await request.formData(), ["treatmentProduct", "treatmentAmount", "treatmentUnit"]));
+  if (!parsed.ok) return refusedAnswer(parsed);
+  const result = await logVisit(scope, poolId, parsed.value, new Date());
+  if (!result.ok) return refusedAnswer(result);
+  throw redirect(`/pools/${result.poolId}?saved=${result.testId}`);
+}
+
+/** After a refused save, keep the form as typed (and its submission key). */
+export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: ShouldRevalidateFunctionArgs) {
+  return actionResult?.ok === false ? false : defaultShouldRevalidate;
+}
+
+export default function VisitPool({ loaderData, actionData }: Route.ComponentProps) {
+  const { pool, lastTest, products, thresholds, balanceBand, temperatureUnit, timeZone, submissionKey } = loaderData;
+  return (
+    <div className="mx-auto max-w-xl">
+      <p className="text-sm text-muted">
+        {pool.accountCode} · {pool.routeName ?? "no route"}
+      </p>
+      <h1 className="text-2xl font-semibold tracking-tight">{pool.street}</h1>
+      <p className="mb-4 text-muted">
+        {pool.customerName}
+        {lastTest ? ` · last test ${formatDateTime(lastTest.sampledAt, timeZone)}` : " · first visit on record"}
+      </p>
+      <VisitForm
+        key={pool.id}
+        submissionKey={submissionKey}
+        products={products}
+        thresholds={thresholds}
+        balanceBand={balanceBand}
+        temperatureUnit={temperatureUnit}
+        answer={actionData}
+      />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

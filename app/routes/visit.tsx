@@ -1,0 +1,91 @@
+import { Form, Link } from "react-router";
+import { requireMember } from "~/.server/guard";
+import { stopsForWeekday } from "~/.server/queries/home-summary";
+import { searchPools } from "~/.server/queries/routebook-pools";
+import { PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { formatDate, isoWeekdayIn, weekdayName } from "~/lib/format";
+import type { Route } from "./+types/visit";
+
+export const meta: Route.MetaFunction = () => [{ title: "Log a visit · Patina" }];
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const scope = await requireMember(request, "visit");
+  const q = (new URL(request.url).searchParams.get("q") ?? "").trim().slice(0, 100);
+  // The route's weekday is the company's weekday, not the server's.
+  const weekday = isoWeekdayIn(new Date(), scope.timeZone);
+  const [stops, found] = await Promise.all([stopsForWeekday(scope, weekday), q ? searchPools(scope, q) : Promise.resolve([])]);
+  return { weekday, stops, q, found, timeZone: scope.timeZone };
+}
+
+function PoolChoice({ poolId, street, detail }: { poolId: number; street: string; detail: string }) {
+  return (
+    <li>
+      <Link to={`/visit/${poolId}`} className="block rounded-xl border border-line bg-white px-4 py-3 hover:bg-verdigris-50">
+        <span className="block font-medium">{street}</span>
+        <span className="block text-sm text-muted">{detail}</span>
+      </Link>
+    </li>
+  );
+}
+
+export default function VisitPicker({ loaderData }: Route.ComponentProps) {
+  const { weekday, stops, q, found, timeZone } = loaderData;
+  return (
+    <div className="mx-auto max-w-xl space-y-6">
+      <PageHeader title="Log a visit">Pick the pool you are at.</PageHeader>
+      <Form method="get" role="search" className="flex gap-2">
+        <label className="grow">
+          <span className="sr-only">Search pools</span>
+          <input
+            type="search"
+            name="q"
+            defaultValue={q}
+            placeholder="Street, customer or account"
+            className="block w-full rounded-lg border border-line bg-white px-3 py-3 text-base"
+          />
+        </label>
+        <button type="submit" className="rounded-lg border border-line bg-white px-4 font-medium">
+          Search
+        </button>
+      </Form>
+      {q ? (
+        <section aria-labelledby="found">
+          <h2 id="found" className="mb-2 font-semibold">Matching “{q}”</h2>
+          {found.length === 0 ? (
+            <p className="text-muted">No pool on your routes matches.</p>
+          ) : (
+            <ul className="space-y-2">
+              {found.map((p) => (
+                <PoolChoice key={p.poolId} poolId={p.poolId} street={p.street} detail={`${p.customerName} · ${p.accountCode} · ${p.routeName ?? "no route"}`} />
+              ))}
+            </ul>
+          )}
+        </section>
+      ) : null}
+      <section aria-labelledby="today">
+        <h2 id="today" className="mb-2 font-semibold">
+          {weekdayName(weekday)}'s route: {stops.length} {stops.length === 1 ? "pool" : "pools"}
+        </h2>
+        {stops.length === 0 ? (
+          <p className="text-muted">None of your routes is served on {weekdayName(weekday)}. Search for the pool instead.</p>
+        ) : (
+          <ul className="space-y-2">
+            {stops.map((s) => (
+              <PoolChoice
+                key={s.poolId}
+                poolId={s.poolId}
+                street={s.street}
+                detail={`${s.customerName} · ${s.routeName} · last visit ${formatDate(s.lastVisitAt, timeZone)}`}
+              />
+            ))}
+          </ul>
+        )}
+      </section>
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}
