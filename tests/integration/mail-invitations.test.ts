@@ -10,6 +10,8 @@ import { requireMember, type Scope } from "~/.server/guard";
 import { inviteMember } from "~/.server/mail/invitations";
 import { deliverDueMail } from "~/.server/mail/outbox";
 import * as invitePage from "~/routes/invite";
+import * as mailboxPage from "~/routes/mailbox";
+import * as mailboxMessagePage from "~/routes/mailbox-message";
 import * as teamInvitations from "~/routes/team-invitations";
 import * as teamPage from "~/routes/team";
 import { createCompany, createMember, type FixtureMember, requestAs } from "../fixtures/company";
@@ -206,5 +208,29 @@ describe("invitations by e-mail", () => {
     expect(await mailTo(sink, email)).toHaveLength(1);
     const rows = await db().select().from(mailOutbox).where(eq(mailOutbox.recipient, email));
     expect(rows.map((r) => [r.kind, r.status, r.attempts])).toEqual([["invitation", "sent", 1]]);
+  });
+
+  it("the mailbox shows owners their own company's messages only", async () => {
+    const email = `mailbox-${Date.now()}@fixture.example`;
+    await invite(ownerA, email, "analyst");
+    const [row] = await db().select().from(mailOutbox).where(eq(mailOutbox.recipient, email));
+
+    const listA = await callRoute(mailboxPage.loader, requestAs(ownerA, "/mailbox"));
+    expect(listA.status).toBe(200);
+    const messages = (listA.body as { messages: Array<{ id: number; recipient: string; status: string }> }).messages;
+    expect(messages.find((m) => m.id === row!.id)).toMatchObject({ recipient: email, status: "pending" });
+
+    const openA = await callRoute(mailboxMessagePage.loader, requestAs(ownerA, `/mailbox/${row!.id}`), { messageId: String(row!.id) });
+    expect(openA.body).toMatchObject({ message: { id: row!.id, subject: expect.stringContaining("Invitations A") } });
+
+    const listB = await callRoute(mailboxPage.loader, requestAs(ownerB, "/mailbox"));
+    expect(JSON.stringify(listB.body)).not.toContain(email);
+    const openB = await callRoute(mailboxMessagePage.loader, requestAs(ownerB, `/mailbox/${row!.id}`), { messageId: String(row!.id) });
+    expect(openB.status).toBe(404);
+
+    const managerA = await createMember(companyA, "manager");
+    expect((await callRoute(mailboxPage.loader, requestAs(managerA, "/mailbox"))).status).toBe(403);
+    expect((await callRoute(mailboxPage.loader, requestAs(null, "/mailbox"))).status).toBe(302);
+    await deliverDueMail();
   });
 });

@@ -2,8 +2,9 @@ import { serverEnv } from "../env";
 import { deliverDueMail } from "./outbox";
 
 const INTERVAL_MS = 15_000;
+const DIGEST_CHECK_MS = 60 * 60_000;
 
-type WorkerState = { timer: NodeJS.Timeout; running: boolean; again: boolean };
+type WorkerState = { timer: NodeJS.Timeout; digestTimer: NodeJS.Timeout; running: boolean; again: boolean };
 const holder = globalThis as typeof globalThis & { __patinaMailWorker?: WorkerState };
 
 function drain(state: WorkerState) {
@@ -23,15 +24,30 @@ function drain(state: WorkerState) {
     });
 }
 
+/** Hourly: queues the weekly digest of every company whose Monday morning has come (once per week and member). */
+function queueDueDigests() {
+  // Imported when needed: the digest module itself uses this one to nudge the sender.
+  import("./digest")
+    .then(({ sendWeeklyDigests }) => sendWeeklyDigests(new Date(), { onlyDue: true }))
+    .catch((error: unknown) => console.error("[patina] weekly digest failed:", error));
+}
+
 /**
  * One sender per server process: it drains the outbox every few seconds and
  * never runs inside a request. Tests call deliverDueMail() themselves.
  */
 export function ensureMailWorker(): void {
   if (holder.__patinaMailWorker || serverEnv().NODE_ENV === "test") return;
-  const state: WorkerState = { timer: setInterval(() => drain(state), INTERVAL_MS), running: false, again: false };
-  // The interval must not keep a finished process (a script, a shutdown) alive.
+  const state: WorkerState = {
+    timer: setInterval(() => drain(state), INTERVAL_MS),
+    digestTimer: setInterval(queueDueDigests, DIGEST_CHECK_MS),
+    running: false,
+    again: false,
+  };
+  // The intervals must not keep a finished process (a script, a shutdown) alive.
   state.timer.unref();
+  state.digestTimer.unref();
+  setTimeout(queueDueDigests, 30_000).unref();
   holder.__patinaMailWorker = state;
 }
 

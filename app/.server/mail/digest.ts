@@ -1,0 +1,324 @@
+import { TZDate } from "@date-fns/tz";
+import { format } from "date-fns";
+import { and, asc, eq, gte, inArray, lte } from "drizzle-orm";
+import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/episodes";
+import type { Metal, MetalReading } from "@analysis/metals/reading";
+import type { FillSourceKind, PoolProfile, SanitiserSystem } from "@analysis/metals/route-book";
+import { buildCourses, courseOutcomes, type OutcomeTest, type ProductCategory } from "@analysis/outcomes/treatments";
+import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
+import { METALS } from "@analysis/metals/reading";
+import { metalThresholdsFrom } from "../company-settings";
+import { db } from "../db/client";
+import { companies, fillSources, mailOutbox, memberships, pools, products, routes, treatments, user, waterTests } from "../db/schema";
+import { serverEnv } from "../env";
+import { digestMail, type WeeklyDigest } from "./digest-message";
+import { enqueueMail } from "./outbox";
+import { preferencesFor } from "./preferences";
+import { nudgeMailWorker } from "./worker";
+
+const WEEK_MS = 7 * DAY_MS;
+
+/** Groupings the digest can judge from the route book alone (heater age and exchanger metal need equipment rows). */
+const DIGEST_GROUPINGS: Array<{ key: GroupingKey; label: string }> = [
+  { key: "fill-source", label: "Fill source" },
+  { key: "fill-source-kind", label: "Kind of fill source" },
+  { key: "route", label: "Route" },
+  { key: "neighbourhood", label: "Neighbourhood" },
+  { key: "surface", label: "Surface" },
+  { key: "sanitiser", label: "Sanitiser" },
+];
+
+const CATEGORY: Record<(typeof products.$inferSelect)["category"], ProductCategory> = {
+  sequestrant: "sequestrant",
+  collector_pad: "metal-collector-pad",
+  ph_decreaser: "ph-decreaser",
+  copper_algaecide: "copper-algaecide",
+  other_algaecide: "other-algaecide",
+  chlorine: "chlorine",
+  other: "other",
+};
+
+const SANITISER: Record<NonNullable<(typeof pools.$inferSelect)["sanitiser"]>, SanitiserSystem> = {
+  chlorine: "chlorine",
+  salt_generator: "salt-chlorine-generator",
+  mineral_assist: "mineral-ioniser-assist",
+  other: "other",
+};
+
+type CompanyPool = {
+  id: number;
+  customerName: string;
+  street: string;
+  routeName: string | null;
+  sourceName: string | null;
+  profile: PoolProfile;
+};
+
+async function companyPools(companyId: number): Promise<Map<number, CompanyPool>> {
+  const rows = await db()
+    .select({
+      id: pools.id,
+      customerName: pools.customerName,
+      street: pools.street,
+      neighbourhood: pools.neighbourhood,
+      surface: pools.surface,
+      sanitiser: pools.sanitiser,
+      routeId: pools.routeId,
+      routeName: routes.name,
+      fillSourceId: pools.fillSourceId,
+      sourceName: fillSources.name,
+      sourceKind: fillSources.kind,
+    })
+    .from(pools)
+    .leftJoin(routes, eq(routes.id, pools.routeId))
+    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
+    .where(eq(pools.companyId, companyId));
+  return new Map(
+    rows.map((r) => [
+      r.id,
+      {
+        id: r.id,
+        customerName: r.customerName,
+        street: r.street,
+        routeName: r.routeName,
+        sourceName: r.sourceName,
+        profile: {
+          poolId: String(r.id),
+          fillSourceId: r.fillSourceId === null ? null : String(r.fillSourceId),
+          fillSourceKind: r.sourceKind ? (r.sourceKind.replace("_", "-") as FillSourceKind) : null,
+          neighbourhood: r.neighbourhood,
+          routeId: r.routeId === null ? null : String(r.routeId),
+          surface: r.surface,
+          sanitiser: r.sanitiser ? SANITISER[r.sanitiser] : null,
+        },
+      },
+    ]),
+  );
+}
+
+function reading(value: number | null, belowDetection: boolean): MetalReading | null {
+  return value === null ? null : { value, belowDetection };
+}
+
+async function companyTests(companyId: number, until: Date): Promise<OutcomeTest[]> {
+  const rows = await db()
+    .select({
+      id: waterTests.id,
+      poolId: waterTests.poolId,
+      sampledAt: waterTests.sampledAt,
+      ph: waterTests.ph,
+      copper: waterTests.copper,
+      copperBelowDetection: waterTests.copperBelowDetection,
+      iron: waterTests.iron,
+      ironBelowDetection: waterTests.ironBelowDetection,
+      manganese: waterTests.manganese,
+      manganeseBelowDetection: waterTests.manganeseBelowDetection,
+    })
+    .from(waterTests)
+    .where(and(eq(waterTests.companyId, companyId), lte(waterTests.sampledAt, until)))
+    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
+  return rows.map((r) => ({
+    id: String(r.id),
+    poolId: String(r.poolId),
+    takenAt: r.sampledAt.getTime(),
+    ph: r.ph,
+    copper: reading(r.copper, r.copperBelowDetection),
+    iron: reading(r.iron, r.ironBelowDetection),
+    manganese: reading(r.manganese, r.manganeseBelowDetection),
+  }));
+}
+
+async function recentTreatments(companyId: number, from: Date, until: Date) {
+  return db()
+    .select({
+      id: treatments.id,
+      poolId: treatments.poolId,
+      productId: treatments.productId,
+      productName: products.name,
+      category: products.category,
+      appliedAt: treatments.appliedAt,
+      cost: treatments.cost,
+    })
+    .from(treatments)
+    .innerJoin(products, eq(products.id, treatments.productId))
+    .where(and(eq(treatments.companyId, companyId), gte(treatments.appliedAt, from), lte(treatments.appliedAt, until)));
+}
+
+function becameRecurring(episodes: readonly Episode[]): Array<{ episode: Episode; previous: Episode }> {
+  const found: Array<{ episode: Episode; previous: Episode }> = [];
+  const byPoolMetal = new Map<string, Episode[]>();
+  for (const e of episodes) {
+    const key = `${e.poolId}:${e.metal}`;
+    byPoolMetal.set(key, [...(byPoolMetal.get(key) ?? []), e]);
+  }
+  for (const list of byPoolMetal.values()) {
+    list.sort((a, b) => a.openedAt - b.openedAt);
+    list.forEach((e, i) => {
+      const previous = list[i - 1];
+      if (e.recurrence && previous && !previous.recurrence) found.push({ episode: e, previous });
+    });
+  }
+  return found;
+}
+
+/**
+ * The company's week in figures, the same for every owner and manager: open
+ * metal cases, pools that became recurring, groups with more cases than the
+ * rest of the route book, and treatments whose follow-up came in this week.
+ */
+export async function weeklyDigestFor(companyId: number, now: Date): Promise<WeeklyDigest | null> {
+  const [company] = await db().select().from(companies).where(eq(companies.id, companyId));
+  if (!company) return null;
+  const thresholds = metalThresholdsFrom(company.settings);
+  const weekStart = now.getTime() - WEEK_MS;
+  const [book, tests, applied] = await Promise.all([
+    companyPools(companyId),
+    companyTests(companyId, now),
+    recentTreatments(companyId, new Date(now.getTime() - 45 * DAY_MS), now),
+  ]);
+  const history = analyseMetalHistory(tests, { thresholds });
+  const poolOf = (id: string) => book.get(Number(id));
+
+  const openCases = history.episodes
+    .filter((e) => e.censored)
+    .sort((a, b) => a.openedAt - b.openedAt)
+    .map((e) => ({
+      pool: poolOf(e.poolId)!,
+      metal: e.metal,
+      openedAt: e.openedAt,
+      daysOpen: Math.floor((now.getTime() - e.openedAt) / DAY_MS),
+      peak: e.peak,
+    }))
+    .filter((c) => c.pool);
+
+  const newRecurring = becameRecurring(history.episodes)
+    .filter(({ episode }) => episode.openedAt >= weekStart && episode.openedAt <= now.getTime())
+    .map(({ episode, previous }) => ({ pool: poolOf(episode.poolId)!, metal: episode.metal, openedAt: episode.openedAt, previousOpenedAt: previous.openedAt }))
+    .filter((r) => r.pool);
+
+  const profiles = [...book.values()].map((p) => p.profile);
+  const groupName = (key: GroupingKey, group: string): string => {
+    if (key === "fill-source") return [...book.values()].find((p) => p.profile.fillSourceId === group)?.sourceName ?? group;
+    if (key === "route") return [...book.values()].find((p) => p.profile.routeId === group)?.routeName ?? group;
+    return group.replaceAll("-", " ");
+  };
+  const riskyGroups = DIGEST_GROUPINGS.flatMap(({ key, label }) =>
+    groupComparison(profiles, tests, history.episodes, key)
+      .filter((g) => g.risky)
+      .map((g) => ({
+        grouping: label,
+        group: groupName(key, g.group),
+        pools: g.pools,
+        openings: g.openings,
+        perPoolYear: g.rate.estimate,
+        rateRatio: g.rateRatio,
+      })),
+  );
+
+  const courses = buildCourses(
+    applied.map((t) => ({
+      id: String(t.id),
+      poolId: String(t.poolId),
+      productId: String(t.productId),
+      category: CATEGORY[t.category],
+      appliedAt: t.appliedAt.getTime(),
+      cost: t.cost,
+    })),
+  );
+  const productName = new Map(applied.map((t) => [String(t.productId), t.productName]));
+  const inWeek = (at: number | null | undefined) => typeof at === "number" && at >= weekStart && at <= now.getTime();
+  const treatmentResults = METALS.flatMap((metal: Metal) =>
+    courseOutcomes(courses, tests, metal, { thresholds })
+      .filter((o) => o.ineligible === null && (inWeek(o.firstFollowUp?.takenAt) || inWeek(o.clearedAt)))
+      .map((o) => ({
+        pool: poolOf(o.course.poolId)!,
+        treatment: o.course.productIds.map((id) => productName.get(id) ?? id).join(" + "),
+        metal,
+        startedAt: o.course.startAt,
+        baseline: o.baseline!.value,
+        followUp: o.firstFollowUp ? { value: o.firstFollowUp.value, belowDetection: o.firstFollowUp.belowDetection, daysAfter: o.firstFollowUp.daysAfter } : null,
+        percentReduction: o.percentReduction,
+        clearedAt: o.clearedAt,
+      }))
+      .filter((r) => r.pool),
+  ).sort((a, b) => a.startedAt - b.startedAt);
+
+  return {
+    companyName: company.name,
+    timeZone: company.timeZone,
+    weekStart,
+    weekEnd: now.getTime(),
+    openCases,
+    newRecurring,
+    riskyGroups,
+    treatmentResults,
+  };
+}
+
+/** ISO week of the moment in the company's time zone, e.g. "2026-W26": one digest per member and week. */
+export function digestWeek(now: Date, timeZone: string): string {
+  return format(new TZDate(now.getTime(), timeZone), "RRRR-'W'II");
+}
+
+/** Monday from 07:00 local time: when the scheduled run sends a company's digest. */
+export function digestIsDue(now: Date, timeZone: string): boolean {
+  const local = new TZDate(now.getTime(), timeZone);
+  return local.getDay() === 1 && local.getHours() >= 7;
+}
+
+export type DigestRun = { companies: number; queued: number };
+
+/**
+ * Queues this week's digest for every owner and manager who has not turned it
+ * off. Idempotent per member and ISO week, so the scheduler may call it every
+ * hour; with onlyDue it leaves companies alone until their Monday morning.
+ */
+export async function sendWeeklyDigests(now: Date = new Date(), options: { onlyDue?: boolean; companyIds?: number[] } = {}): Promise<DigestRun> {
+  const all = await db()
+    .select({ id: companies.id, timeZone: companies.timeZone })
+    .from(companies)
+    .where(options.companyIds ? inArray(companies.id, options.companyIds) : undefined);
+  const run: DigestRun = { companies: 0, queued: 0 };
+  for (const company of all) {
+    if (options.onlyDue && !digestIsDue(now, company.timeZone)) continue;
+    const week = digestWeek(now, company.timeZone);
+    const members = await db()
+      .select({ membershipId: memberships.id, email: user.email, name: user.name })
+      .from(memberships)
+      .innerJoin(user, eq(user.id, memberships.userId))
+      .where(and(eq(memberships.companyId, company.id), inArray(memberships.role, ["owner", "manager"])));
+    const keyOf = (membershipId: number) => `digest:${membershipId}:${week}`;
+    const already = new Set(
+      members.length === 0
+        ? []
+        : (
+            await db()
+              .select({ key: mailOutbox.dedupeKey })
+              .from(mailOutbox)
+              .where(inArray(mailOutbox.dedupeKey, members.map((m) => keyOf(m.membershipId))))
+          ).map((r) => r.key),
+    );
+    const waiting: Array<(typeof members)[number] & { unsubscribeToken: string }> = [];
+    for (const member of members) {
+      if (already.has(keyOf(member.membershipId))) continue;
+      const preferences = await preferencesFor(member.membershipId);
+      if (preferences.digest) waiting.push({ ...member, unsubscribeToken: preferences.unsubscribeToken });
+    }
+    if (waiting.length === 0) continue;
+    const digest = await weeklyDigestFor(company.id, now);
+    if (!digest) continue;
+    run.companies++;
+    for (const member of waiting) {
+      const queued = await enqueueMail({
+        companyId: company.id,
+        dedupeKey: keyOf(member.membershipId),
+        kind: "digest",
+        recipient: member.email,
+        mail: digestMail(digest, { baseUrl: serverEnv().PATINA_URL, recipientName: member.name, unsubscribeToken: member.unsubscribeToken, week }),
+      });
+      if (queued) run.queued++;
+    }
+  }
+  if (run.queued > 0) nudgeMailWorker();
+  return run;
+}
