@@ -26,13 +26,18 @@ export function TextField(props: {
   hint?: string;
   defaultValue?: string;
 }) {
+  const inputId = `field-${props.name}`;
   const errorId = `${props.name}-error`;
   const hintId = `${props.name}-hint`;
   const describedBy = [props.error ? errorId : null, props.hint ? hintId : null].filter(Boolean).join(" ") || undefined;
+  // Hint and error sit outside the label, so the field's name stays just its label.
   return (
-    <label className="block">
-      <span className="text-sm font-medium">{props.label}</span>
+    <div>
+      <label htmlFor={inputId} className="text-sm font-medium">
+        {props.label}
+      </label>
       <input
+        id={inputId}
         name={props.name}
         type={props.type ?? "text"}
         autoComplete={props.autoComplete}
@@ -52,7 +57,7 @@ export function TextField(props: {
           {props.error}
         </span>
       ) : null}
-    </label>
+    </div>
   );
 }
 

@@ -1,0 +1,94 @@
+import { mkdtemp, rm } from "node:fs/promises";
+import { tmpdir } from "node:os";
+import path from "node:path";
+import type { Browser } from "playwright-core";
+import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { type MailSink, startMailSink } from "~/.server/mail/sink";
+import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
+import { launchBrowser, phoneContext } from "../fixtures/browser";
+import { BROWSER_TEST_URL } from "../fixtures/server";
+
+// The built server sends to PATINA_SMTP_URL (inherited from this run). This file
+// listens there itself unless a sink started by the test script already does.
+const smtpPort = Number(new URL(process.env.PATINA_SMTP_URL ?? "smtp://127.0.0.1:2525").port);
+
+let browser: Browser;
+let ownSink: (MailSink & { dir: string }) | null = null;
+
+beforeAll(async () => {
+  browser = await launchBrowser();
+  const dir = await mkdtemp(path.join(tmpdir(), "patina-e2e-mail-"));
+  try {
+    ownSink = { ...(await startMailSink({ port: smtpPort, storeDir: dir })), dir };
+  } catch (error) {
+    if ((error as NodeJS.ErrnoException).code !== "EADDRINUSE") throw error;
+    await rm(dir, { recursive: true, force: true });
+  }
+});
+
+afterAll(async () => {
+  await browser?.close();
+  if (ownSink) {
+    await ownSink.stop();
+    await rm(ownSink.dir, { recursive: true, force: true });
+  }
+});
+
+const owner = DEMO_USERS.find((u) => u.role === "owner")!;
+
+describe("an invitation sent from the team page", () => {
+  it("is mailed, and its link signs the new member up in the owner's company with the chosen role", async () => {
+    const invitee = `e2e-${Date.now()}@fixture.example`;
+    const ownerContext = await phoneContext(browser);
+    const page = await ownerContext.newPage();
+    await page.goto(`${BROWSER_TEST_URL}/sign-in?next=/team`);
+    await page.getByLabel("E-mail").fill(`${owner.email}@${DEMO_EMAIL_DOMAIN}`);
+    await page.getByLabel("Password").fill(owner.password);
+    await page.getByRole("button", { name: "Sign in" }).click();
+    await page.getByRole("heading", { level: 2, name: "Invite someone" }).waitFor();
+
+    const form = page.locator("section", { has: page.getByRole("heading", { name: "Invite someone" }) });
+    await form.getByLabel("E-mail").fill(invitee);
+    await form.getByLabel("Role").selectOption("manager");
+    await form.getByRole("button", { name: "Send invitation" }).click();
+    await expect.poll(() => page.getByRole("status").innerText()).toContain(`Invitation sent to ${invitee}`);
+    expect(await page.getByText(invitee).count()).toBeGreaterThan(0);
+
+    // The server's own sender delivers it; the mailbox shows it as sent.
+    await page.goto(`${BROWSER_TEST_URL}/mailbox`);
+    const row = page.getByRole("link", { name: new RegExp(`to ${invitee.replace(/[.]/g, "\\.")}`) });
+    await expect
+      .poll(async () => {
+        await page.reload();
+        return row.innerText();
+      })
+      .toContain("Sent");
+    await row.click();
+    const text = await page.locator("pre").innerText();
+    const link = /http:\/\/\S+\/invite\/[A-Za-z0-9_-]+/.exec(text)?.[0];
+    expect(link).toBeDefined();
+
+    if (ownSink) {
+      const received = (await ownSink.messages()).filter((m) => m.to.includes(invitee));
+      expect(received).toHaveLength(1);
+      expect(received[0]!.text).toContain(link!);
+    }
+
+    const inviteeContext = await phoneContext(browser);
+    const invitePage = await inviteeContext.newPage();
+    await invitePage.goto(link!.replace(/^http:\/\/[^/]+/, BROWSER_TEST_URL));
+    await invitePage.getByRole("heading", { name: /Join / }).waitFor();
+    await invitePage.getByLabel("Your name").fill("Marin Eskdale");
+    await invitePage.getByLabel("Password", { exact: true }).fill("marin-password-2026");
+    await invitePage.getByLabel("Password again").fill("marin-password-2026");
+    await invitePage.getByRole("button", { name: "Join and sign in" }).click();
+    await invitePage.getByRole("heading", { level: 1, name: /Your routes at a glance/ }).waitFor();
+    expect(await invitePage.getByText("Manager ·").count()).toBeGreaterThan(0);
+
+    // The link is spent now.
+    await invitePage.goto(link!.replace(/^http:\/\/[^/]+/, BROWSER_TEST_URL));
+    await invitePage.getByText("already been used").waitFor();
+    await inviteeContext.close();
+    await ownerContext.close();
+  });
+});
