@@ -4,7 +4,7 @@ import { companyPreferences } from "~/.server/queries/routebook-company";
 import { poolForEdit } from "~/.server/queries/routebook-pools";
 import { routeOptions } from "~/.server/queries/routebook-routes";
 import { sourceOptions } from "~/.server/queries/routebook-sources";
-import { refusedAnswer } from "~/.server/services/result";
+import type { ServiceRefusal } from "~/.server/services/result";
 import { fitEquipment, removeEquipment, savePool } from "~/.server/services/routebook-pools";
 import { PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
@@ -37,7 +37,7 @@ export async function action({ request, params }: Route.ActionArgs) {
   if (!intent) {
     return data({ ok: false as const, intent: "", fieldErrors: { intent: `Intent: "${String(raw.intent ?? "")}" is not an action of this page.` }, formError: null }, { status: 400 });
   }
-  const refuse = (refused: Parameters<typeof refusedAnswer>[0]) =>
+  const refuse = (refused: Pick<ServiceRefusal, "fieldErrors" | "formError"> & { status?: number }) =>
     data({ ok: false as const, intent, fieldErrors: refused.fieldErrors, formError: refused.formError }, { status: refused.status ?? 400 });
   const prefs = await companyPreferences(scope);
   const today = todayIn(prefs.timeZone);
