@@ -33,7 +33,7 @@ export function readNumber(text: string, style: NumberStyle): CellNumber {
   }
   if (/^-\d/.test(cell)) return { ok: false, reason: "is negative" };
   if (!style.decimalComma && COMMA_DECIMAL.test(cell)) {
-    return { ok: false, reason: "has a decimal comma, which a comma-separated file cannot tell from a column break; write it with a point" };
+    return { ok: false, reason: "is written with a decimal comma, which a comma-separated file cannot tell from a column break; write it with a point" };
   }
   return { ok: false, reason: "is not a number" };
 }

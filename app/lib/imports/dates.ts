@@ -45,7 +45,7 @@ export function findDateOrder(cells: Iterable<string>): DateOrderFinding {
   if (monthFirstProof) return { kind: "known", order: "mdy", reason: `"${monthFirstProof}" can only be month first` };
   return {
     kind: "ambiguous",
-    reason: `none of the ${slashed} dates has a day above 12, so 03/04 could be 3 April or 4 March`,
+    reason: `none of the ${slashed} dates shows a day above 12, so 03/04 could be 3 April or 4 March`,
   };
 }
 
@@ -97,7 +97,7 @@ export function readInstant(
     day = Number(iso[3]);
     timePart = iso[4];
   } else if (slashed) {
-    if (slashed[3]!.length !== 4) return { ok: false, reason: "has a two-digit year; write the year in full" };
+    if (slashed[3]!.length !== 4) return { ok: false, reason: "gives the year in two digits; write the year in full" };
     if (!order) return { ok: false, reason: "could be day first or month first; choose the date order" };
     const first = Number(slashed[1]);
     const second = Number(slashed[2]);
@@ -117,9 +117,34 @@ export function readInstant(
   let time: TimeOfDay = { hours: 0, minutes: 0, seconds: 0 };
   if (timeSource !== "") {
     const read = readTime(timeSource.replace(/(Z|[+-]\d{2}:?\d{2})$/, ""));
-    if (!read) return { ok: false, reason: `has a time "${timeSource}" that is not a time of day` };
+    if (!read) return { ok: false, reason: `gives a time "${timeSource}" that is not a time of day` };
     time = read;
   }
-  const value = new TZDate(year, month - 1, day, time.hours, time.minutes, time.seconds, timeZone);
-  return { ok: true, value: new Date(value.getTime()), hadTime: timeSource !== "" };
+  const wallClock = Date.UTC(year, month - 1, day, time.hours, time.minutes, time.seconds);
+  const offset = steadyOffset(year, month, day, timeZone);
+  const value =
+    offset !== null
+      ? wallClock - offset
+      : new TZDate(year, month - 1, day, time.hours, time.minutes, time.seconds, timeZone).getTime();
+  return { ok: true, value: new Date(value), hadTime: timeSource !== "" };
+}
+
+const offsets = new Map<string, number | null>();
+
+/**
+ * The zone's offset for a whole day, or null on a day the clocks change (then
+ * every time is converted on its own). Working out an offset is slow, and a
+ * long file has many rows per day.
+ */
+function steadyOffset(year: number, month: number, day: number, timeZone: string): number | null {
+  const key = `${timeZone}|${year}-${month}-${day}`;
+  const known = offsets.get(key);
+  if (known !== undefined) return known;
+  const at = (h: number, m: number, s: number) =>
+    Date.UTC(year, month - 1, day, h, m, s) - new TZDate(year, month - 1, day, h, m, s, timeZone).getTime();
+  const start = at(0, 0, 0);
+  const offset = start === at(23, 59, 59) ? start : null;
+  if (offsets.size > 100_000) offsets.clear();
+  offsets.set(key, offset);
+  return offset;
 }

@@ -172,3 +172,15 @@ describe("match keys", async () => {
     expect(accountKey(" kpc 0012 ")).toBe("KPC0012");
   });
 });
+
+describe("days the clocks change", () => {
+  it("converts each time on its own on a changeover day", () => {
+    // New York, 10 March 2024: clocks go from 02:00 EST to 03:00 EDT.
+    // 01:30 is EST (UTC-5) = 06:30 UTC; 03:30 is EDT (UTC-4) = 07:30 UTC.
+    expect(readInstant("2024-03-10 01:30", undefined, null, "America/New_York")).toMatchObject({ value: new Date("2024-03-10T06:30:00Z") });
+    expect(readInstant("2024-03-10 03:30", undefined, null, "America/New_York")).toMatchObject({ value: new Date("2024-03-10T07:30:00Z") });
+    // The days around it keep one offset each: 9 March EST, 11 March EDT.
+    expect(readInstant("2024-03-09 12:00", undefined, null, "America/New_York")).toMatchObject({ value: new Date("2024-03-09T17:00:00Z") });
+    expect(readInstant("2024-03-11 12:00", undefined, null, "America/New_York")).toMatchObject({ value: new Date("2024-03-11T16:00:00Z") });
+  });
+});
