@@ -245,6 +245,32 @@ describe("quirky files", () => {
   });
 });
 
+describe("saved mappings", () => {
+  it("a saved mapping is proposed again for a file with the same columns", async () => {
+    const first = await uploadFixture(analyst, "browser-upload.csv");
+    // "Metal A" means nothing to Patina until someone says it is copper in µg/L.
+    expect((await checkPageData(analyst, first)).body.options?.columns[3]).toEqual({ field: "ignore" });
+    const saved = await postCheckForm(analyst, first, "save-mapping", (form) => {
+      form.set("column-3", "copper");
+      form.set("unit-3", "ugL");
+      form.set("mappingName", "Old route sheets");
+    });
+    expect(saved.body).toMatchObject({ ok: true });
+    const second = await uploadFixture(owner, "browser-upload.csv");
+    expect((await checkPageData(owner, second)).body.options?.columns[3]).toEqual({ field: "copper", unit: "ugL" });
+    expect((await checkPageData(owner, second)).body.savedMappingNames).toEqual(["Old route sheets"]);
+    // Another company does not get it.
+    const elsewhere = await uploadFixture(outsider, "browser-upload.csv");
+    expect((await checkPageData(outsider, elsewhere)).body.options?.columns[3]).toEqual({ field: "ignore" });
+  });
+
+  it("a form reading two columns as the same field is refused, naming the field", async () => {
+    const id = await uploadFixture(analyst, "browser-upload.csv");
+    const outcome = await postCheckForm(analyst, id, "check", (form) => form.set("column-3", "ph"));
+    expect(outcome).toMatchObject({ status: 400, body: { ok: false, field: "columns", message: 'Two columns are read as "ph"; choose one and leave the other out.' } });
+  });
+});
+
 describe("refusals", () => {
   it("a file over the size cap gets 413 with a clear message", async () => {
     process.env.PATINA_UPLOAD_MAX_MB = "0.001";
@@ -256,6 +282,19 @@ describe("refusals", () => {
     } finally {
       delete process.env.PATINA_UPLOAD_MAX_MB;
     }
+  });
+
+  it("a request declaring more than the cap is refused before its body is read", async () => {
+    const { action } = await import("~/routes/api/import-uploads");
+    // 60 MB declared against the default 50 MB cap
+    const request = requestAs(analyst, "/api/imports/uploads", {
+      method: "POST",
+      headers: { "Content-Length": String(60 * 1024 * 1024), "Content-Type": "multipart/form-data; boundary=x" },
+      body: "--x--",
+    });
+    const outcome = await callRoute(action, request);
+    expect(outcome.status).toBe(413);
+    expect((outcome.body as { error: { message: string } }).error.message).toMatch(/^The file is larger than the 50 MB Patina accepts/);
   });
 
   it("roles without imports get 403; signed-out gets 401", async () => {

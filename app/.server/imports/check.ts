@@ -38,12 +38,7 @@ export async function checkUpload(scope: Scope, uploadId: string, options: Impor
 export async function refusedRowsCsv(scope: Scope, uploadId: string, options: ImportOptions): Promise<string | null> {
   const upload = await findUpload(scope, uploadId);
   if (!upload) return null;
-  const previousPhase = upload.phase;
-  const { plan } = await planImport(scope, upload, options);
-  await db()
-    .update(importUploads)
-    .set({ phase: previousPhase, updatedAt: new Date() })
-    .where(eq(importUploads.id, uploadId));
+  const { plan } = await planImport(scope, upload, options, null);
   return toCsv(
     ["row", "column", "value", "reason"],
     plan.refused.map((r) => [r.row, r.column, r.value, r.reason]),

@@ -64,12 +64,16 @@ export async function planImport(
   scope: Scope,
   upload: UploadRow,
   options: ImportOptions,
-  phase: "checking" | "committing" = "checking",
+  /** The phase to report progress under; null reads quietly (e.g. for the refused-rows download). */
+  phase: "checking" | "committing" | null = "checking",
 ): Promise<{ plan: ImportPlan; summary: PlanSummary }> {
+  const report = async (values: Parameters<typeof reportProgress>[1]) => {
+    if (phase) await reportProgress(upload.id, values);
+  };
   const decoded = await readUploadText(upload);
   const delimiter = (upload.delimiter ?? ",") as Delimiter;
   const table = parseTable(decoded.text, delimiter);
-  await reportProgress(upload.id, { phase, rowsDone: 0, rowsTotal: table.rows.length, error: null });
+  if (phase) await report({ phase, rowsDone: 0, rowsTotal: table.rows.length, error: null });
 
   const dateColumn = options.columns.findIndex((c) => c.field === "sampledAt");
   const dateOrder = dateColumn < 0 ? ({ kind: "none" } as const) : findDateOrder(table.rows.map((r) => r.cells[dateColumn] ?? ""));
@@ -106,7 +110,7 @@ export async function planImport(
   const accepted: Array<{ record: ImportRecord; pool: PoolRef; product: PlannedRow["product"] }> = [];
 
   for (let i = 0; i < table.rows.length; i++) {
-    if (i > 0 && i % PROGRESS_EVERY === 0) await reportProgress(upload.id, { rowsDone: i });
+    if (i > 0 && i % PROGRESS_EVERY === 0) await report({ rowsDone: i });
     const { row, cells } = table.rows[i]!;
     const result = validateRow(cells, row, context);
     if (!result.ok) {
@@ -186,7 +190,7 @@ export async function planImport(
     if (addsTreatment) treatmentsToAdd++;
     planned.push({ record: entry.record, pool: entry.pool, product: addsTreatment ? product : null, testIsNew });
   }
-  await reportProgress(upload.id, { rowsDone: table.rows.length });
+  await report({ rowsDone: table.rows.length });
 
   const plan: ImportPlan = {
     dateOrder,
