@@ -106,7 +106,8 @@ export async function logVisit(scope: Scope, poolId: number, input: VisitInput, 
     });
     return { ok: true, testId, poolId, repeated: false };
   } catch (error) {
-    if (isDuplicateKey(error, "water_tests_submission")) {
+    // A twin submit running at the same moment can trip either unique key first.
+    if (isDuplicateKey(error)) {
       const stored = await alreadyStored(scope, input.submissionKey);
       if (stored) return stored;
     }
