@@ -3,13 +3,14 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { type MailSink, startMailSink } from "~/.server/mail/sink";
+import { type MailSink, readStoredMail, startMailSink } from "~/.server/mail/sink";
 import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 
 // The built server sends to PATINA_SMTP_URL (inherited from this run). This file
-// listens there itself unless a sink started by the test script already does.
+// listens there itself unless a sink started by the test script already does;
+// that one's folder is then read from PATINA_MAIL_SINK_DIR.
 const smtpPort = Number(new URL(process.env.PATINA_SMTP_URL ?? "smtp://127.0.0.1:2525").port);
 
 let browser: Browser;
@@ -68,8 +69,9 @@ describe("an invitation sent from the team page", () => {
     const link = /http:\/\/\S+\/invite\/[A-Za-z0-9_-]+/.exec(text)?.[0];
     expect(link).toBeDefined();
 
-    if (ownSink) {
-      const received = (await ownSink.messages()).filter((m) => m.to.includes(invitee));
+    const sinkDir = ownSink?.dir ?? process.env.PATINA_MAIL_SINK_DIR;
+    if (sinkDir) {
+      const received = (await readStoredMail(sinkDir)).filter((m) => m.to.includes(invitee));
       expect(received).toHaveLength(1);
       expect(received[0]!.text).toContain(link!);
     }
