@@ -1,5 +1,6 @@
 import { sql } from "drizzle-orm";
 import {
+  boolean,
   datetime,
   index,
   int,
@@ -61,6 +62,8 @@ export const routes = mysqlTable(
     name: varchar("name", { length: 120 }).notNull(),
     /** ISO weekdays served, 1 = Monday ... 7 = Sunday, comma separated ("1,4"). */
     serviceWeekdays: varchar("service_weekdays", { length: 20 }).notNull().default(""),
+    /** Archived routes keep their history but leave the day's lists and forms. */
+    active: boolean("active").notNull().default(true),
     createdAt: datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   },
   (t) => [unique("routes_company_name").on(t.companyId, t.name)],

@@ -33,6 +33,7 @@ export const fillSources = mysqlTable(
     name: varchar("name", { length: 160 }).notNull(),
     kind: mysqlEnum("kind", SOURCE_KINDS).notNull(),
     notes: text("notes"),
+    active: boolean("active").notNull().default(true),
     createdAt: createdAt(),
   },
   (t) => [unique("fill_sources_company_name").on(t.companyId, t.name)],

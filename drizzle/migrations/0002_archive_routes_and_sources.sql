@@ -1,0 +1,2 @@
+ALTER TABLE `routes` ADD `active` boolean DEFAULT true NOT NULL;--> statement-breakpoint
+ALTER TABLE `fill_sources` ADD `active` boolean DEFAULT true NOT NULL;
