@@ -89,23 +89,31 @@ const scope: Scope = { userId: "bench-analyst", userName: "Bench analyst", email
 
 const file = generateFile(ROWS);
 sample();
+const stages: string[] = [];
+const stage = (name: string) => {
+  sample();
+  stages.push(`${name} ${mb(peakRss)}`);
+};
+stage("file generated:");
 console.log(`file: ${ROWS.toLocaleString("en")} rows, ${mb(file.byteLength)}`);
 
 let t = performance.now();
 const uploadId = await storeUpload(scope, "bench-200k.csv", file);
 const storeSeconds = (performance.now() - t) / 1000;
+stage("stored:");
 
 t = performance.now();
 const upload = await findUpload(scope, uploadId);
 const checked = await checkUpload(scope, uploadId, readImportOptions(upload!.options)!);
 const checkSeconds = (performance.now() - t) / 1000;
+stage("checked:");
 if (!checked.ok) throw new Error(checked.message);
 
 t = performance.now();
 const committed = await commitUpload(scope, uploadId, { afterChunk: async () => sample() });
 const commitSeconds = (performance.now() - t) / 1000;
 if (!committed.ok) throw new Error(committed.message);
-sample();
+stage("committed:");
 const peakImport = peakRss;
 
 // The same stored rows, written out in their canonical form for LOAD DATA.
@@ -139,7 +147,7 @@ console.log(`store upload (write file, decode, parse, propose): ${storeSeconds.t
 console.log(`check:  ${checkSeconds.toFixed(2)} s  (${rate(ROWS, checkSeconds)})`);
 console.log(`commit: ${commitSeconds.toFixed(2)} s  (${rate(committed.testsAdded, commitSeconds)}; includes a fresh check)`);
 console.log(`check + commit: ${(checkSeconds + commitSeconds).toFixed(2)} s (${rate(committed.testsAdded, checkSeconds + commitSeconds)})`);
-console.log(`peak memory (rss, sampled): ${mb(peakImport)}`);
+console.log(`peak memory (rss, sampled): ${mb(peakImport)}; running peak after each step: ${stages.join(", ")}`);
 console.log(`LOAD DATA LOCAL INFILE of the same ${Number(loaded).toLocaleString("en")} canonical rows: ${loadSeconds.toFixed(2)} s (${rate(Number(loaded), loadSeconds)})`);
 await rm(process.env.PATINA_UPLOAD_DIR!, { recursive: true, force: true });
 await closeDatabase();

@@ -70,10 +70,14 @@ export async function planImport(
   const report = async (values: Parameters<typeof reportProgress>[1]) => {
     if (phase) await reportProgress(upload.id, values);
   };
-  const decoded = await readUploadText(upload);
   const delimiter = (upload.delimiter ?? ",") as Delimiter;
-  const table = parseTable(decoded.text, delimiter);
-  if (phase) await report({ phase, rowsDone: 0, rowsTotal: table.rows.length, error: null });
+  // Only the parsed rows are kept, not the text, and they are let go once read.
+  const { table, encodingNote } = await readUploadText(upload).then((decoded) => ({
+    table: parseTable(decoded.text, delimiter),
+    encodingNote: decoded.note,
+  }));
+  const rowsRead = table.rows.length;
+  if (phase) await report({ phase, rowsDone: 0, rowsTotal: rowsRead, error: null });
 
   const dateColumn = options.columns.findIndex((c) => c.field === "sampledAt");
   const dateOrder = dateColumn < 0 ? ({ kind: "none" } as const) : findDateOrder(table.rows.map((r) => r.cells[dateColumn] ?? ""));
@@ -109,9 +113,10 @@ export async function planImport(
   let pHWarnings = 0;
   const accepted: Array<{ record: ImportRecord; pool: PoolRef; product: PlannedRow["product"] }> = [];
 
-  for (let i = 0; i < table.rows.length; i++) {
+  for (let i = 0; i < rowsRead; i++) {
     if (i > 0 && i % PROGRESS_EVERY === 0) await report({ rowsDone: i });
     const { row, cells } = table.rows[i]!;
+    table.rows[i] = undefined as never;
     const result = validateRow(cells, row, context);
     if (!result.ok) {
       refused.push(...result.refusals);
@@ -190,11 +195,12 @@ export async function planImport(
     if (addsTreatment) treatmentsToAdd++;
     planned.push({ record: entry.record, pool: entry.pool, product: addsTreatment ? product : null, testIsNew });
   }
-  await report({ rowsDone: table.rows.length });
+  table.rows.length = 0;
+  await report({ rowsDone: rowsRead });
 
   const plan: ImportPlan = {
     dateOrder,
-    rowsRead: table.rows.length,
+    rowsRead,
     planned,
     testsToAdd,
     treatmentsToAdd,
@@ -213,7 +219,7 @@ export async function planImport(
       ...counts,
       unknownPools: counts.unknownPools.slice(0, 500),
       refusedSample: refused.slice(0, 100),
-      encodingNote: decoded.note,
+      encodingNote,
       delimiter,
       checkedAt: new Date().toISOString(),
     },
