@@ -83,46 +83,42 @@ function ColumnRow({ index, header, examples, value, onChange }: {
   const units = unitsFor(value.field);
   const selectId = `column-${index}`;
   return (
-    <tr>
-      <th scope="row" className="px-3 py-2 text-left font-medium">
-        <label htmlFor={selectId}>{header || `(column ${index + 1})`}</label>
-        <span className="block text-xs font-normal text-muted">{examples.filter(Boolean).slice(0, 3).join(" · ") || "empty in the first rows"}</span>
-      </th>
-      <td className="px-3 py-2">
+    <li className="grid grid-cols-1 gap-2 px-3 py-3 sm:grid-cols-[1fr_13rem_9rem] sm:items-center">
+      <div>
+        <label htmlFor={selectId} className="font-medium">{header || `(column ${index + 1})`}</label>
+        <span className="block text-xs text-muted">{examples.filter(Boolean).slice(0, 3).join(" · ") || "empty in the first rows"}</span>
+      </div>
+      <select
+        id={selectId}
+        name={selectId}
+        value={value.field}
+        onChange={(event) => {
+          const field = event.target.value as ColumnTarget;
+          const allowed = unitsFor(field);
+          onChange(allowed.length === 0 ? { field } : { field, unit: value.unit && allowed.includes(value.unit) ? value.unit : allowed[0] });
+        }}
+        className="w-full rounded-lg border border-line bg-white px-2 py-2"
+      >
+        {(["ignore", ...IMPORT_FIELDS] as ColumnTarget[]).map((target) => (
+          <option key={target} value={target}>{fieldLabel(target)}</option>
+        ))}
+      </select>
+      {units.length > 0 ? (
         <select
-          id={selectId}
-          name={selectId}
-          value={value.field}
-          onChange={(event) => {
-            const field = event.target.value as ColumnTarget;
-            const allowed = unitsFor(field);
-            onChange(allowed.length === 0 ? { field } : { field, unit: value.unit && allowed.includes(value.unit) ? value.unit : allowed[0] });
-          }}
-          className="w-full rounded-lg border border-line bg-white px-2 py-1"
+          aria-label={`Unit of ${header}`}
+          name={`unit-${index}`}
+          value={value.unit ?? units[0]}
+          onChange={(event) => onChange({ ...value, unit: event.target.value as ColumnMapping["unit"] })}
+          className="w-full rounded-lg border border-line bg-white px-2 py-2"
         >
-          {(["ignore", ...IMPORT_FIELDS] as ColumnTarget[]).map((target) => (
-            <option key={target} value={target}>{fieldLabel(target)}</option>
+          {units.map((unit) => (
+            <option key={unit} value={unit}>{COLUMN_UNITS[unit]}</option>
           ))}
         </select>
-      </td>
-      <td className="px-3 py-2">
-        {units.length > 0 ? (
-          <select
-            aria-label={`Unit of ${header}`}
-            name={`unit-${index}`}
-            value={value.unit ?? units[0]}
-            onChange={(event) => onChange({ ...value, unit: event.target.value as ColumnMapping["unit"] })}
-            className="rounded-lg border border-line bg-white px-2 py-1"
-          >
-            {units.map((unit) => (
-              <option key={unit} value={unit}>{COLUMN_UNITS[unit]}</option>
-            ))}
-          </select>
-        ) : (
-          <span className="text-muted">—</span>
-        )}
-      </td>
-    </tr>
+      ) : (
+        <span className="hidden text-muted sm:block" aria-hidden="true">no unit</span>
+      )}
+    </li>
   );
 }
 
@@ -178,32 +174,21 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
           <p className="text-sm text-muted">
             Patina proposed what each column holds from its header. Change any of them; columns left out are not read.
           </p>
-          <div className="overflow-x-auto rounded-xl border border-line bg-white">
-            <table className="w-full text-sm">
-              <thead className="border-b border-line text-left text-muted">
-                <tr>
-                  <th scope="col" className="px-3 py-2 font-medium">Column in the file</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Read as</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Unit</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-line">
-                {sample.headers.map((header, index) => (
-                  <ColumnRow
-                    key={index}
-                    index={index}
-                    header={header}
-                    examples={sample.rows.map((r) => r.cells[index] ?? "")}
-                    value={columns[index] ?? { field: "ignore" }}
-                    onChange={(next) => {
-                      setColumns((current) => current.map((c, i) => (i === index ? next : c)));
-                      setDirty(true);
-                    }}
-                  />
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <ul className="divide-y divide-line rounded-xl border border-line bg-white text-sm">
+            {sample.headers.map((header, index) => (
+              <ColumnRow
+                key={index}
+                index={index}
+                header={header}
+                examples={sample.rows.map((r) => r.cells[index] ?? "")}
+                value={columns[index] ?? { field: "ignore" }}
+                onChange={(next) => {
+                  setColumns((current) => current.map((c, i) => (i === index ? next : c)));
+                  setDirty(true);
+                }}
+              />
+            ))}
+          </ul>
         </section>
 
         <fieldset className="space-y-2 rounded-xl border border-line bg-white p-4">

@@ -87,59 +87,47 @@ export default function Imports({ loaderData, actionData }: Route.ComponentProps
         {batches.length === 0 ? (
           <p className="rounded-xl border border-line bg-white p-4 text-muted">Nothing has been imported yet. Upload a log to bring past tests in.</p>
         ) : (
-          <div className="overflow-x-auto rounded-xl border border-line bg-white">
-            <table className="w-full text-left text-sm tabular-nums">
-              <caption className="sr-only">Every import: file, who, when, what it added and what it skipped</caption>
-              <thead className="border-b border-line text-muted">
-                <tr>
-                  <th scope="col" className="px-3 py-2 font-medium">File</th>
-                  <th scope="col" className="px-3 py-2 font-medium">By</th>
-                  <th scope="col" className="px-3 py-2 font-medium">When</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Tests added</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Treatments added</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Already stored</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Refused</th>
-                  <th scope="col" className="px-3 py-2 font-medium"><span className="sr-only">Undo</span></th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-line">
-                {batches.map((b) => (
-                  <tr key={b.id}>
-                    <td className="px-3 py-2 font-medium">{b.fileName}</td>
-                    <td className="px-3 py-2">{b.userName ?? "—"}</td>
-                    <td className="px-3 py-2 whitespace-nowrap">{formatDateTime(b.createdAt, timeZone)}</td>
-                    <td className="px-3 py-2">{formatCount(b.testsAdded)}</td>
-                    <td className="px-3 py-2">{formatCount(b.treatmentsAdded)}</td>
-                    <td className="px-3 py-2">{formatCount(b.rowsDuplicate)}</td>
-                    <td className="px-3 py-2">{formatCount(b.rowsRefused)}</td>
-                    <td className="px-3 py-2">
-                      {b.status === "undone" ? (
-                        <span className="text-muted">undone {formatDateTime(b.undoneAt, timeZone)}</span>
-                      ) : (
-                        <Form
-                          method="post"
-                          onSubmit={(event) => {
-                            if (!confirm(`Remove the ${b.testsAdded} tests and ${b.treatmentsAdded} treatments of "${b.fileName}"?`)) event.preventDefault();
-                          }}
-                        >
-                          <input type="hidden" name="intent" value="undo" />
-                          <input type="hidden" name="batchId" value={b.id} />
-                          <button
-                            type="submit"
-                            disabled={navigation.state !== "idle"}
-                            className="rounded-lg border border-line px-3 py-1 font-medium hover:bg-verdigris-50"
-                            aria-label={`Undo the import of ${b.fileName}`}
-                          >
-                            Undo
-                          </button>
-                        </Form>
-                      )}
-                    </td>
-                  </tr>
-                ))}
-              </tbody>
-            </table>
-          </div>
+          <ul className="space-y-3" aria-label="Imports, newest first">
+            {batches.map((b) => (
+              <li key={b.id} className="rounded-xl border border-line bg-white p-4">
+                <div className="flex flex-wrap items-start justify-between gap-2">
+                  <div>
+                    <p className="font-medium">{b.fileName}</p>
+                    <p className="text-sm text-muted">
+                      {b.userName ?? "someone no longer on the team"} · {formatDateTime(b.createdAt, timeZone)}
+                    </p>
+                  </div>
+                  {b.status === "undone" ? (
+                    <span className="rounded-full bg-paper px-3 py-1 text-sm text-muted">undone {formatDateTime(b.undoneAt, timeZone)}</span>
+                  ) : (
+                    <Form
+                      method="post"
+                      onSubmit={(event) => {
+                        if (!confirm(`Remove the ${b.testsAdded} tests and ${b.treatmentsAdded} treatments of "${b.fileName}"?`)) event.preventDefault();
+                      }}
+                    >
+                      <input type="hidden" name="intent" value="undo" />
+                      <input type="hidden" name="batchId" value={b.id} />
+                      <button
+                        type="submit"
+                        disabled={navigation.state !== "idle"}
+                        className="rounded-lg border border-line px-3 py-1 font-medium hover:bg-verdigris-50"
+                        aria-label={`Undo the import of ${b.fileName}`}
+                      >
+                        Undo
+                      </button>
+                    </Form>
+                  )}
+                </div>
+                <dl className="mt-3 grid grid-cols-2 gap-2 text-sm tabular-nums sm:grid-cols-4">
+                  <div><dt className="text-muted">Tests added</dt><dd className="font-medium">{formatCount(b.testsAdded)}</dd></div>
+                  <div><dt className="text-muted">Treatments added</dt><dd className="font-medium">{formatCount(b.treatmentsAdded)}</dd></div>
+                  <div><dt className="text-muted">Already stored</dt><dd className="font-medium">{formatCount(b.rowsDuplicate)}</dd></div>
+                  <div><dt className="text-muted">Refused</dt><dd className="font-medium">{formatCount(b.rowsRefused)}</dd></div>
+                </dl>
+              </li>
+            ))}
+          </ul>
         )}
       </section>
     </div>

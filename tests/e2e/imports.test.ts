@@ -1,7 +1,7 @@
 import { fileURLToPath } from "node:url";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_EMAIL_DOMAIN } from "../../drizzle/seed/names";
+import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 
@@ -43,14 +43,13 @@ describe("an analyst imports an old log", () => {
 
     await page.getByRole("button", { name: "Import 2 tests and 0 treatments" }).click();
     await page.getByRole("heading", { level: 1, name: "Imports" }).waitFor();
-    const row = page.getByRole("row", { name: /browser-upload\.csv/ });
-    await row.waitFor();
-    const cells = await row.getByRole("cell").allInnerTexts();
-    // file, by, when, tests added, treatments added, already stored, refused
-    expect(cells[0]).toBe("browser-upload.csv");
-    expect(cells[3]).toBe("2");
-    expect(cells[4]).toBe("0");
-    expect(cells[6]).toBe("0");
+    const entry = page.getByRole("list", { name: "Imports, newest first" }).getByRole("listitem").filter({ hasText: "browser-upload.csv" });
+    await entry.waitFor();
+    const figure = async (label: string) => entry.locator("dt", { hasText: label }).locator("+ dd").innerText();
+    expect(await figure("Tests added")).toBe("2");
+    expect(await figure("Treatments added")).toBe("0");
+    expect(await figure("Refused")).toBe("0");
+    expect(await entry.innerText()).toContain(DEMO_USERS.find((u) => u.role === "analyst")!.name);
 
     // The copper readings arrived: the export shows them for the demo pools.
     const exported = await page.evaluate(async () => (await fetch("/api/exports/water-tests.csv")).text());
