@@ -142,7 +142,7 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
   }, [options]);
   const busy = fetcher.state !== "idle";
   const progress = useUploadProgress(upload.id, busy);
-  const working = progress.data && (progress.data.phase === "checking" || progress.data.phase === "committing") ? progress.data : null;
+  const working = busy && progress.data && (progress.data.phase === "checking" || progress.data.phase === "committing") ? progress.data : null;
   const result = fetcher.data;
   const finding = summary?.dateOrder;
   const askDateOrder = finding && (finding.kind === "ambiguous" || finding.kind === "conflicting");
