@@ -7,6 +7,7 @@ import { sourceOptions } from "~/.server/queries/routebook-sources";
 import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
+import { filterOptions } from "~/lib/archived";
 import { formatDate } from "~/lib/format";
 import { SURFACES } from "~/lib/forms/routebook";
 import { labelOf, SURFACE_LABELS } from "~/lib/labels";
@@ -66,8 +67,8 @@ export default function Pools({ loaderData }: Route.ComponentProps) {
         {total} {total === 1 ? "pool" : "pools"}
       </PageHeader>
       <ListFilters searchLabel="Search address, customer or account">
-        <FilterSelect name="route" label="Route" allLabel="All routes" options={routes.map((r) => ({ value: String(r.id), label: r.name }))} />
-        <FilterSelect name="source" label="Fill water" allLabel="All sources" options={sources.map((s) => ({ value: String(s.id), label: s.name }))} />
+        <FilterSelect name="route" label="Route" allLabel="All routes" options={filterOptions(routes)} />
+        <FilterSelect name="source" label="Fill water" allLabel="All sources" options={filterOptions(sources)} />
         <FilterSelect name="surface" label="Surface" allLabel="All surfaces" options={options(SURFACE_LABELS)} />
         <FilterSelect
           name="status"

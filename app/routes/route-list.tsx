@@ -1,10 +1,11 @@
 import { Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { listRoutes, ROUTE_SORTS } from "~/.server/queries/routebook-routes";
-import { ButtonLink, type Column, DataTable, ListFilters, PageHeader } from "~/components/data-table";
+import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { weekdayList } from "~/lib/weekdays";
-import { listParams } from "~/lib/list-params";
+import { activeWanted, ARCHIVE_STATUS_OPTIONS, ARCHIVE_STATUSES } from "~/lib/archived";
+import { enumFilter, listParams } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/route-list";
 
@@ -12,8 +13,10 @@ export const meta: Route.MetaFunction = () => [{ title: "Routes · Patina" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "routebook");
-  const params = listParams(new URL(request.url), ROUTE_SORTS, "name");
-  const list = await listRoutes(scope, params);
+  const url = new URL(request.url);
+  const params = listParams(url, ROUTE_SORTS, "name");
+  const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";
+  const list = await listRoutes(scope, params, { active: activeWanted(status) });
   return { ...list, params, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
 
@@ -48,13 +51,16 @@ export default function Routes({ loaderData }: Route.ComponentProps) {
         </Link>
       ),
     },
+    { key: "active", label: "Status", wide: true, cell: (r) => (r.active ? "In use" : "Archived") },
   ];
   return (
     <div>
       <PageHeader title="Routes" action={mayEdit ? <ButtonLink to="/routes/new">Add a route</ButtonLink> : null}>
         {total} {total === 1 ? "route" : "routes"}
       </PageHeader>
-      <ListFilters searchLabel="Search route names" />
+      <ListFilters searchLabel="Search route names">
+        <FilterSelect name="status" label="Status" options={ARCHIVE_STATUS_OPTIONS} />
+      </ListFilters>
       <DataTable
         caption="Routes"
         columns={columns}
@@ -64,7 +70,7 @@ export default function Routes({ loaderData }: Route.ComponentProps) {
         sort={params.sort}
         dir={params.dir}
         page={params.page}
-        empty={params.q ? `No route matches "${params.q}".` : "No routes yet."}
+        empty={params.q ? `No route matches "${params.q}".` : "No routes here yet."}
       />
     </div>
   );

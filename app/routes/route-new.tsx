@@ -21,7 +21,8 @@ export async function action({ request }: Route.ActionArgs) {
   const scope = await requireMember(request, "routebookEdit");
   const parsed = parseRouteForm(formObject(await request.formData(), ["serviceWeekdays", "technicianIds"]));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
-  const result = await saveRoute(scope, null, parsed.value);
+  // A new route starts in use; the form offers archiving only once it exists.
+  const result = await saveRoute(scope, null, { ...parsed.value, active: true });
   if (!result.ok) return refusedAnswer(result);
   throw redirect("/routes");
 }

@@ -20,7 +20,8 @@ export async function action({ request }: Route.ActionArgs) {
   const scope = await requireMember(request, "routebookEdit");
   const parsed = parseSourceForm(formObject(await request.formData()));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
-  const result = await saveSource(scope, null, parsed.value);
+  // A new source starts in use; the form offers archiving only once it exists.
+  const result = await saveSource(scope, null, { ...parsed.value, active: true });
   if (!result.ok) return refusedAnswer(result);
   throw redirect(`/sources/${result.id}`);
 }

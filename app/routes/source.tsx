@@ -43,6 +43,7 @@ export default function SourcePage({ loaderData, actionData }: Route.ComponentPr
     <div className="space-y-6">
       <PageHeader title={source.name} action={mayEdit ? <ButtonLink to={`/sources/${source.id}/edit`}>Edit</ButtonLink> : null}>
         {labelOf(SOURCE_KIND_LABELS, source.kind)}
+        {source.active ? "" : " · archived"}
         {source.notes ? ` · ${source.notes}` : ""}
       </PageHeader>
       <section aria-labelledby="source-tests" className="space-y-3">

@@ -6,6 +6,7 @@ import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
 import { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { labelOf, SOURCE_KIND_LABELS } from "~/lib/labels";
+import { activeWanted, ARCHIVE_STATUS_OPTIONS, ARCHIVE_STATUSES } from "~/lib/archived";
 import { enumFilter, listParams } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/sources";
@@ -16,7 +17,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "routebook");
   const url = new URL(request.url);
   const params = listParams(url, SOURCE_SORTS, "name");
-  const list = await listSources(scope, params, { kind: enumFilter(url, "kind", SOURCE_KINDS) });
+  const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";
+  const list = await listSources(scope, params, { kind: enumFilter(url, "kind", SOURCE_KINDS), active: activeWanted(status) });
   return { ...list, params, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
 
@@ -36,6 +38,7 @@ const columns: Array<Column<Row>> = [
   { key: "kind", label: "Kind", sortKey: "kind", cell: (r) => labelOf(SOURCE_KIND_LABELS, r.kind) },
   { key: "pools", label: "Pools fed", sortKey: "pools", numeric: true, cell: (r) => r.poolCount },
   { key: "lastTest", label: "Last source test", sortKey: "lastTest", cell: (r) => r.lastTest ?? "never tested" },
+  { key: "active", label: "Status", wide: true, cell: (r) => (r.active ? "In use" : "Archived") },
 ];
 
 export default function Sources({ loaderData }: Route.ComponentProps) {
@@ -47,6 +50,7 @@ export default function Sources({ loaderData }: Route.ComponentProps) {
       </PageHeader>
       <ListFilters searchLabel="Search source names">
         <FilterSelect name="kind" label="Kind" allLabel="All kinds" options={options(SOURCE_KIND_LABELS)} />
+        <FilterSelect name="status" label="Status" options={ARCHIVE_STATUS_OPTIONS} />
       </ListFilters>
       <DataTable
         caption="Fill sources"
@@ -57,7 +61,7 @@ export default function Sources({ loaderData }: Route.ComponentProps) {
         sort={params.sort}
         dir={params.dir}
         page={params.page}
-        empty={params.q ? `No source matches "${params.q}".` : "No fill sources yet."}
+        empty={params.q ? `No source matches "${params.q}".` : "No fill sources here yet."}
       />
     </div>
   );

@@ -100,7 +100,7 @@ describe("changing a route", () => {
       routeEdit.action,
       owner,
       `/routes/${ownRoute}/edit`,
-      { name: "Alpha loop renamed", serviceWeekdays: ["1", "4"], technicianIds: otherTechnician.userId },
+      { name: "Alpha loop renamed", serviceWeekdays: ["1", "4"], technicianIds: otherTechnician.userId, active: "on" },
       { routeId: String(ownRoute) },
     );
     expect(outcome.status).toBe(302);

@@ -136,7 +136,7 @@ export type TodayStop = {
   lastVisitAt: Date | null;
 };
 
-/** Pools whose route is served on the given ISO weekday (1 = Monday), in the member's scope. */
+/** Pools whose route is served on the given ISO weekday (1 = Monday), in the member's scope; archived routes have no day. */
 export async function stopsForWeekday(scope: Scope, isoWeekday: number): Promise<TodayStop[]> {
   const rows = await db()
     .select({
@@ -154,6 +154,7 @@ export async function stopsForWeekday(scope: Scope, isoWeekday: number): Promise
       and(
         poolsInScope(scope),
         eq(pools.active, true),
+        eq(routes.active, true),
         sql`FIND_IN_SET(${String(isoWeekday)}, ${routes.serviceWeekdays}) > 0`,
       ),
     )

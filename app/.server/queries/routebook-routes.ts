@@ -15,15 +15,24 @@ function routesInScope(scope: Scope): SQL {
   return and(company, inArray(routes.id, scope.routeIds))!;
 }
 
-export async function listRoutes(scope: Scope, params: ListParams<RouteSort>) {
+export type RouteFilters = {
+  /** null: in use and archived. */
+  active: boolean | null;
+};
+
+export async function listRoutes(scope: Scope, params: ListParams<RouteSort>, filters: RouteFilters = { active: true }) {
   const poolCount = sql<number>`(SELECT COUNT(*) FROM ${pools} p WHERE p.route_id = ${routes.id} AND p.active = 1)`.mapWith(Number);
   const technicians = sql<string | null>`(SELECT GROUP_CONCAT(u.name ORDER BY u.name SEPARATOR ', ')
     FROM ${routeTechnicians} rt JOIN ${user} u ON u.id = rt.user_id WHERE rt.route_id = ${routes.id})`;
-  const where = and(routesInScope(scope), params.q ? like(routes.name, likePattern(params.q)) : undefined);
+  const where = and(
+    routesInScope(scope),
+    params.q ? like(routes.name, likePattern(params.q)) : undefined,
+    filters.active === null ? undefined : eq(routes.active, filters.active),
+  );
   const order = { name: routes.name, weekdays: routes.serviceWeekdays, pools: poolCount }[params.sort];
   const [rows, [total]] = await Promise.all([
     db()
-      .select({ id: routes.id, name: routes.name, serviceWeekdays: routes.serviceWeekdays, technicians, poolCount })
+      .select({ id: routes.id, name: routes.name, serviceWeekdays: routes.serviceWeekdays, active: routes.active, technicians, poolCount })
       .from(routes)
       .where(where)
       .orderBy(params.dir === "desc" ? desc(order) : asc(order), asc(routes.id))
@@ -57,7 +66,11 @@ export async function companyTechnicians(scope: Scope) {
     .orderBy(asc(user.name));
 }
 
-/** Route names for pickers and filters, in the member's scope. */
+/** Route names for pickers and filters, in the member's scope; archived ones are flagged, pickers leave them out. */
 export async function routeOptions(scope: Scope) {
-  return db().select({ id: routes.id, name: routes.name }).from(routes).where(routesInScope(scope)).orderBy(asc(routes.name));
+  return db()
+    .select({ id: routes.id, name: routes.name, active: routes.active })
+    .from(routes)
+    .where(routesInScope(scope))
+    .orderBy(asc(routes.name));
 }

@@ -12,7 +12,11 @@ export type SourceSort = (typeof SOURCE_SORTS)[number];
 export async function listSources(
   scope: Scope,
   params: ListParams<SourceSort>,
-  filters: { kind: (typeof SOURCE_KINDS)[number] | null },
+  filters: {
+    kind: (typeof SOURCE_KINDS)[number] | null;
+    /** null: in use and archived. */
+    active: boolean | null;
+  },
 ) {
   // Pool counts follow the member's scope: a technician counts only their routes' pools.
   const poolCount = sql<number>`(SELECT COUNT(*) FROM ${pools} WHERE ${pools.fillSourceId} = ${fillSources.id} AND ${pools.active} = 1 AND ${poolsInScope(scope)})`.mapWith(Number);
@@ -21,11 +25,12 @@ export async function listSources(
     eq(fillSources.companyId, scope.companyId),
     params.q ? like(fillSources.name, likePattern(params.q)) : undefined,
     filters.kind ? eq(fillSources.kind, filters.kind) : undefined,
+    filters.active === null ? undefined : eq(fillSources.active, filters.active),
   );
   const order = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest }[params.sort];
   const [rows, [total]] = await Promise.all([
     db()
-      .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, poolCount, lastTest })
+      .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, active: fillSources.active, poolCount, lastTest })
       .from(fillSources)
       .where(where)
       .orderBy(params.dir === "desc" ? desc(order) : asc(order), asc(fillSources.id))
@@ -76,9 +81,10 @@ export async function sourceDetail(scope: Scope, sourceId: number) {
 
 export type SourceDetail = NonNullable<Awaited<ReturnType<typeof sourceDetail>>>;
 
+/** Source names for pickers and filters; archived ones are flagged, pickers leave them out. */
 export async function sourceOptions(scope: Scope) {
   return db()
-    .select({ id: fillSources.id, name: fillSources.name })
+    .select({ id: fillSources.id, name: fillSources.name, active: fillSources.active })
     .from(fillSources)
     .where(eq(fillSources.companyId, scope.companyId))
     .orderBy(asc(fillSources.name));

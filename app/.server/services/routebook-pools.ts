@@ -7,28 +7,45 @@ import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from 
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>["transaction"]>[0]>[0];
 
-async function foreignReferences(scope: Scope, input: PoolInput) {
+/** What the pool points at now: an archived route or source it already has may stay. */
+async function currentReferences(scope: Scope, poolId: number | null) {
+  if (poolId === null) return null;
+  const [row] = await db()
+    .select({ routeId: pools.routeId, fillSourceId: pools.fillSourceId })
+    .from(pools)
+    .where(and(eq(pools.companyId, scope.companyId), eq(pools.id, poolId)));
+  return row ?? null;
+}
+
+async function foreignReferences(scope: Scope, poolId: number | null, input: PoolInput) {
   const errors: Record<string, string> = {};
+  const current = await currentReferences(scope, poolId);
   if (input.routeId !== null) {
     const [route] = await db()
-      .select({ id: routes.id })
+      .select({ id: routes.id, name: routes.name, active: routes.active })
       .from(routes)
       .where(and(eq(routes.companyId, scope.companyId), eq(routes.id, input.routeId)));
     if (!route) errors.routeId = `Route: ${input.routeId} is not one of this company's routes.`;
+    else if (!route.active && current?.routeId !== route.id) {
+      errors.routeId = `Route: "${route.name}" is archived; restore it on its page or choose another route.`;
+    }
   }
   if (input.fillSourceId !== null) {
     const [source] = await db()
-      .select({ id: fillSources.id })
+      .select({ id: fillSources.id, name: fillSources.name, active: fillSources.active })
       .from(fillSources)
       .where(and(eq(fillSources.companyId, scope.companyId), eq(fillSources.id, input.fillSourceId)));
     if (!source) errors.fillSourceId = `Fill source: ${input.fillSourceId} is not one of this company's sources.`;
+    else if (!source.active && current?.fillSourceId !== source.id) {
+      errors.fillSourceId = `Fill source: "${source.name}" is archived; restore it on its page or choose another source.`;
+    }
   }
   return errors;
 }
 
 /** Creates or changes a pool. Archiving is `active: false`; pools with history are never deleted. */
 export async function savePool(scope: Scope, poolId: number | null, input: PoolInput): Promise<ServiceResult> {
-  const errors = await foreignReferences(scope, input);
+  const errors = await foreignReferences(scope, poolId, input);
   if (Object.keys(errors).length > 0) return invalid(errors);
   try {
     if (poolId === null) {

@@ -15,7 +15,10 @@ async function unknownTechnicians(scope: Scope, ids: string[]): Promise<string[]
   return ids.filter((id) => !known.has(id));
 }
 
-/** Creates a route (routeId null) or changes one, with its technicians, in one transaction. */
+/**
+ * Creates a route (routeId null) or changes one, with its technicians, in one
+ * transaction. Archiving is `active: false`; routes are never deleted.
+ */
 export async function saveRoute(scope: Scope, routeId: number | null, input: RouteInput): Promise<ServiceResult> {
   const strangers = await unknownTechnicians(scope, input.technicianIds);
   if (strangers.length > 0) {
@@ -27,13 +30,13 @@ export async function saveRoute(scope: Scope, routeId: number | null, input: Rou
       if (id === null) {
         const [created] = await tx
           .insert(routes)
-          .values({ companyId: scope.companyId, name: input.name, serviceWeekdays: input.serviceWeekdays })
+          .values({ companyId: scope.companyId, name: input.name, serviceWeekdays: input.serviceWeekdays, active: input.active })
           .$returningId();
         id = created!.id;
       } else {
         const [result] = await tx
           .update(routes)
-          .set({ name: input.name, serviceWeekdays: input.serviceWeekdays })
+          .set({ name: input.name, serviceWeekdays: input.serviceWeekdays, active: input.active })
           .where(and(eq(routes.companyId, scope.companyId), eq(routes.id, id)));
         if (result.affectedRows === 0) return null;
         await tx.delete(routeTechnicians).where(eq(routeTechnicians.routeId, id));

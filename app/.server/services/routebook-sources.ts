@@ -5,6 +5,7 @@ import { fillSources, sourceTests } from "../db/schema";
 import type { Scope } from "../guard";
 import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
 
+/** Creates or changes a fill source. Archiving is `active: false`; sources are never deleted. */
 export async function saveSource(scope: Scope, sourceId: number | null, input: SourceInput): Promise<ServiceResult> {
   try {
     if (sourceId === null) {

@@ -2,6 +2,7 @@ import { useState } from "react";
 import { Form, useNavigation } from "react-router";
 import { isVolumeError, poolVolume } from "@analysis/units/volume";
 import { FormProblem, options, SelectField, SubmitButton, TextField } from "~/components/form-controls";
+import { type ArchivableOption, pickerOptions } from "~/lib/archived";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { shapeFromForm } from "~/lib/forms/routebook";
 import { SANITISER_LABELS, SURFACE_LABELS } from "~/lib/labels";
@@ -49,8 +50,8 @@ export function PoolForm({
 }: {
   pool: PoolValues | null;
   units: UnitSystem;
-  routes: Array<{ id: number; name: string }>;
-  sources: Array<{ id: number; name: string }>;
+  routes: ArchivableOption[];
+  sources: ArchivableOption[];
   answer: { fieldErrors: FieldErrors; formError: string | null } | undefined;
 }) {
   const busy = useNavigation().state === "submitting";
@@ -78,8 +79,8 @@ export function PoolForm({
         <TextField name="street" label="Street address" defaultValue={pool?.street} errors={errors} className="sm:col-span-2" />
         <TextField name="neighbourhood" label="Neighbourhood" defaultValue={pool?.neighbourhood ?? ""} errors={errors} />
         <TextField name="postalCode" label="Postal code" defaultValue={pool?.postalCode ?? ""} errors={errors} />
-        <SelectField name="routeId" label="Route" defaultValue={pool?.routeId ?? ""} placeholder="No route" options={routes.map((r) => ({ value: String(r.id), label: r.name }))} errors={errors} />
-        <SelectField name="fillSourceId" label="Fill source" defaultValue={pool?.fillSourceId ?? ""} placeholder="Unknown" options={sources.map((s) => ({ value: String(s.id), label: s.name }))} errors={errors} />
+        <SelectField name="routeId" label="Route" defaultValue={pool?.routeId ?? ""} placeholder="No route" options={pickerOptions(routes, pool?.routeId)} errors={errors} />
+        <SelectField name="fillSourceId" label="Fill source" defaultValue={pool?.fillSourceId ?? ""} placeholder="Unknown" options={pickerOptions(sources, pool?.fillSourceId)} errors={errors} />
         <SelectField name="surface" label="Surface finish" defaultValue={pool?.surface ?? ""} placeholder="Unknown" options={options(SURFACE_LABELS)} errors={errors} />
         <SelectField name="sanitiser" label="Sanitiser system" defaultValue={pool?.sanitiser ?? ""} placeholder="Unknown" options={options(SANITISER_LABELS)} errors={errors} />
       </div>

@@ -1,4 +1,5 @@
 import { Form, useNavigation } from "react-router";
+import { ArchiveToggle } from "~/components/routebook/archive-toggle";
 import { ChoiceGroup, FormProblem, SubmitButton, TextField } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { WEEKDAY_OPTIONS } from "~/lib/weekdays";
@@ -8,7 +9,7 @@ export function RouteForm({
   technicians,
   answer,
 }: {
-  route: { name: string; serviceWeekdays: string; technicianIds: string[] } | null;
+  route: { name: string; serviceWeekdays: string; technicianIds: string[]; active: boolean } | null;
   technicians: Array<{ userId: string; name: string }>;
   answer: { fieldErrors: FieldErrors; formError: string | null } | undefined;
 }) {
@@ -37,6 +38,9 @@ export function RouteForm({
           errors={errors}
         />
       )}
+      {route ? (
+        <ArchiveToggle active={route.active} explanation="untick to archive: its pools keep their history, but the route leaves the day's list and the pickers" />
+      ) : null}
       <FormProblem message={answer?.formError} />
       <SubmitButton busy={busy} busyText="Saving…">
         Save route

@@ -1,11 +1,18 @@
 import { Form, useNavigation } from "react-router";
+import { ArchiveToggle } from "~/components/routebook/archive-toggle";
 import { FormProblem, options, SelectField, SubmitButton, TextAreaField, TextField } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { DOSE_BASIS_LABELS, PRODUCT_CATEGORY_LABELS, SOURCE_KIND_LABELS } from "~/lib/labels";
 
 type Answer = { fieldErrors: FieldErrors; formError: string | null } | undefined;
 
-export function SourceForm({ source, answer }: { source: { name: string; kind: string; notes: string | null } | null; answer: Answer }) {
+export function SourceForm({
+  source,
+  answer,
+}: {
+  source: { name: string; kind: string; notes: string | null; active: boolean } | null;
+  answer: Answer;
+}) {
   const busy = useNavigation().state === "submitting";
   const errors = answer?.fieldErrors;
   return (
@@ -13,6 +20,9 @@ export function SourceForm({ source, answer }: { source: { name: string; kind: s
       <TextField name="name" label="Source name" defaultValue={source?.name} errors={errors} required maxLength={160} />
       <SelectField name="kind" label="Kind" defaultValue={source?.kind ?? ""} placeholder="Choose…" options={options(SOURCE_KIND_LABELS)} errors={errors} />
       <TextAreaField name="notes" label="Notes" defaultValue={source?.notes ?? ""} errors={errors} maxLength={2000} />
+      {source ? (
+        <ArchiveToggle active={source.active} explanation="untick to archive: its tests and pools stay, but it leaves the pickers" />
+      ) : null}
       <FormProblem message={answer?.formError} />
       <SubmitButton busy={busy} busyText="Saving…">
         Save source

@@ -64,6 +64,8 @@ export const routeForm = z.object({
       return numbers.sort((a, b) => a - b).join(",");
     }),
   technicianIds: z.array(z.string().max(36)).transform((ids) => [...new Set(ids.filter(Boolean))]),
+  /** Unticked: archived (kept with its history, gone from the day's list and the pickers). */
+  active: checkbox,
 });
 export type RouteInput = z.output<typeof routeForm>;
 export const parseRouteForm = (input: unknown) => parseWith(routeForm, input);
@@ -75,6 +77,8 @@ export const sourceForm = z.object({
   name: requiredText("Source name", 160),
   kind: requiredChoice("Kind", SOURCE_KINDS),
   notes: optionalText("Notes", 2000),
+  /** Unticked: archived (kept with its tests and pools, gone from the pickers). */
+  active: checkbox,
 });
 export type SourceInput = z.output<typeof sourceForm>;
 export const parseSourceForm = (input: unknown) => parseWith(sourceForm, input);
