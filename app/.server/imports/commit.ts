@@ -7,6 +7,7 @@ import { importBatches, importUploads, waterTests, treatments } from "../db/sche
 import type { Scope } from "../guard";
 import { type ImportPlan, type PlannedRow, planImport, type PlanSummary } from "./plan";
 import { findUpload, reportProgress } from "./uploads";
+import { afterWaterTestsSaved } from "../mail/alerts";
 
 /** Rows per multi-row INSERT: large enough to be quick, small enough for one packet. */
 export const INSERT_CHUNK = 1000;
@@ -157,6 +158,8 @@ export async function commitUpload(scope: Scope, uploadId: string, hooks: Commit
       [stored, batchId, JSON.stringify(summary), upload.id],
     );
     await connection.commit();
+    // Alerts look only at recent events, so years of history mail nobody.
+    void afterWaterTestsSaved(scope.companyId, [...new Set(tests.map(poolIdOf))]);
     return { ok: true, batchId, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
   } catch (error) {
     broken = true;
