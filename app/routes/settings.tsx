@@ -7,8 +7,8 @@ import { updateCompanySettings } from "~/.server/services/company-settings";
 import { refusedAnswer } from "~/.server/services/result";
 import { ErrorPanel } from "~/components/error-panel";
 import { FormProblem, SelectField, SubmitButton, TextField } from "~/components/form-controls";
-import { fieldErrorsOf, formObject } from "~/lib/forms/fields";
-import { settingsForm } from "~/lib/forms/settings";
+import { formObject } from "~/lib/forms/fields";
+import { parseSettingsForm } from "~/lib/forms/settings";
 import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/settings";
 
@@ -27,9 +27,11 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export async function action({ request }: Route.ActionArgs) {
   const scope = await requireMember(request, "settings");
-  const parsed = settingsForm.safeParse(formObject(await request.formData()));
-  if (!parsed.success) return refusedAnswer({ fieldErrors: fieldErrorsOf(parsed.error), formError: null });
-  await updateCompanySettings(scope, parsed.data);
+  const parsed = parseSettingsForm(formObject(await request.formData()));
+  if (!parsed.ok) {
+    return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: "Some settings need a look; nothing was saved." });
+  }
+  await updateCompanySettings(scope, parsed.value);
   return { ok: true as const, fieldErrors: {}, formError: null };
 }
 

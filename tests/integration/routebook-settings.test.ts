@@ -69,6 +69,27 @@ describe("company settings", () => {
     expect((await company(companyId)).timeZone).toBe("Europe/Lisbon");
   });
 
+  it("reports every field's own problem and every cross-field problem in one answer", async () => {
+    const outcome = await postForm(settings.action, owner, "/settings", {
+      ...valid,
+      copperElevated: "lots", // not a number
+      ironElevated: "0.05", // below iron clear 0.1
+      manganeseClear: "12", // above the highest accepted 10
+      balanceLow: "0", // with balanceHigh 0: the band is empty
+      balanceHigh: "0",
+      timeZone: "Mars/Olympus",
+    });
+    expect(outcome.status).toBe(400);
+    expect(fieldErrors(outcome)).toEqual({
+      copperElevated: 'Copper elevated: "lots" is not a number.',
+      ironElevated: "Iron elevated: 0.05 mg/L must not be below the clear level, 0.1 mg/L.",
+      manganeseClear: "Manganese clear: 12 mg/L is above the highest accepted value, 10 mg/L.",
+      balanceHigh: "Balanced up to: 0 must be above 0.",
+      timeZone: 'Time zone: "Mars/Olympus" is not a known time zone (e.g. America/New_York).',
+    });
+    expect((await company(companyId)).timeZone).toBe("Europe/Lisbon");
+  });
+
   it("is refused to managers", async () => {
     const outcome = await postForm(settings.action, manager, "/settings", { ...valid, timeZone: "UTC" });
     expect(outcome.status).toBe(403);
