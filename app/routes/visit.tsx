@@ -1,10 +1,13 @@
 import { Form, Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { stopsForWeekday } from "~/.server/queries/home-summary";
+import { companyPreferences } from "~/.server/queries/routebook-company";
 import { searchPools } from "~/.server/queries/routebook-pools";
+import { type MetalMark, metalMarks } from "~/.server/queries/visit-metal-marks";
 import { PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { formatDate, isoWeekdayIn, weekdayName } from "~/lib/format";
+import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/visit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Log a visit · Patina" }];
@@ -14,23 +17,52 @@ export async function loader({ request }: Route.LoaderArgs) {
   const q = (new URL(request.url).searchParams.get("q") ?? "").trim().slice(0, 100);
   // The route's weekday is the company's weekday, not the server's.
   const weekday = isoWeekdayIn(new Date(), scope.timeZone);
-  const [stops, found] = await Promise.all([stopsForWeekday(scope, weekday), q ? searchPools(scope, q) : Promise.resolve([])]);
-  return { weekday, stops, q, found, timeZone: scope.timeZone };
+  const [stops, found, prefs] = await Promise.all([
+    stopsForWeekday(scope, weekday),
+    q ? searchPools(scope, q) : Promise.resolve([]),
+    companyPreferences(scope),
+  ]);
+  const poolIds = [...new Set([...stops, ...found].map((p) => p.poolId))];
+  const marks = await metalMarks(scope, poolIds, prefs.thresholds);
+  return { weekday, stops, q, found, marks, timeZone: scope.timeZone };
 }
 
-function PoolChoice({ poolId, street, detail }: { poolId: number; street: string; detail: string }) {
+/** Plain words on the card, so the mark does not rest on colour alone. */
+function metalMarkText(mark: MetalMark): string {
+  const parts: string[] = [];
+  if (mark.openMetals.length > 0) {
+    const metals = mark.openMetals.map((m) => METAL_LABELS[m].toLowerCase()).join(", ");
+    parts.push(`open ${metals} case`);
+  }
+  if (mark.suspected) parts.push("metal suspected");
+  const text = `${parts.join(" · ")}: bring the metal test`;
+  return text[0]!.toUpperCase() + text.slice(1);
+}
+
+function MetalBadge({ mark }: { mark: MetalMark | undefined }) {
+  if (!mark) return null;
+  return (
+    <span className="mt-1 inline-block rounded-md border border-watch bg-yellow-50 px-2 py-0.5 text-sm font-medium">
+      <span aria-hidden="true">◆ </span>
+      {metalMarkText(mark)}
+    </span>
+  );
+}
+
+function PoolChoice({ poolId, street, detail, mark }: { poolId: number; street: string; detail: string; mark: MetalMark | undefined }) {
   return (
     <li>
       <Link to={`/visit/${poolId}`} className="block rounded-xl border border-line bg-white px-4 py-3 hover:bg-verdigris-50">
         <span className="block font-medium">{street}</span>
         <span className="block text-sm text-muted">{detail}</span>
+        <MetalBadge mark={mark} />
       </Link>
     </li>
   );
 }
 
 export default function VisitPicker({ loaderData }: Route.ComponentProps) {
-  const { weekday, stops, q, found, timeZone } = loaderData;
+  const { weekday, stops, q, found, marks, timeZone } = loaderData;
   return (
     <div className="mx-auto max-w-xl space-y-6">
       <PageHeader title="Log a visit">Pick the pool you are at.</PageHeader>
@@ -57,7 +89,13 @@ export default function VisitPicker({ loaderData }: Route.ComponentProps) {
           ) : (
             <ul className="space-y-2">
               {found.map((p) => (
-                <PoolChoice key={p.poolId} poolId={p.poolId} street={p.street} detail={`${p.customerName} · ${p.accountCode} · ${p.routeName ?? "no route"}`} />
+                <PoolChoice
+                  key={p.poolId}
+                  poolId={p.poolId}
+                  street={p.street}
+                  detail={`${p.customerName} · ${p.accountCode} · ${p.routeName ?? "no route"}`}
+                  mark={marks[p.poolId]}
+                />
               ))}
             </ul>
           )}
@@ -77,6 +115,7 @@ export default function VisitPicker({ loaderData }: Route.ComponentProps) {
                 poolId={s.poolId}
                 street={s.street}
                 detail={`${s.customerName} · ${s.routeName} · last visit ${formatDate(s.lastVisitAt, timeZone)}`}
+                mark={marks[s.poolId]}
               />
             ))}
           </ul>
