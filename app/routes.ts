@@ -25,12 +25,17 @@ export default [
     route("routes/:routeId/edit", "routes/route-edit.tsx"),
     route("sources", "routes/sources.tsx"),
     route("sources/new", "routes/source-new.tsx"),
+    route("sources/health", "routes/source-health.tsx"), // analytics; listed before sources/:sourceId
     route("sources/:sourceId", "routes/source.tsx"),
     route("sources/:sourceId/edit", "routes/source-edit.tsx"),
     route("products", "routes/products.tsx"),
     route("products/new", "routes/product-new.tsx"),
     route("products/:productId/edit", "routes/product-edit.tsx"),
     // analytics
+    route("overview", "routes/analytics-overview.tsx"),
+    route("risk", "routes/analytics-risk.tsx"),
+    route("recurring", "routes/analytics-recurring.tsx"),
+    route("outcomes", "routes/analytics-outcomes.tsx"),
     // imports and exports
     route("imports", "routes/imports.tsx"),
     route("imports/new", "routes/imports-new.tsx"),

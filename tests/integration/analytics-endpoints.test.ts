@@ -369,6 +369,8 @@ describe("GET /api/analytics/summary", () => {
     expect(body.openEpisodes).toEqual({ copper: 0, iron: 1, manganese: 0 }); // P3
     expect(body.recurringPools).toBe(1);
     expect(body.chronicPools).toBe(2);
+    // No group is risky here: the largest, Well one on iron, reaches a ratio lower bound of only 0.44 (see the groups test).
+    expect(body.riskyGroups).toEqual([]);
     // Saturation index, 10 NYCRR 6-1.30 factor table (balanced within +/-0.3, common practice):
     // P1 68 degF, CH 140, TA 20, pH 7.8 -> -0.8 corrosive (the code's worked example);
     // P2, P3 84 degF (TF 0.7), CH 300 (2.1), TA 100 (2.0), pH 7.5 -> +0.2 balanced;

@@ -1,4 +1,5 @@
 import type { PlotOptions } from "@observablehq/plot";
+import Papa from "papaparse";
 import { type ReactNode, useEffect, useRef, useState } from "react";
 
 export type TableColumn<Row> = { label: string; value: (row: Row) => string };
@@ -17,6 +18,7 @@ export function PlotFigure<Row>({
   columns,
   empty,
   height = 260,
+  csvName,
 }: {
   /** Plain-language title, with units. */
   title: string;
@@ -28,6 +30,8 @@ export function PlotFigure<Row>({
   /** Shown instead of the chart when there are no rows: say why and what would fill it. */
   empty: ReactNode;
   height?: number;
+  /** When given, the table's numbers can be downloaded as this CSV file. */
+  csvName?: string;
 }) {
   const holder = useRef<HTMLDivElement>(null);
   const [width, setWidth] = useState(0);
@@ -79,6 +83,15 @@ export function PlotFigure<Row>({
           >
             {showTable ? "Hide the table" : "Show as a table"}
           </button>
+          {csvName ? (
+            <button
+              type="button"
+              onClick={() => downloadCsv(csvName, columns, rows)}
+              className="mt-2 ml-4 text-sm font-medium text-verdigris-700 underline"
+            >
+              Download CSV
+            </button>
+          ) : null}
           {showTable ? (
             <div className="mt-2 max-h-80 overflow-auto">
               <table className="w-full text-left text-sm tabular-nums">
@@ -110,4 +123,12 @@ export function PlotFigure<Row>({
       )}
     </figure>
   );
+}
+
+function downloadCsv<Row>(fileName: string, columns: ReadonlyArray<TableColumn<Row>>, rows: readonly Row[]) {
+  const csv = Papa.unparse({ fields: columns.map((c) => c.label), data: rows.map((row) => columns.map((c) => c.value(row))) });
+  const url = URL.createObjectURL(new Blob([csv], { type: "text/csv;charset=utf-8" }));
+  const link = Object.assign(document.createElement("a"), { href: url, download: fileName });
+  link.click();
+  URL.revokeObjectURL(url);
 }

@@ -66,3 +66,6 @@ export const CATEGORY_WORDS: Record<string, string> = {
   chlorine: "Chlorine",
   other: "Other",
 };
+
+/** Long group or combination names are shortened on a chart's axis; the tip and the table keep them whole. */
+export const shortLabel = (label: string) => (label.length > 36 ? `${label.slice(0, 35)}…` : label);

@@ -7,7 +7,8 @@ import type { Scope } from "../../guard";
 import { poolBalance, poolInScope } from "./pool-series";
 import { dayToMs, metalReadings, poolProfiles, sourceTestRows, treatmentRows } from "./rows";
 import { sharedSourceAlertList } from "./shared-source-alerts";
-import type { AnalyticsParams } from "./window";
+import { companyAnalyticsSettings, type AnalyticsParams } from "./window";
+import { formatDate } from "~/lib/format";
 
 export type EpisodeEvidence = EpisodeJson & { evidence: Array<{ kind: Evidence["kind"]; reason: string; at: string | null }> };
 
@@ -87,4 +88,18 @@ export async function poolEvidence(
     openEpisodes: episodes.filter((e) => e.censored).length,
     note: "Evidence points at possible causes; more than one can be at work. It is not a verdict.",
   };
+}
+
+/**
+ * The pool page's metal panel in one call: the company's levels and balance
+ * band, the whole history, dates in the company's time zone.
+ */
+export async function poolMetalPanel(scope: Scope, poolId: number): Promise<PoolEvidence | null> {
+  const settings = await companyAnalyticsSettings(scope.companyId);
+  return poolEvidence(
+    scope,
+    poolId,
+    { window: { from: null, to: null }, thresholds: settings.thresholds, metal: null, balanceBand: settings.balanceBand },
+    (ms) => formatDate(new Date(ms), scope.timeZone),
+  );
 }

@@ -1,12 +1,12 @@
 import { and, count, countDistinct, eq, gte, isNotNull, lte, or, sql, type SQL } from "drizzle-orm";
 import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
-import { analyseMetalHistory, type MetalHistory } from "@analysis/metals/episodes";
 import type { Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { metalReadings } from "./rows";
+import { loadMetalDataset, type MetalDataset } from "./dataset";
+import { computeRiskyGroups, type RiskyGroup } from "./groups";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
 
 export type BalanceShare = { pools: number; share: number | null };
@@ -17,6 +17,8 @@ export type RouteBookSummary = {
   /** Pools with two or more openings of one metal within the recurrence window. */
   recurringPools: number;
   chronicPools: number;
+  /** Groups of any dimension flagged risky for a metal: rate ratio's lower bound above 1, at least 3 pools. */
+  riskyGroups: RiskyGroup[];
   /** Latest test of each pool that carries pH, temperature, hardness and alkalinity. */
   balance: {
     band: BalanceBand;
@@ -102,15 +104,14 @@ async function latestBalanceTests(scope: Scope, window: AnalyticsWindow) {
 export async function routeBookSummary(
   scope: Scope,
   params: AnalyticsParams & { balanceBand: BalanceBand },
-  history?: MetalHistory,
+  loaded?: MetalDataset,
 ): Promise<RouteBookSummary> {
-  const [figures, balanceRows, metalHistory] = await Promise.all([
+  const [figures, balanceRows, dataset] = await Promise.all([
     counts(scope, params.window),
     latestBalanceTests(scope, params.window),
-    history
-      ? Promise.resolve(history)
-      : metalReadings(scope, { window: params.window }).then((r) => analyseMetalHistory(r, { thresholds: params.thresholds })),
+    loaded ? Promise.resolve(loaded) : loadMetalDataset(scope, { ...params, metal: null }),
   ]);
+  const metalHistory = dataset.history;
   const openEpisodes = { copper: 0, iron: 0, manganese: 0 } satisfies Record<Metal, number>;
   const chronic = new Set<string>();
   for (const e of metalHistory.episodes) {
@@ -133,6 +134,7 @@ export async function routeBookSummary(
     openEpisodes,
     recurringPools: recurring.size,
     chronicPools: chronic.size,
+    riskyGroups: computeRiskyGroups(dataset),
     balance: {
       band: params.balanceBand,
       corrosive: share(tally.corrosive),

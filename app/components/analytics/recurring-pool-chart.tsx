@@ -1,0 +1,109 @@
+import * as Plot from "@observablehq/plot";
+import { useCallback, useMemo } from "react";
+import type { MetalTest } from "@analysis/metals/episodes";
+import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { PlotFigure } from "~/components/charts/plot-figure";
+import { METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
+import type { RecurringPool } from "~/lib/analytics/recurring";
+import { METAL_LABELS } from "~/lib/metals";
+
+type Point = { at: Date; metal: string; value: number; belowDetection: boolean };
+type Treatment = { poolId: number; appliedAt: string; productName: string; category: string };
+
+/** One pool's metal readings over time, with its levels drawn, episodes shaded and treatments marked. */
+export function RecurringPoolChart({
+  pool,
+  readings,
+  treatments,
+  thresholds,
+  metals,
+}: {
+  pool: RecurringPool;
+  readings: readonly MetalTest[];
+  treatments: readonly Treatment[];
+  thresholds: MetalThresholds;
+  metals: readonly Metal[];
+}) {
+  const shown = useMemo(() => metals.filter((m) => pool.metals.some((f) => f.metal === m)), [metals, pool]);
+  const points: Point[] = useMemo(
+    () =>
+      readings.flatMap((r) =>
+        shown.flatMap((metal) => {
+          const reading = r[metal];
+          return reading ? [{ at: new Date(r.takenAt), metal: METAL_LABELS[metal], value: reading.value, belowDetection: reading.belowDetection }] : [];
+        }),
+      ),
+    [readings, shown],
+  );
+  const episodes = useMemo(
+    () =>
+      pool.episodes
+        .filter((e) => shown.includes(e.metal))
+        .map((e) => ({ ...e, label: METAL_LABELS[e.metal], from: new Date(e.openedAt), until: new Date(e.endAt) })),
+    [pool, shown],
+  );
+  const levels = useMemo(
+    () =>
+      shown.flatMap((metal) => [
+        { metal: METAL_LABELS[metal], level: thresholds[metal].elevated, kind: "elevated" },
+        { metal: METAL_LABELS[metal], level: thresholds[metal].clear, kind: "clear" },
+      ]),
+    [shown, thresholds],
+  );
+  const marks = useMemo(() => treatments.map((t) => ({ ...t, at: new Date(t.appliedAt) })), [treatments]);
+  const build = useCallback(
+    (width: number): Plot.PlotOptions => ({
+      width,
+      height: 220,
+      marginLeft: 44,
+      x: { type: "utc", label: "Date" },
+      y: { label: "mg/L", grid: true, zero: true },
+      color: { domain: shown.map((m) => METAL_LABELS[m]), range: shown.map((m) => METAL_COLOURS[m]), legend: true },
+      symbol: { domain: shown.map((m) => METAL_LABELS[m]), range: shown.map((m) => METAL_SYMBOLS[m]) },
+      marks: [
+        Plot.rectX(episodes, { x1: "from", x2: "until", fill: "label", fillOpacity: 0.12 }),
+        Plot.ruleY(levels.filter((l) => l.kind === "elevated"), { y: "level", stroke: "metal", strokeDasharray: "6,3" }),
+        Plot.ruleY(levels.filter((l) => l.kind === "clear"), { y: "level", stroke: "metal", strokeDasharray: "2,3" }),
+        Plot.lineY(points, { x: "at", y: "value", z: "metal", stroke: "metal" }),
+        Plot.dot(points, {
+          x: "at",
+          y: "value",
+          stroke: "metal",
+          symbol: "metal",
+          fill: (d: Point) => (d.belowDetection ? "white" : d.metal),
+          r: 3,
+          tip: true,
+          title: (d: Point) => `${d.metal} ${d.belowDetection ? "<" : ""}${d.value} mg/L\n${d.at.toISOString().slice(0, 10)}`,
+        }),
+        Plot.tickX(marks, {
+          x: "at",
+          stroke: "#22604f",
+          strokeWidth: 2,
+          insetTop: 190,
+          tip: true,
+          title: (d: (typeof marks)[number]) => `${d.productName}\n${d.appliedAt.slice(0, 10)}`,
+        }),
+      ],
+    }),
+    [points, episodes, levels, marks, shown],
+  );
+  const summary = pool.metals
+    .map((m) => `${METAL_LABELS[m.metal]}: ${m.openings} openings${m.recurrent ? ", recurring" : ""}${m.chronic ? ", chronic" : ""}`)
+    .join("; ");
+  return (
+    <PlotFigure
+      title={`${pool.street}: metal readings (mg/L)`}
+      caption={`${summary}. Shaded: open episodes; dashed: elevated level, dotted: clear level; green ticks at the foot: treatments.`}
+      build={build}
+      rows={points}
+      height={220}
+      csvName={`metal-readings-${pool.poolId}.csv`}
+      columns={[
+        { label: "Date", value: (r) => r.at.toISOString().slice(0, 10) },
+        { label: "Metal", value: (r) => r.metal },
+        { label: "mg/L", value: (r) => `${r.belowDetection ? "<" : ""}${r.value}` },
+      ]}
+      empty="No metal readings for this pool in the window."
+    />
+  );
+}

@@ -1,0 +1,62 @@
+import * as Plot from "@observablehq/plot";
+import { useCallback, useMemo } from "react";
+import { METALS, type MetalReading } from "@analysis/metals/reading";
+import { PlotFigure } from "~/components/charts/plot-figure";
+import { METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
+import { METAL_LABELS } from "~/lib/metals";
+
+type SourceTest = { sampledOn: string; copper: MetalReading | null; iron: MetalReading | null; manganese: MetalReading | null };
+
+/** Metals measured in one fill source's water, test by test. */
+export function SourceTestChart({ name, tests }: { name: string; tests: readonly SourceTest[] }) {
+  const rows = useMemo(
+    () =>
+      tests.flatMap((t) =>
+        METALS.flatMap((metal) => {
+          const r = t[metal];
+          return r ? [{ at: new Date(`${t.sampledOn}T00:00:00Z`), day: t.sampledOn, metal: METAL_LABELS[metal], value: r.value, belowDetection: r.belowDetection }] : [];
+        }),
+      ),
+    [tests],
+  );
+  const build = useCallback(
+    (width: number): Plot.PlotOptions => ({
+      width,
+      height: 200,
+      marginLeft: 44,
+      x: { type: "utc", label: "Sampled on" },
+      y: { label: "mg/L", grid: true, zero: true },
+      color: { domain: METALS.map((m) => METAL_LABELS[m]), range: METALS.map((m) => METAL_COLOURS[m]), legend: true },
+      symbol: { domain: METALS.map((m) => METAL_LABELS[m]), range: METALS.map((m) => METAL_SYMBOLS[m]) },
+      marks: [
+        Plot.lineY(rows, { x: "at", y: "value", z: "metal", stroke: "metal" }),
+        Plot.dot(rows, {
+          x: "at",
+          y: "value",
+          stroke: "metal",
+          symbol: "metal",
+          r: 3.5,
+          tip: true,
+          title: (d: (typeof rows)[number]) => `${d.metal} ${d.belowDetection ? "<" : ""}${d.value} mg/L\n${d.day}`,
+        }),
+      ],
+    }),
+    [rows],
+  );
+  return (
+    <PlotFigure
+      title={`Metals in the fill water of ${name} (mg/L)`}
+      caption="Each point is a test of the source water itself; hollow points read below the kit's detection limit."
+      build={build}
+      rows={rows}
+      height={200}
+      csvName="fill-water-tests.csv"
+      columns={[
+        { label: "Sampled on", value: (r) => r.day },
+        { label: "Metal", value: (r) => r.metal },
+        { label: "mg/L", value: (r) => `${r.belowDetection ? "<" : ""}${r.value}` },
+      ]}
+      empty="This source's water has not been tested for metals. A fill-water test would show whether it brings metals in."
+    />
+  );
+}

@@ -1,0 +1,167 @@
+import { useMemo, useState } from "react";
+import { Link } from "react-router";
+import type { ShouldRevalidateFunctionArgs } from "react-router";
+import type { MetalTest } from "@analysis/metals/episodes";
+import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { readAnalyticsRequest } from "~/.server/analytics-request";
+import { recurringReadings } from "~/.server/queries/analytics/recurring";
+import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
+import { ErrorPanel } from "~/components/error-panel";
+import { Stat } from "~/components/stat";
+import { useRecurringReadings } from "~/hooks/use-recurring-readings";
+import { recurringQuery } from "~/lib/analytics/params";
+import { findRecurring } from "~/lib/analytics/recurring";
+import { formatCount } from "~/lib/format";
+import { METAL_LABELS } from "~/lib/metals";
+import type { Route } from "./+types/analytics-recurring";
+
+export const meta: Route.MetaFunction = () => [{ title: "Recurring metal · Patina" }];
+
+const PARAMS = ["from", "to", "route", "metal"] as const;
+const PAGE = 12;
+
+export async function loader({ request }: Route.LoaderArgs) {
+  const { scope, query, window, companyThresholds } = await readAnalyticsRequest(request, "recurring", recurringQuery, "page");
+  // The page starts from the company's levels; the member moves them in the browser.
+  const data = await recurringReadings(scope, { window, thresholds: companyThresholds, metal: query.metal ?? null });
+  const search = new URL(request.url).searchParams;
+  return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), data };
+}
+
+export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
+  return onlyOnNewPath(args);
+}
+
+function LevelInputs({
+  metals,
+  levels,
+  lowest,
+  onChange,
+}: {
+  metals: readonly Metal[];
+  levels: MetalThresholds;
+  lowest: Record<Metal, number>;
+  onChange: (next: MetalThresholds) => void;
+}) {
+  return (
+    <fieldset className="rounded-xl border border-line bg-white p-4">
+      <legend className="px-1 text-sm font-medium">Levels used on this page (mg/L)</legend>
+      <div className="grid grid-cols-2 gap-3 sm:grid-cols-6">
+        {metals.flatMap((metal) =>
+          (["elevated", "clear"] as const).map((kind) => {
+            const min = kind === "elevated" ? lowest[metal] : 0.001;
+            const max = kind === "clear" ? levels[metal].elevated : 10;
+            return (
+              <label key={`${metal}-${kind}`} className="text-sm font-medium">
+                {METAL_LABELS[metal]} {kind === "elevated" ? "elevated at or above" : "clear below"}
+                <input
+                  type="number"
+                  inputMode="decimal"
+                  step="0.01"
+                  min={min}
+                  max={max}
+                  value={levels[metal][kind]}
+                  onChange={(event) => {
+                    const value = Number(event.target.value);
+                    if (!Number.isFinite(value) || value < min || value > max) return;
+                    onChange({ ...levels, [metal]: { ...levels[metal], [kind]: value } });
+                  }}
+                  className="mt-1 block w-full rounded-lg border border-line px-3 py-2 text-base tabular-nums"
+                />
+              </label>
+            );
+          }),
+        )}
+      </div>
+      <p className="mt-2 text-xs text-muted">
+        Recomputed here in the browser with the same episode rules as the server. An elevated level cannot go below the company's clear level
+        ({metals.map((m) => `${METAL_LABELS[m].toLowerCase()} ${lowest[m]}`).join(", ")} mg/L): the page holds readings only of pools that reach it.
+      </p>
+    </fieldset>
+  );
+}
+
+export default function Recurring({ loaderData }: Route.ComponentProps) {
+  const params = useSearchObject(PARAMS);
+  const query = useRecurringReadings(params, { params: loaderData.params, data: loaderData.data });
+  const data = query.data ?? loaderData.data;
+  const [levels, setLevels] = useState<MetalThresholds>(data.thresholds);
+  const [shown, setShown] = useState(PAGE);
+
+  const names = useMemo(() => new Map(data.pools.map((p) => [p.poolId, p])), [data.pools]);
+  const findings = useMemo(
+    () => findRecurring(data.readings, names, { thresholds: levels, metals: data.metals, ...data.rules }),
+    [data, names, levels],
+  );
+  const readingsByPool = useMemo(() => {
+    const map = new Map<number, MetalTest[]>();
+    for (const r of data.readings) map.set(Number(r.poolId), [...(map.get(Number(r.poolId)) ?? []), r]);
+    return map;
+  }, [data.readings]);
+  const changed = data.metals.some((m) => levels[m].elevated !== data.thresholds[m].elevated || levels[m].clear !== data.thresholds[m].clear);
+
+  return (
+    <div className="space-y-6">
+      <header>
+        <h1 className="text-2xl font-semibold tracking-tight">Recurring metal</h1>
+        <p className="text-muted">
+          Pools where a metal came back within {data.rules.recurrenceWindowDays} days (recurring) or stayed up for more than{" "}
+          {data.rules.chronicAfterDays} days (chronic). Find the cause before dosing again.
+        </p>
+      </header>
+      <FilterBar metal />
+      <QueryState isFetching={query.isFetching} error={query.error} />
+      <LevelInputs metals={data.metals} levels={levels} lowest={data.lowestElevated} onChange={setLevels} />
+      {changed ? (
+        <button type="button" onClick={() => setLevels(data.thresholds)} className="text-sm font-medium text-verdigris-700 underline">
+          Back to the company's levels
+        </button>
+      ) : null}
+
+      <dl className="grid grid-cols-3 gap-3">
+        <Stat label="Recurring pools" value={formatCount(findings.recurringPools)} tone={findings.recurringPools > 0 ? "alert" : "calm"} />
+        <Stat label="Chronic pools" value={formatCount(findings.chronicPools)} tone={findings.chronicPools > 0 ? "alert" : "calm"} />
+        <Stat label="Pools listed" value={formatCount(findings.pools.length)} />
+      </dl>
+
+      {findings.pools.length === 0 ? (
+        <p className="rounded-xl border border-line bg-white p-4 text-muted">
+          No pool shows a recurring or chronic episode at these levels in this window: every episode cleared within {data.rules.chronicAfterDays} days
+          and none came back within a year.
+        </p>
+      ) : (
+        <ol className="grid gap-4 lg:grid-cols-2">
+          {findings.pools.slice(0, shown).map((pool) => (
+            <li key={pool.poolId} className="space-y-1">
+              <RecurringPoolChart
+                pool={pool}
+                readings={readingsByPool.get(pool.poolId) ?? []}
+                treatments={data.treatments.filter((t) => t.poolId === pool.poolId)}
+                thresholds={levels}
+                metals={data.metals}
+              />
+              <p className="text-sm">
+                <Link to={`/pools/${pool.poolId}`} className="font-medium text-verdigris-700 underline">
+                  Open {pool.street}
+                </Link>{" "}
+                <span className="text-muted">
+                  · {pool.routeName ?? "no route"} · {pool.fillSourceName ?? "fill source not recorded"}
+                </span>
+              </p>
+            </li>
+          ))}
+        </ol>
+      )}
+      {findings.pools.length > shown ? (
+        <button type="button" onClick={() => setShown((n) => n + PAGE)} className="rounded-lg border border-line bg-white px-4 py-2 font-medium">
+          Show {Math.min(PAGE, findings.pools.length - shown)} more pools
+        </button>
+      ) : null}
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}
