@@ -63,6 +63,9 @@ describe("the demo's planted causes surface", () => {
     expect(better.tooFewToCompare).toBe(false);
     expect(weaker.tooFewToCompare).toBe(false);
     expect(better.timeToClear.medianDays).not.toBeNull();
+    // The median's 95% limits bracket it (the upper one may be unbounded: null).
+    expect(better.timeToClear.medianLower).toBeLessThanOrEqual(better.timeToClear.medianDays);
+    if (better.timeToClear.medianUpper !== null) expect(better.timeToClear.medianUpper).toBeGreaterThanOrEqual(better.timeToClear.medianDays);
     // The maintenance sequestrant alone never gets half its courses clear within 30 days (median null)
     // or, if it does, later than the pair.
     if (weaker.timeToClear.medianDays !== null) expect(better.timeToClear.medianDays).toBeLessThan(weaker.timeToClear.medianDays);

@@ -427,6 +427,8 @@ describe("GET /api/analytics/outcomes", () => {
     expect(seq.reduction.median).toBeCloseTo((62.5 + (0.25 / 0.35) * 100) / 2, 6);
     // Both clear 14 days after (03-15 and 03-22): Kaplan-Meier falls from 1 to 0 at day 14, median 14.
     expect(seq.timeToClear.medianDays).toBe(14);
+    // At day 14 the estimate is 0, so both bands are 0 and the median's limits are day 14 too.
+    expect([seq.timeToClear.medianLower, seq.timeToClear.medianUpper]).toEqual([14, 14]);
     expect(seq.timeToClear.curve.map((p: Body) => [p.day, p.stillElevated])).toEqual([
       [0, 1],
       [14, 0],
