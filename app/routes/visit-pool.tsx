@@ -1,15 +1,15 @@
-import { redirect, type ShouldRevalidateFunctionArgs } from "react-router";
+import { data, redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { activeProducts } from "~/.server/queries/routebook-products";
 import { companyPreferences } from "~/.server/queries/routebook-company";
 import { visitPool } from "~/.server/queries/visit";
-import { refusedAnswer } from "~/.server/services/result";
+import type { ServiceRefusal } from "~/.server/services/result";
 import { logVisit } from "~/.server/services/visit";
 import { ErrorPanel } from "~/components/error-panel";
 import { VisitForm } from "~/components/visit/visit-form";
 import { formatDateTime } from "~/lib/format";
 import { formObject } from "~/lib/forms/fields";
-import { parseVisitForm } from "~/lib/forms/visit";
+import { parseVisitForm, TREATMENT_FIELDS, typedVisit } from "~/lib/forms/visit";
 import { idParam, notFoundPage } from "~/lib/route-params";
 import type { Route } from "./+types/visit-pool";
 
@@ -35,11 +35,23 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 export async function action({ request, params }: Route.ActionArgs) {
   const scope = await requireMember(request, "visit");
   const poolId = idParam(params, "poolId", "pool");
-  const parsed = parseVisitForm(formObject(await request.formData(), ["treatmentProduct", "treatmentAmount", "treatmentUnit"]));
-  if (!parsed.ok) return refusedAnswer(parsed);
+  const raw = formObject(await request.formData(), TREATMENT_FIELDS);
+  const parsed = parseVisitForm(raw);
+  if (!parsed.ok) return refusedVisit(parsed, raw);
   const result = await logVisit(scope, poolId, parsed.value, new Date());
-  if (!result.ok) return refusedAnswer(result);
+  if (!result.ok) return refusedVisit(result, raw);
   throw redirect(`/pools/${result.poolId}?saved=${result.testId}`);
+}
+
+/**
+ * A refused visit, with the values as typed: when the form was posted without
+ * the page's script, the page is drawn again from them.
+ */
+function refusedVisit(refused: Pick<ServiceRefusal, "fieldErrors" | "formError"> & { status?: number }, raw: Record<string, unknown>) {
+  return data(
+    { ok: false as const, fieldErrors: refused.fieldErrors, formError: refused.formError, values: typedVisit(raw) },
+    { status: refused.status ?? 400 },
+  );
 }
 
 /** After a refused save, keep the form as typed (and its submission key). */

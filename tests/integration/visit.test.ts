@@ -91,6 +91,36 @@ describe("logging a visit", () => {
     expect(await testsWithKey(submissionKey)).toHaveLength(0);
   });
 
+  it("hands back every typed value with the refusal, so a form posted without script is drawn again as typed", async () => {
+    const submissionKey = key("typed");
+    const outcome = await post(technician, poolOnRoute, {
+      submissionKey,
+      ph: "7.4",
+      totalAlkalinity: "900",
+      copper: "<0.05",
+      note: "Leaves in the skimmer",
+      treatmentProduct: [String(sequestrant), ""],
+      treatmentAmount: ["abc", ""],
+      treatmentUnit: ["fl oz", ""],
+    });
+    expect(outcome.status).toBe(400);
+    expect(fieldErrors(outcome)).toEqual({
+      totalAlkalinity: "Total alkalinity: 900 mg/L is above the highest accepted value, 500 mg/L.",
+      "treatments.0.amount": 'Treatment 1 amount: "abc" is not a number.',
+    });
+    expect((outcome.body as { values: Record<string, unknown> }).values).toEqual({
+      submissionKey,
+      ph: "7.4",
+      totalAlkalinity: "900",
+      copper: "<0.05",
+      note: "Leaves in the skimmer",
+      treatmentProduct: [String(sequestrant), ""],
+      treatmentAmount: ["abc", ""],
+      treatmentUnit: ["fl oz", ""],
+    });
+    expect(await testsWithKey(submissionKey)).toHaveLength(0);
+  });
+
   it("refuses a temperature above 45 degC given in degF, converted in the message", async () => {
     // 120 degF = (120 - 32) x 5/9 = 48.9 degC > 45 degC.
     const outcome = await post(technician, poolOnRoute, { submissionKey: key("hot"), temperature: "120F" });

@@ -1,4 +1,4 @@
-import { useMemo, useState } from "react";
+import { type ChangeEvent, useEffect, useRef, useState } from "react";
 import { Form, useNavigation } from "react-router";
 import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
 import { metalStatus, type MetalThresholds } from "@analysis/metals/reading";
@@ -10,31 +10,83 @@ import {
   NUMERIC_ANALYTES,
   parseVisitReadings,
   PH_WARNING,
+  TREATMENT_FIELDS,
+  type TypedVisit,
   VISIT_METALS,
 } from "~/lib/forms/visit";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "~/lib/ranges";
 
 type Product = { id: number; name: string; category: string; doseUnit: string | null; unitCost: number | null };
-type Line = { key: number; productId: string; amount: string; unit: string };
+type Line = { productId: string; amount: string; unit: string };
+type Snapshot = { values: Record<string, string>; lines: Line[] };
+
+export type VisitAnswer = { fieldErrors: FieldErrors; formError: string | null; values?: TypedVisit };
 
 const bigInput = "mt-1 block w-full rounded-lg border border-line bg-white px-3 py-3 text-lg aria-[invalid=true]:border-alert";
+
+/** The error key of a treatment line's field, as the server names it. */
+const TREATMENT_ERROR_KEY: Record<(typeof TREATMENT_FIELDS)[number], string> = {
+  treatmentProduct: "product",
+  treatmentAmount: "amount",
+  treatmentUnit: "unit",
+};
+
+function snapshotOf(typed: TypedVisit): Snapshot {
+  const values: Record<string, string> = {};
+  for (const [name, value] of Object.entries(typed)) {
+    if (typeof value === "string") values[name] = value;
+  }
+  const column = (name: string) => {
+    const v = typed[name];
+    return Array.isArray(v) ? v : typeof v === "string" ? [v] : [];
+  };
+  const products = column("treatmentProduct");
+  const amounts = column("treatmentAmount");
+  const units = column("treatmentUnit");
+  const count = Math.max(products.length, amounts.length, units.length);
+  const lines = Array.from({ length: count }, (_, i) => ({ productId: products[i] ?? "", amount: amounts[i] ?? "", unit: units[i] ?? "" }));
+  return { values, lines };
+}
+
+/** What the form holds right now, straight from the page (typed before or after the script loaded). */
+function readForm(form: HTMLFormElement): Snapshot {
+  const typed: TypedVisit = {};
+  const data = new FormData(form);
+  for (const name of new Set(data.keys())) {
+    const all = data.getAll(name).map((v) => (typeof v === "string" ? v : ""));
+    typed[name] = (TREATMENT_FIELDS as readonly string[]).includes(name) ? all : (all.at(-1) ?? "");
+  }
+  return snapshotOf(typed);
+}
+
+function FieldError({ id, message }: { id: string; message: string | undefined }) {
+  return message ? (
+    <span id={id} className="mt-1 block text-sm text-alert">
+      {message}
+    </span>
+  ) : null;
+}
 
 function Choice({
   name,
   legend,
   labels,
-  value,
-  onChange,
+  initial,
+  clearable,
+  onClear,
+  error,
 }: {
   name: string;
   legend: string;
   labels: Record<string, string>;
-  value: string;
-  onChange: (value: string) => void;
+  initial: string;
+  clearable: boolean;
+  onClear: () => void;
+  error: string | undefined;
 }) {
   return (
-    <fieldset>
+    <fieldset aria-describedby={error ? `${name}-error` : undefined}>
       <legend className="text-sm font-medium">{legend}</legend>
       <div className="mt-1 flex flex-wrap gap-2">
         {Object.entries(labels).map(([v, label]) => (
@@ -42,31 +94,27 @@ function Choice({
             key={v}
             className="flex min-h-12 cursor-pointer items-center gap-2 rounded-lg border border-line bg-white px-3 has-checked:border-verdigris-700 has-checked:bg-verdigris-50"
           >
-            <input
-              type="radio"
-              name={name}
-              value={v}
-              checked={value === v}
-              onChange={() => onChange(v)}
-              className="size-5 accent-verdigris-700"
-            />
+            <input type="radio" name={name} value={v} defaultChecked={initial === v} className="size-5 accent-verdigris-700" />
             {label}
           </label>
         ))}
-        {value ? (
-          <button type="button" onClick={() => onChange("")} className="px-2 text-sm text-muted underline">
+        {clearable ? (
+          <button type="button" onClick={onClear} className="px-2 text-sm text-muted underline">
             clear
           </button>
         ) : null}
       </div>
+      <FieldError id={`${name}-error`} message={error} />
     </fieldset>
   );
 }
 
 /**
- * The visit form, built for a phone: large inputs with the numeric keypad,
- * readings checked as they are typed with the same code the server uses, the
- * saturation index as soon as it can be worked out, warnings that never block.
+ * The visit form, built for a phone in the field. Every input keeps its own
+ * value (uncontrolled), so it works as a plain form post before the script
+ * arrives and nothing typed is lost when it does; the script then reads the
+ * form on each change to show the saturation index and warnings at once.
+ * The server checks everything again and answers with an error per field.
  */
 export function VisitForm({
   submissionKey,
@@ -81,15 +129,33 @@ export function VisitForm({
   thresholds: MetalThresholds;
   balanceBand: BalanceBand;
   temperatureUnit: "C" | "F";
-  answer: { fieldErrors: FieldErrors; formError: string | null } | undefined;
+  answer: VisitAnswer | undefined;
 }) {
   const busy = useNavigation().state !== "idle";
-  const [values, setValues] = useState<Record<string, string>>({ temperatureUnit });
-  const [lines, setLines] = useState<Line[]>([{ key: 0, productId: "", amount: "", unit: "" }]);
-  const set = (name: string) => (value: string) => setValues((v) => ({ ...v, [name]: value }));
+  const formRef = useRef<HTMLFormElement>(null);
+  // What the server rendered into the inputs: the refused post's own values, or an empty form.
+  const [initial] = useState<Snapshot>(() => snapshotOf({ temperatureUnit, ...answer?.values }));
+  const [current, setCurrent] = useState<Snapshot>(initial);
+  const [lineCount, setLineCount] = useState(Math.max(1, initial.lines.length));
+  const [hydrated, setHydrated] = useState(false);
+  // Fields changed since the server last answered: its error for them may no longer hold.
+  const [changed, setChanged] = useState<ReadonlySet<string>>(new Set());
 
-  const { readings, errors: liveErrors } = useMemo(() => parseVisitReadings(values), [values]);
-  const errors: FieldErrors = { ...answer?.fieldErrors, ...liveErrors };
+  const refresh = () => {
+    if (formRef.current) setCurrent(readForm(formRef.current));
+  };
+
+  useEffect(() => {
+    setHydrated(true);
+    refresh(); // picks up whatever was typed while the script was loading
+  }, []);
+
+  useEffect(() => setChanged(new Set()), [answer]);
+
+  const { values, lines } = current;
+  const { readings, errors: liveErrors } = parseVisitReadings(values);
+  const errorFor = (key: string): string | undefined => liveErrors[key] ?? (changed.has(key) ? undefined : answer?.fieldErrors[key]);
+
   const balance = saturationIndex({
     ph: readings.ph,
     temperatureC: readings.temperatureC,
@@ -114,64 +180,84 @@ export function VisitForm({
   const productById = new Map(products.map((p) => [String(p.id), p]));
   const acidGiven = lines.some((l) => productById.get(l.productId)?.category === "ph_decreaser");
   const phHigh = readings.ph !== undefined && readings.ph > DEFAULT_ANALYTE_RANGES.ph.high;
+  const hasStain = values.stain === "new" || values.stain === "existing";
 
-  const updateLine = (key: number, change: Partial<Line>) =>
-    setLines((all) =>
-      all.map((l) => {
-        if (l.key !== key) return l;
-        const next = { ...l, ...change };
-        // A newly chosen product brings its own dose unit, which is also the unit it is costed in.
-        if (change.productId !== undefined) next.unit = productById.get(change.productId)?.doseUnit ?? "";
-        return next;
-      }),
-    );
+  const onChange = (event: ChangeEvent<HTMLFormElement>) => {
+    const target = event.target as unknown as HTMLInputElement | HTMLSelectElement;
+    const line = target.dataset.line;
+    if (target.name === "treatmentProduct" && line !== undefined) {
+      // A newly chosen product brings its own dose unit, which is also the unit it is costed in.
+      const unit = formRef.current?.querySelector<HTMLInputElement>(`input[name="treatmentUnit"][data-line="${line}"]`);
+      if (unit) unit.value = productById.get(target.value)?.doseUnit ?? "";
+    }
+    const field = target.name as (typeof TREATMENT_FIELDS)[number];
+    const key = line !== undefined && field in TREATMENT_ERROR_KEY ? `treatments.${line}.${TREATMENT_ERROR_KEY[field]}` : target.name;
+    if (key) setChanged((all) => new Set(all).add(key));
+    refresh();
+  };
 
-  const numberInput = (name: string, label: string, unit: string) => (
-    <label key={name} className="block">
-      <span className="text-sm font-medium">
-        {label}
-        {unit ? <span className="font-normal text-muted"> ({unit})</span> : null}
-      </span>
-      <input
-        name={name}
-        inputMode="decimal"
-        autoComplete="off"
-        value={values[name] ?? ""}
-        onChange={(e) => set(name)(e.target.value)}
-        aria-invalid={Boolean(errors[name])}
-        aria-describedby={errors[name] ? `${name}-error` : undefined}
-        className={bigInput}
-      />
-      {errors[name] ? (
-        <span id={`${name}-error`} className="mt-1 block text-sm text-alert">
-          {errors[name]}
-        </span>
-      ) : null}
-    </label>
+  const clearChoice = (name: string) => () => {
+    formRef.current?.querySelectorAll<HTMLInputElement>(`input[name="${name}"]`).forEach((radio) => {
+      radio.checked = false;
+    });
+    setChanged((all) => new Set(all).add(name));
+    refresh();
+  };
+
+  const choice = (name: string, legend: string, labels: Record<string, string>) => (
+    <Choice
+      name={name}
+      legend={legend}
+      labels={labels}
+      initial={initial.values[name] ?? ""}
+      clearable={hydrated && Boolean(values[name])}
+      onClear={clearChoice(name)}
+      error={errorFor(name)}
+    />
   );
 
+  const numberInput = (name: string, label: string, unit: string) => {
+    const error = errorFor(name);
+    return (
+      <label key={name} className="block">
+        <span className="text-sm font-medium">
+          {label}
+          {unit ? <span className="font-normal text-muted"> ({unit})</span> : null}
+        </span>
+        <input
+          name={name}
+          inputMode="decimal"
+          autoComplete="off"
+          defaultValue={initial.values[name] ?? ""}
+          aria-invalid={Boolean(error)}
+          aria-describedby={error ? `${name}-error` : undefined}
+          className={bigInput}
+        />
+        <FieldError id={`${name}-error`} message={error} />
+      </label>
+    );
+  };
+
+  // A refused form keeps its key (nothing was stored under it), unless the key itself was the problem.
+  const typedKey = answer?.values?.submissionKey;
+  const keptKey = typeof typedKey === "string" && !answer?.fieldErrors.submissionKey ? typedKey : null;
+  const unplacedErrors = ["submissionKey", "form"].map((key) => answer?.fieldErrors[key]).filter(Boolean);
+
   return (
-    <Form method="post" className="space-y-6 pb-28" noValidate>
-      <input type="hidden" name="submissionKey" value={submissionKey} />
+    <Form ref={formRef} method="post" onChange={onChange} className="space-y-6 pb-28" noValidate data-live={hydrated ? "on" : "off"}>
+      <input type="hidden" name="submissionKey" value={keptKey ?? submissionKey} />
       <section aria-labelledby="readings" className="space-y-3">
         <h2 id="readings" className="text-lg font-semibold">Readings</h2>
         <p className="text-sm text-muted">Fill in what you tested; leave the rest empty.</p>
         <div className="grid grid-cols-2 gap-3">
           {NUMERIC_ANALYTES.map((a) => numberInput(a.key, a.label, a.unit))}
           <div className="col-span-2 grid grid-cols-[1fr_auto] items-end gap-2">
-            {numberInput("temperature", "Water temperature", values.temperatureUnit === "F" ? "°F" : "°C")}
+            {numberInput("temperature", "Water temperature", `°${(hydrated ? values : initial.values).temperatureUnit === "F" ? "F" : "C"}`)}
             <fieldset className="flex overflow-hidden rounded-lg border border-line">
               <legend className="sr-only">Temperature unit</legend>
               {(["C", "F"] as const).map((u) => (
                 <label key={u} className="flex min-h-12 cursor-pointer items-center px-4 has-checked:bg-verdigris-700 has-checked:text-white">
-                  <input
-                    type="radio"
-                    name="temperatureUnit"
-                    value={u}
-                    checked={values.temperatureUnit === u}
-                    onChange={() => set("temperatureUnit")(u)}
-                    className="sr-only"
-                  />
+                  <input type="radio" name="temperatureUnit" value={u} defaultChecked={initial.values.temperatureUnit === u} className="sr-only" />
                   °{u}
                 </label>
               ))}
@@ -211,44 +297,57 @@ export function VisitForm({
 
       <section aria-labelledby="observations" className="space-y-4">
         <h2 id="observations" className="text-lg font-semibold">What you saw</h2>
-        <Choice name="hardnessEndpoint" legend="Hardness test endpoint" labels={ENDPOINT_LABELS} value={values.hardnessEndpoint ?? ""} onChange={set("hardnessEndpoint")} />
+        {choice("hardnessEndpoint", "Hardness test endpoint", ENDPOINT_LABELS)}
         {askForMetals ? (
           <p role="status" className="rounded-lg border border-calm bg-blue-50 p-3 text-sm">
             A blurred endpoint often means dissolved metals. Please test copper, iron and manganese now if you can; the pool
             will be marked “metal suspected” until a metal reading is logged.
           </p>
         ) : null}
-        <Choice name="stain" legend="Visible stain" labels={STAIN_LABELS} value={values.stain ?? ""} onChange={set("stain")} />
-        {values.stain === "new" || values.stain === "existing" ? (
-          <Choice name="stainColour" legend="Stain colour" labels={STAIN_COLOUR_LABELS} value={values.stainColour ?? ""} onChange={set("stainColour")} />
-        ) : null}
-        <Choice name="padTint" legend="Metal-collector pad" labels={PAD_TINT_LABELS} value={values.padTint ?? ""} onChange={set("padTint")} />
+        {choice("stain", "Visible stain", STAIN_LABELS)}
+        {/* Shown until the script runs, so a colour can be given without it; only kept with a stain. */}
+        <div hidden={hydrated && !hasStain}>{choice("stainColour", "Stain colour (only with a stain)", STAIN_COLOUR_LABELS)}</div>
+        {choice("padTint", "Metal-collector pad", PAD_TINT_LABELS)}
         <label className="block">
           <span className="text-sm font-medium">Note</span>
-          <textarea name="note" rows={2} maxLength={2000} className={bigInput} aria-invalid={Boolean(errors.note)} />
-          {errors.note ? <span className="mt-1 block text-sm text-alert">{errors.note}</span> : null}
+          <textarea
+            name="note"
+            rows={2}
+            maxLength={2000}
+            defaultValue={initial.values.note ?? ""}
+            className={bigInput}
+            aria-invalid={Boolean(errorFor("note"))}
+            aria-describedby={errorFor("note") ? "note-error" : undefined}
+          />
+          <FieldError id="note-error" message={errorFor("note")} />
         </label>
       </section>
 
       <section aria-labelledby="treatments" className="space-y-3">
         <h2 id="treatments" className="text-lg font-semibold">Treatments given</h2>
-        {lines.map((line, i) => {
+        {Array.from({ length: lineCount }, (_, i) => {
+          const line = lines[i] ?? { productId: "", amount: "", unit: "" };
+          const start = initial.lines[i] ?? { productId: "", amount: "", unit: "" };
           const product = productById.get(line.productId);
           const amount = Number(line.amount.replace(",", "."));
           const cost =
             product?.unitCost != null && product.doseUnit && line.unit.toLowerCase() === product.doseUnit.toLowerCase() && amount > 0
               ? amount * product.unitCost
               : null;
+          const productError = errorFor(`treatments.${i}.product`);
+          const amountError = errorFor(`treatments.${i}.amount`);
+          const unitError = errorFor(`treatments.${i}.unit`);
           return (
-            <div key={line.key} className="grid grid-cols-2 gap-2 rounded-xl border border-line bg-white p-3">
+            <div key={i} className="grid grid-cols-2 gap-2 rounded-xl border border-line bg-white p-3">
               <label className="col-span-2 block">
                 <span className="text-sm font-medium">Product {i + 1}</span>
                 <select
                   name="treatmentProduct"
-                  value={line.productId}
-                  onChange={(e) => updateLine(line.key, { productId: e.target.value })}
+                  data-line={i}
+                  defaultValue={start.productId}
                   className={bigInput}
-                  aria-invalid={Boolean(errors[`treatments.${i}.product`])}
+                  aria-invalid={Boolean(productError)}
+                  aria-describedby={productError ? `treatment-${i}-product-error` : undefined}
                 >
                   <option value="">None</option>
                   {products.map((p) => (
@@ -257,36 +356,50 @@ export function VisitForm({
                     </option>
                   ))}
                 </select>
-                {errors[`treatments.${i}.product`] ? <span className="mt-1 block text-sm text-alert">{errors[`treatments.${i}.product`]}</span> : null}
+                <FieldError id={`treatment-${i}-product-error`} message={productError} />
               </label>
               <label className="block">
                 <span className="text-sm font-medium">Amount</span>
                 <input
                   name="treatmentAmount"
+                  data-line={i}
                   inputMode="decimal"
-                  value={line.amount}
-                  onChange={(e) => updateLine(line.key, { amount: e.target.value })}
+                  autoComplete="off"
+                  defaultValue={start.amount}
                   className={bigInput}
-                  aria-invalid={Boolean(errors[`treatments.${i}.amount`])}
+                  aria-invalid={Boolean(amountError)}
+                  aria-describedby={amountError ? `treatment-${i}-amount-error` : undefined}
                 />
               </label>
               <label className="block">
                 <span className="text-sm font-medium">Unit</span>
-                <input name="treatmentUnit" value={line.unit} maxLength={16} onChange={(e) => updateLine(line.key, { unit: e.target.value })} className={bigInput} />
+                <input
+                  name="treatmentUnit"
+                  data-line={i}
+                  defaultValue={start.unit}
+                  maxLength={16}
+                  className={bigInput}
+                  aria-invalid={Boolean(unitError)}
+                  aria-describedby={unitError ? `treatment-${i}-unit-error` : undefined}
+                />
               </label>
-              {errors[`treatments.${i}.amount`] ? <span className="col-span-2 text-sm text-alert">{errors[`treatments.${i}.amount`]}</span> : null}
-              {errors[`treatments.${i}.unit`] ? <span className="col-span-2 text-sm text-alert">{errors[`treatments.${i}.unit`]}</span> : null}
+              <span className="col-span-2">
+                <FieldError id={`treatment-${i}-amount-error`} message={amountError} />
+                <FieldError id={`treatment-${i}-unit-error`} message={unitError} />
+              </span>
               {cost !== null ? <span className="col-span-2 text-sm text-muted">Cost {cost.toFixed(2)}</span> : null}
             </div>
           );
         })}
-        <button
-          type="button"
-          onClick={() => setLines((all) => [...all, { key: (all.at(-1)?.key ?? 0) + 1, productId: "", amount: "", unit: "" }])}
-          className="rounded-lg border border-line bg-white px-4 py-3 font-medium"
-        >
-          Add another treatment
-        </button>
+        {hydrated ? (
+          <button
+            type="button"
+            onClick={() => setLineCount((n) => n + 1)}
+            className="rounded-lg border border-line bg-white px-4 py-3 font-medium"
+          >
+            Add another treatment
+          </button>
+        ) : null}
         {acidGiven || phHigh ? (
           <CautionNote topics={["acid"]}>
             {phHigh ? `pH ${readings.ph} is above ${DEFAULT_ANALYTE_RANGES.ph.high}; a pH decreaser is the usual step.` : "A pH decreaser is an acid."}
@@ -295,6 +408,9 @@ export function VisitForm({
       </section>
 
       <FormProblem message={answer?.formError} />
+      {unplacedErrors.map((message) => (
+        <FormProblem key={message} message={message} />
+      ))}
       <div className="fixed inset-x-0 bottom-0 border-t border-line bg-paper/95 p-3 backdrop-blur">
         <button
           type="submit"

@@ -105,6 +105,22 @@ export type VisitInput = {
   treatments: TreatmentLine[];
 };
 
+/** The treatment lines' inputs, repeated once per line. */
+export const TREATMENT_FIELDS = ["treatmentProduct", "treatmentAmount", "treatmentUnit"] as const;
+
+/** The visit form as typed: one string per field, a list per treatment column. */
+export type TypedVisit = Record<string, string | string[]>;
+
+/** The typed values of a posted form, to put back into the inputs when the server refuses it. */
+export function typedVisit(raw: Record<string, unknown>): TypedVisit {
+  const typed: TypedVisit = {};
+  for (const [name, value] of Object.entries(raw)) {
+    if (typeof value === "string") typed[name] = value.slice(0, 2000);
+    else if (Array.isArray(value)) typed[name] = value.slice(0, 50).map((v) => (typeof v === "string" ? v.slice(0, 100) : ""));
+  }
+  return typed;
+}
+
 const SUBMISSION_KEY = /^[A-Za-z0-9-]{8,64}$/;
 
 function choice<T extends readonly string[]>(raw: unknown, values: T, label: string, field: string, errors: FieldErrors): T[number] | null {
