@@ -5,6 +5,7 @@ import { pools, products, treatments, waterTests } from "../db/schema";
 import type { Scope } from "../guard";
 import { poolsInScope } from "../queries/scope";
 import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
+import { afterWaterTestsSaved } from "../mail/alerts";
 
 export type VisitSaved = { testId: number; poolId: number; repeated: boolean };
 
@@ -104,6 +105,8 @@ export async function logVisit(scope: Scope, poolId: number, input: VisitInput, 
       }
       return id;
     });
+    // Alerts are worked out after the commit and never hold up or undo the save.
+    void afterWaterTestsSaved(scope.companyId, [poolId]);
     return { ok: true, testId, poolId, repeated: false };
   } catch (error) {
     // A twin submit running at the same moment can trip either unique key first.
