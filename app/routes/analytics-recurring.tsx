@@ -1,8 +1,8 @@
-import { useMemo, useState } from "react";
+import { useEffect, useMemo, useState } from "react";
 import { Link } from "react-router";
 import type { ShouldRevalidateFunctionArgs } from "react-router";
 import type { MetalTest } from "@analysis/metals/episodes";
-import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { recurringReadings } from "~/.server/queries/analytics/recurring";
 import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
@@ -11,7 +11,7 @@ import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
 import { useRecurringReadings } from "~/hooks/use-recurring-readings";
 import { recurringQuery } from "~/lib/analytics/params";
-import { findRecurring } from "~/lib/analytics/recurring";
+import { expandReadings, findRecurring } from "~/lib/analytics/recurring";
 import { formatCount } from "~/lib/format";
 import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/analytics-recurring";
@@ -26,22 +26,33 @@ export async function loader({ request }: Route.LoaderArgs) {
   // The page starts from the company's levels; the member moves them in the browser.
   const data = await recurringReadings(scope, { window, thresholds: companyThresholds, metal: query.metal ?? null });
   const search = new URL(request.url).searchParams;
-  return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), data };
+  return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), company: companyThresholds, data };
 }
 
 export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
   return onlyOnNewPath(args);
 }
 
+/**
+ * The elevated levels the readings are fetched for, sent with the company's
+ * clear levels (kept at or below them so the request stays valid).
+ */
+function floorParams(floor: Record<Metal, number>, company: MetalThresholds) {
+  return Object.fromEntries(
+    METALS.flatMap((m) => [
+      [`${m}Elevated`, floor[m]],
+      [`${m}Clear`, Math.min(company[m].clear, floor[m])],
+    ]),
+  );
+}
+
 function LevelInputs({
   metals,
   levels,
-  lowest,
   onChange,
 }: {
   metals: readonly Metal[];
   levels: MetalThresholds;
-  lowest: Record<Metal, number>;
   onChange: (next: MetalThresholds) => void;
 }) {
   return (
@@ -50,7 +61,7 @@ function LevelInputs({
       <div className="grid grid-cols-2 gap-3 sm:grid-cols-6">
         {metals.flatMap((metal) =>
           (["elevated", "clear"] as const).map((kind) => {
-            const min = kind === "elevated" ? lowest[metal] : 0.001;
+            const min = 0.001;
             const max = kind === "clear" ? levels[metal].elevated : 10;
             return (
               <label key={`${metal}-${kind}`} className="text-sm font-medium">
@@ -75,8 +86,8 @@ function LevelInputs({
         )}
       </div>
       <p className="mt-2 text-xs text-muted">
-        Recomputed here in the browser with the same episode rules as the server. An elevated level cannot go below the company's clear level
-        ({metals.map((m) => `${METAL_LABELS[m].toLowerCase()} ${lowest[m]}`).join(", ")} mg/L): the page holds readings only of pools that reach it.
+        Recomputed here in the browser with the same episode rules as the server. Lowering an elevated level below the one the page was loaded
+        with also fetches the readings of the pools that then reach it.
       </p>
     </fieldset>
   );
@@ -84,22 +95,41 @@ function LevelInputs({
 
 export default function Recurring({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
-  const query = useRecurringReadings(params, { params: loaderData.params, data: loaderData.data });
+  const { company } = loaderData;
+  const companyElevated = useMemo(() => Object.fromEntries(METALS.map((m) => [m, company[m].elevated])) as Record<Metal, number>, [company]);
+  const [levels, setLevels] = useState<MetalThresholds>(company);
+  const [floor, setFloor] = useState(companyElevated);
+  const query = useRecurringReadings(
+    { ...params, ...floorParams(floor, company) },
+    { params: { ...loaderData.params, ...floorParams(companyElevated, company) }, data: loaderData.data },
+  );
   const data = query.data ?? loaderData.data;
-  const [levels, setLevels] = useState<MetalThresholds>(data.thresholds);
   const [shown, setShown] = useState(PAGE);
 
+  // A lower elevated level needs the readings of pools that only reach it: ask once the typing settles.
+  useEffect(() => {
+    const lower = METALS.some((m) => levels[m].elevated < floor[m]);
+    if (!lower) return;
+    const timer = setTimeout(() => setFloor((f) => Object.fromEntries(METALS.map((m) => [m, Math.min(f[m], levels[m].elevated)])) as Record<Metal, number>), 600);
+    return () => clearTimeout(timer);
+  }, [levels, floor]);
+
+  const readings = useMemo(() => expandReadings(data.readings), [data.readings]);
   const names = useMemo(() => new Map(data.pools.map((p) => [p.poolId, p])), [data.pools]);
   const findings = useMemo(
-    () => findRecurring(data.readings, names, { thresholds: levels, metals: data.metals, ...data.rules }),
-    [data, names, levels],
+    () => findRecurring(readings, names, { thresholds: levels, metals: data.metals, ...data.rules }),
+    [readings, names, levels, data.metals, data.rules],
   );
   const readingsByPool = useMemo(() => {
     const map = new Map<number, MetalTest[]>();
-    for (const r of data.readings) map.set(Number(r.poolId), [...(map.get(Number(r.poolId)) ?? []), r]);
+    for (const r of readings) {
+      const list = map.get(Number(r.poolId));
+      if (list) list.push(r);
+      else map.set(Number(r.poolId), [r]);
+    }
     return map;
-  }, [data.readings]);
-  const changed = data.metals.some((m) => levels[m].elevated !== data.thresholds[m].elevated || levels[m].clear !== data.thresholds[m].clear);
+  }, [readings]);
+  const changed = data.metals.some((m) => levels[m].elevated !== company[m].elevated || levels[m].clear !== company[m].clear);
 
   return (
     <div className="space-y-6">
@@ -112,9 +142,9 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
       </header>
       <FilterBar metal />
       <QueryState isFetching={query.isFetching} error={query.error} />
-      <LevelInputs metals={data.metals} levels={levels} lowest={data.lowestElevated} onChange={setLevels} />
+      <LevelInputs metals={data.metals} levels={levels} onChange={setLevels} />
       {changed ? (
-        <button type="button" onClick={() => setLevels(data.thresholds)} className="text-sm font-medium text-verdigris-700 underline">
+        <button type="button" onClick={() => setLevels(company)} className="text-sm font-medium text-verdigris-700 underline">
           Back to the company's levels
         </button>
       ) : null}

@@ -266,15 +266,20 @@ describe("GET /api/analytics/recurring", () => {
     expect(longer.body.recurringPools).toBe(1);
   });
 
-  it("sends readings of every pool that could recur when levels change", async () => {
-    // Candidates: any reading at or above the clear level (0.1 iron, 0.1 copper):
+  it("sends readings of every pool that could have an episode at the levels asked or stricter", async () => {
+    // Candidates: any reading at or above the elevated level (iron 0.2, copper 0.3):
     // P1 (0.40), P2 (0.35), P3 (0.25), P5 (copper 0.50); P4 never exceeds 0.05.
     const { body } = await get(recurringApi.loader, owner, "/api/analytics/recurring?include=readings");
     expect(body.pools.map((p: Body) => p.poolId).sort()).toEqual([P.P1, P.P2, P.P3, P.P5].sort());
-    // Metal readings: P1 6 + P2 4 + P3 3 + P5 2 = 15.
+    // Metal readings: P1 6 + P2 4 + P3 3 + P5 2 = 15, as [pool, ms, Cu, Cu<, Fe, Fe<, Mn, Mn<].
     expect(body.readings).toHaveLength(15);
+    expect(body.readings[0]).toEqual([P.P1, Date.parse("2025-01-01T10:00:00Z"), null, 0, 0.05, 0, null, 0]);
     expect(body.treatments).toHaveLength(3);
-    expect(body.lowestElevated.iron).toBe(0.1);
+    expect(body.lowestElevated.iron).toBe(0.2);
+    // Iron elevated at 0.3: P3's 0.25 no longer reaches it; P1 6 + P2 4 + P5 2 = 12 readings.
+    const stricter = await get(recurringApi.loader, owner, "/api/analytics/recurring?include=readings&ironElevated=0.3");
+    expect(stricter.body.pools.map((p: Body) => p.poolId).sort()).toEqual([P.P1, P.P2, P.P5].sort());
+    expect(stricter.body.readings).toHaveLength(12);
   });
 });
 
@@ -398,7 +403,6 @@ describe("GET /api/analytics/trend", () => {
     // Sorted 0.05 0.05 0.10 0.15 0.25 0.35 0.40: median 0.15; quartiles (linear, positions 1.5 and 4.5):
     // 0.05 + 0.5 x 0.05 = 0.075 and 0.25 + 0.5 x 0.10 = 0.30.
     expect(march.readings).toBe(7);
-    expect(march.pools).toBe(3);
     expect(march.median).toBeCloseTo(0.15, 6);
     expect(march.p25).toBeCloseTo(0.075, 6);
     expect(march.p75).toBeCloseTo(0.3, 6);

@@ -130,7 +130,7 @@ export function MetalTrendChart({ months, rule }: { months: MonthlyMetalFigure[]
           r: 3,
           tip: true,
           title: (d: TrendRow) =>
-            `${d.label}, ${d.month}\nmedian ${d.median.toFixed(3)} mg/L\nmiddle half ${d.p25.toFixed(3)} to ${d.p75.toFixed(3)} mg/L\n${d.readings} readings on ${d.pools} pools`,
+            `${d.label}, ${d.month}\nmedian ${d.median.toFixed(3)} mg/L\nmiddle half ${d.p25.toFixed(3)} to ${d.p75.toFixed(3)} mg/L\n${d.readings} readings`,
         }),
       ],
     }),
@@ -148,7 +148,6 @@ export function MetalTrendChart({ months, rule }: { months: MonthlyMetalFigure[]
         { label: "Month", value: (r) => r.month },
         { label: "Metal", value: (r) => r.label },
         { label: "Readings", value: (r) => String(r.readings) },
-        { label: "Pools", value: (r) => String(r.pools) },
         { label: "Median (mg/L)", value: (r) => r.median.toFixed(3) },
         { label: "25th percentile (mg/L)", value: (r) => r.p25.toFixed(3) },
         { label: "75th percentile (mg/L)", value: (r) => r.p75.toFixed(3) },

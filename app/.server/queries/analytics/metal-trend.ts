@@ -4,13 +4,13 @@ import { db } from "../../db/client";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
 import type { AnalyticsWindow } from "./window";
+import { percentileOfCounts } from "~/lib/analytics/percentile";
 
 export type MonthlyMetalFigure = {
   metal: Metal;
   /** "YYYY-MM" in the company's time zone (its UTC offset at the window's end). */
   month: string;
   readings: number;
-  pools: number;
   median: number;
   p25: number;
   p75: number;
@@ -37,51 +37,59 @@ function utcOffsetMinutes(timeZone: string, at: Date): number {
 
 /**
  * Median and interquartile spread of each metal per month across the route
- * book. MariaDB computes the percentiles (PERCENTILE_CONT as a window over the
- * month) and returns one row per metal and month, not the readings.
+ * book, from per-reading counts grouped in MariaDB rather than the readings.
  * A "<x" reading counts as x/2, a common substitution for values below a
  * detection limit (US EPA, Guidance for Data Quality Assessment QA/G-9, 4.7).
  */
 export async function metalTrend(scope: Scope, window: AnalyticsWindow, metal: Metal | null): Promise<MetalTrend> {
   const offset = utcOffsetMinutes(scope.timeZone, window.to ?? new Date());
   const metals = metal ? [metal] : METALS;
-  const perMetal = metals.map(
-    (m) => sql`
-      SELECT ${m} AS metal, t.pool_id AS pool_id,
-        DATE_FORMAT(t.sampled_at + INTERVAL ${offset} MINUTE, '%Y-%m') AS month,
-        CASE WHEN ${sql.raw(`t.${m}_below_detection`)} = 1 THEN ${sql.raw(`t.${m}`)} / 2 ELSE ${sql.raw(`t.${m}`)} END AS value
-      FROM water_tests t JOIN pools ON pools.id = t.pool_id
-      WHERE ${poolsInScope(scope)} AND t.company_id = ${scope.companyId} AND ${sql.raw(`t.${m}`)} IS NOT NULL
-        ${window.from ? sql`AND t.sampled_at >= ${window.from}` : sql``}
-        ${window.to ? sql`AND t.sampled_at <= ${window.to}` : sql``}`,
+  const measured = sql.join(
+    metals.map((m) => sql`${sql.raw(`t.${m}`)} IS NOT NULL`),
+    sql` OR `,
   );
+  // One pass over the metal readings, grouped in MariaDB by month and reading
+  // (a few thousand rows however large the book); the percentiles are then
+  // exact from those counts. A PERCENTILE_CONT window took seconds on 500k readings.
   const [rows] = (await db().execute(sql`
-    SELECT DISTINCT metal, month,
-      COUNT(*) OVER (PARTITION BY metal, month) AS readings,
-      PERCENTILE_CONT(0.5) WITHIN GROUP (ORDER BY value) OVER (PARTITION BY metal, month) AS median,
-      PERCENTILE_CONT(0.25) WITHIN GROUP (ORDER BY value) OVER (PARTITION BY metal, month) AS p25,
-      PERCENTILE_CONT(0.75) WITHIN GROUP (ORDER BY value) OVER (PARTITION BY metal, month) AS p75,
-      MAX(value) OVER (PARTITION BY metal, month) AS max_value
-    FROM (${sql.join(perMetal, sql` UNION ALL `)}) readings
-    ORDER BY metal, month
+    SELECT DATE_FORMAT(t.sampled_at + INTERVAL ${offset} MINUTE, '%Y-%m') AS month,
+      t.copper, t.copper_below_detection AS copper_bd, t.iron, t.iron_below_detection AS iron_bd,
+      t.manganese, t.manganese_below_detection AS manganese_bd, COUNT(*) AS n
+    FROM water_tests t JOIN pools ON pools.id = t.pool_id
+    WHERE ${poolsInScope(scope)} AND t.company_id = ${scope.companyId} AND (${measured})
+      ${window.from ? sql`AND t.sampled_at >= ${window.from}` : sql``}
+      ${window.to ? sql`AND t.sampled_at <= ${window.to}` : sql``}
+    GROUP BY 1, 2, 3, 4, 5, 6, 7
   `)) as unknown as [Array<Record<string, unknown>>];
-  const [poolRows] = (await db().execute(sql`
-    SELECT metal, month, COUNT(DISTINCT pool_id) AS pools
-    FROM (${sql.join(perMetal, sql` UNION ALL `)}) readings
-    GROUP BY metal, month
-  `)) as unknown as [Array<Record<string, unknown>>];
-  const poolCounts = new Map(poolRows.map((r) => [`${r.metal}/${r.month}`, Number(r.pools)]));
+  const buckets = new Map<string, Map<number, number>>();
+  for (const row of rows) {
+    for (const m of metals) {
+      if (row[m] === null || row[m] === undefined) continue;
+      const value = Number(row[`${m}_bd`]) === 1 ? Number(row[m]) / 2 : Number(row[m]);
+      const key = `${m}/${row.month}`;
+      const counts = buckets.get(key) ?? new Map<number, number>();
+      counts.set(value, (counts.get(value) ?? 0) + Number(row.n));
+      buckets.set(key, counts);
+    }
+  }
+  const months: MonthlyMetalFigure[] = [...buckets.entries()]
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+    .map(([key, counts]) => {
+      const [m, month] = key.split("/") as [Metal, string];
+      const sorted = [...counts.entries()].sort((a, b) => a[0] - b[0]).map(([value, n]) => ({ value, n }));
+      const readings = sorted.reduce((sum, b) => sum + b.n, 0);
+      return {
+        metal: m,
+        month,
+        readings,
+        median: percentileOfCounts(sorted, readings, 0.5),
+        p25: percentileOfCounts(sorted, readings, 0.25),
+        p75: percentileOfCounts(sorted, readings, 0.75),
+        max: sorted[sorted.length - 1]!.value,
+      };
+    });
   return {
-    months: rows.map((r) => ({
-      metal: r.metal as Metal,
-      month: String(r.month),
-      readings: Number(r.readings),
-      pools: poolCounts.get(`${r.metal}/${r.month}`) ?? 0,
-      median: Number(r.median),
-      p25: Number(r.p25),
-      p75: Number(r.p75),
-      max: Number(r.max_value),
-    })),
+    months,
     belowDetectionRule: "A reading below the detection limit counts as half the limit.",
   };
 }

@@ -1,11 +1,11 @@
 import { and, eq, or, sql, type SQL } from "drizzle-orm";
-import { DEFAULT_EPISODE_RULES, type MetalTest } from "@analysis/metals/episodes";
+import { DEFAULT_EPISODE_RULES } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { findRecurring, type RecurringFindings } from "~/lib/analytics/recurring";
+import { compactReading, findRecurring, type CompactReading, type RecurringFindings } from "~/lib/analytics/recurring";
 import { metalReadings, poolProfiles, treatmentRows } from "./rows";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
 
@@ -55,23 +55,26 @@ export async function recurringPools(scope: Scope, params: RecurringParams): Pro
 
 export type RecurringReadings = {
   thresholds: MetalThresholds;
-  /** Elevated levels below these would need pools that were not sent: the page keeps its inputs at or above. */
+  /** The elevated levels the readings were chosen for: any pool with an episode at these levels or stricter ones is here. */
   lowestElevated: Record<Metal, number>;
   rules: { recurrenceWindowDays: number; chronicAfterDays: number };
   metals: Metal[];
   pools: Array<{ poolId: number; street: string; customerName: string; routeName: string | null; fillSourceName: string | null }>;
-  readings: MetalTest[];
+  /** [poolId, epoch ms, copper, copper "<", iron, iron "<", manganese, manganese "<"], ordered by pool and time. */
+  readings: CompactReading[];
   treatments: Array<{ poolId: number; appliedAt: string; productName: string; category: string }>;
 };
 
 /**
- * Readings and treatments of every pool that could be recurring or chronic
- * under any elevated level at or above the company's clear level, so the
- * browser can rerun the episode analysis as the levels are changed.
+ * Readings and treatments of every pool with a reading at or above the
+ * request's elevated level of a metal: the only pools that can have an episode
+ * at those levels or stricter ones, whatever the clear level. The browser
+ * reruns the episode analysis on them as the levels move, and asks again only
+ * when an elevated level goes below these.
  */
 export async function recurringReadings(scope: Scope, params: RecurringParams): Promise<RecurringReadings> {
   const metals = params.metal ? [params.metal] : [...METALS];
-  const lowestElevated = Object.fromEntries(METALS.map((m) => [m, params.thresholds[m].clear])) as Record<Metal, number>;
+  const lowestElevated = Object.fromEntries(METALS.map((m) => [m, params.thresholds[m].elevated])) as Record<Metal, number>;
   const candidates = await poolsReaching(scope, params.window, metals, (metal) => lowestElevated[metal]);
   const [readings, book, treated] = await Promise.all([
     metalReadings(scope, { window: params.window, metals, poolIds: candidates }),
@@ -90,7 +93,7 @@ export async function recurringReadings(scope: Scope, params: RecurringParams): 
       routeName: l.routeName,
       fillSourceName: l.fillSourceName,
     })),
-    readings,
+    readings: readings.map(compactReading),
     treatments: treated.map((t) => ({
       poolId: Number(t.poolId),
       appliedAt: new Date(t.appliedAt).toISOString(),

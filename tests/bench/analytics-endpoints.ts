@@ -1,0 +1,117 @@
+/**
+ * Time of each analytics endpoint against the bare SQL that reads the same
+ * rows, on a seeded route book (median of several runs).
+ *
+ *   DATABASE_URL=mysql://…/patina_scratch_x npx tsx drizzle/seed/run.ts --pools 2000 --years 5
+ *   DATABASE_URL=mysql://…/patina_scratch_x npx tsx tests/bench/analytics-endpoints.ts [runs]
+ *
+ * The endpoint is called through its loader with a real session (guard, zod,
+ * queries, analysis and JSON included); the bare SQL is the main row set the
+ * endpoint reads, run through the same connection pool and fully fetched.
+ */
+import { performance } from "node:perf_hooks";
+import { closeDatabase, pool } from "../../app/.server/db/client";
+import * as alerts from "../../app/routes/api/analytics/alerts";
+import * as evidence from "../../app/routes/api/analytics/pool-evidence";
+import * as groups from "../../app/routes/api/analytics/groups";
+import * as outcomes from "../../app/routes/api/analytics/outcomes";
+import * as recurring from "../../app/routes/api/analytics/recurring";
+import * as series from "../../app/routes/api/analytics/pool-series";
+import * as sources from "../../app/routes/api/analytics/sources";
+import * as summary from "../../app/routes/api/analytics/summary";
+import * as trend from "../../app/routes/api/analytics/trend";
+import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
+import { signIn } from "../fixtures/company";
+
+const runs = Number(process.argv[2] ?? 5);
+const owner = DEMO_USERS.find((u) => u.role === "owner")!;
+const cookie = await signIn(`${owner.email}@${DEMO_EMAIL_DOMAIN}`, owner.password);
+const [[company]] = (await pool().query("SELECT id FROM companies ORDER BY id LIMIT 1")) as unknown as [[{ id: number }]];
+const [[busiest]] = (await pool().query(
+  "SELECT pool_id AS id FROM water_tests WHERE company_id = ? AND iron IS NOT NULL GROUP BY pool_id ORDER BY COUNT(*) DESC LIMIT 1",
+  [company.id],
+)) as unknown as [[{ id: number }]];
+const [[size]] = (await pool().query(
+  "SELECT (SELECT COUNT(*) FROM pools WHERE company_id = ?) AS pools, (SELECT COUNT(*) FROM water_tests WHERE company_id = ?) AS tests",
+  [company.id, company.id],
+)) as unknown as [[{ pools: number; tests: number }]];
+
+const METAL_ROWS = `SELECT t.id, t.pool_id, t.sampled_at, t.copper, t.copper_below_detection, t.iron, t.iron_below_detection,
+  t.manganese, t.manganese_below_detection FROM water_tests t JOIN pools p ON p.id = t.pool_id
+  WHERE p.company_id = ? AND t.company_id = ? AND (t.copper IS NOT NULL OR t.iron IS NOT NULL OR t.manganese IS NOT NULL)
+  ORDER BY t.pool_id, t.sampled_at`;
+const SPANS = `SELECT t.pool_id, MIN(t.sampled_at), MAX(t.sampled_at), COUNT(*) FROM water_tests t JOIN pools p ON p.id = t.pool_id
+  WHERE p.company_id = ? AND t.company_id = ? GROUP BY t.pool_id`;
+
+type Case = { name: string; path: string; params?: Record<string, string>; loader: (args: any) => unknown; bare: Array<[string, unknown[]]> };
+const c = company.id;
+const cases: Case[] = [
+  { name: "summary", path: "/api/analytics/summary", loader: summary.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
+  { name: "trend", path: "/api/analytics/trend", loader: trend.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "groups (fill source, iron)", path: "/api/analytics/groups?grouping=fill-source&metal=iron", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
+  { name: "groups (heater age, copper)", path: "/api/analytics/groups?grouping=heater-age&metal=copper", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
+  { name: "recurring", path: "/api/analytics/recurring", loader: recurring.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "recurring (readings)", path: "/api/analytics/recurring?include=readings", loader: recurring.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "alerts", path: "/api/analytics/alerts", loader: alerts.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "sources", path: "/api/analytics/sources", loader: sources.loader, bare: [[METAL_ROWS, [c, c]]] },
+  {
+    name: "outcomes (iron, combination)",
+    path: "/api/analytics/outcomes?metal=iron&arm=combination",
+    loader: outcomes.loader,
+    bare: [
+      ["SELECT tr.id, tr.pool_id, tr.product_id, tr.applied_at, tr.cost FROM treatments tr JOIN pools p ON p.id = tr.pool_id WHERE p.company_id = ? ORDER BY tr.pool_id, tr.applied_at", [c]],
+      ["SELECT t.id, t.pool_id, t.sampled_at, t.ph, t.copper, t.iron, t.manganese FROM water_tests t JOIN pools p ON p.id = t.pool_id WHERE p.company_id = ? AND t.pool_id IN (SELECT DISTINCT pool_id FROM treatments WHERE company_id = ?) ORDER BY t.pool_id, t.sampled_at", [c, c]],
+    ],
+  },
+  {
+    name: "pool series (iron)",
+    path: `/api/analytics/pools/${busiest.id}/series?analyte=iron`,
+    params: { poolId: String(busiest.id) },
+    loader: series.loader,
+    bare: [["SELECT id, sampled_at, iron, iron_below_detection FROM water_tests WHERE pool_id = ? AND iron IS NOT NULL ORDER BY sampled_at", [busiest.id]]],
+  },
+  {
+    name: "pool evidence",
+    path: `/api/analytics/pools/${busiest.id}/evidence`,
+    params: { poolId: String(busiest.id) },
+    loader: evidence.loader,
+    bare: [["SELECT * FROM water_tests WHERE pool_id = ? ORDER BY sampled_at", [busiest.id]]],
+  },
+];
+
+const median = (values: number[]) => {
+  const sorted = [...values].sort((a, b) => a - b);
+  const mid = Math.floor(sorted.length / 2);
+  return sorted.length % 2 ? sorted[mid]! : (sorted[mid - 1]! + sorted[mid]!) / 2;
+};
+
+async function timeIt(work: () => Promise<unknown>): Promise<number> {
+  const started = performance.now();
+  await work();
+  return performance.now() - started;
+}
+
+console.log(`route book: ${size.pools} pools, ${size.tests} water tests; median of ${runs} runs after one warm-up\n`);
+console.log(`${"endpoint".padEnd(32)} ${"endpoint ms".padStart(12)} ${"bare SQL ms".padStart(12)} ${"answer kB".padStart(10)}`);
+for (const test of cases) {
+  const call = async () => {
+    const response = (await test.loader({ request: new Request(`http://localhost:3000${test.path}`, { headers: { Cookie: cookie } }), params: test.params ?? {}, context: {} })) as Response;
+    if (!response.ok) throw new Error(`${test.name}: ${response.status} ${await response.text()}`);
+    return response.text();
+  };
+  const bare = async () => {
+    for (const [text, values] of test.bare) await pool().query(text, values);
+  };
+  const answer = await call();
+  await bare();
+  const endpointTimes: number[] = [];
+  const bareTimes: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    endpointTimes.push(await timeIt(call));
+    bareTimes.push(await timeIt(bare));
+  }
+  console.log(
+    `${test.name.padEnd(32)} ${median(endpointTimes).toFixed(0).padStart(12)} ${median(bareTimes).toFixed(0).padStart(12)} ${(answer.length / 1024).toFixed(0).padStart(10)}`,
+  );
+}
+await closeDatabase();
