@@ -167,6 +167,18 @@ describe("Kaplan-Meier", () => {
     expect(at(6)).toMatchObject({ atRisk: 21, events: 3, censored: 1 });
   });
 
+  it("puts the median's limits around the median, the lower one where the lower band reaches one half", () => {
+    const curve = kaplanMeier(placebo);
+    // Placebo arm: S falls to 0.5 at 8 weeks; the bands cross one half before and after it.
+    expect(curve.median).toBe(8);
+    expect(curve.medianLower).not.toBeNull();
+    expect(curve.medianUpper).not.toBeNull();
+    expect(curve.medianLower!).toBeLessThan(curve.median!);
+    expect(curve.medianUpper!).toBeGreaterThan(curve.median!);
+    const firstBelowHalf = (band: "lower" | "upper") => curve.steps.find((s) => s[band] <= 0.5)!.time;
+    expect([curve.medianLower, curve.medianUpper]).toEqual([firstBelowHalf("lower"), firstBelowHalf("upper")]);
+  });
+
   it("plain intervals are S +/- 1.96 SE; log-log intervals contain S inside [0, 1]", () => {
     const plain = kaplanMeier(sixMp, { interval: "plain" });
     const step = plain.steps.find((s) => s.time === 23)!;

@@ -79,8 +79,9 @@ export function kaplanMeier(
     observations: sorted.length,
     events: totalEvents,
     median: firstAtOrBelowHalf((s) => s.survival),
-    medianLower: firstAtOrBelowHalf((s) => s.upper),
-    medianUpper: firstAtOrBelowHalf((s) => s.lower),
+    // The lower band falls to one half first, so it gives the earlier limit.
+    medianLower: firstAtOrBelowHalf((s) => s.lower),
+    medianUpper: firstAtOrBelowHalf((s) => s.upper),
     interval,
     level,
   };

@@ -43,18 +43,6 @@ export type TreatmentOutcomes = {
   escalation: Array<{ poolId: number; street: string; coursesWithoutClearing: number; since: string }>;
 };
 
-/**
- * The 95% limits of the median time to clear (Brookmeyer and Crowley): the
- * first event time at which the lower band reaches one half, and the first at
- * which the upper band does; null when a band never gets there in the window.
- * Read from the curve's steps rather than the core's medianLower/medianUpper,
- * which come out in the opposite order.
- */
-function medianLimits(steps: ArmResult["timeToClear"]["steps"]) {
-  const first = (band: "lower" | "upper") => steps.find((s) => s.events > 0 && s[band] <= 0.5)?.time ?? null;
-  return { medianLower: first("lower"), medianUpper: first("upper") };
-}
-
 function figures(result: ArmResult): ArmFigures {
   const curve = [
     { day: 0, stillElevated: 1, lower: 1, upper: 1, atRisk: result.timeToClear.observations, cleared: 0, censored: 0 },
@@ -76,7 +64,8 @@ function figures(result: ArmResult): ArmFigures {
     timeToClear: {
       curve,
       medianDays: result.timeToClear.median,
-      ...medianLimits(result.timeToClear.steps),
+      medianLower: result.timeToClear.medianLower,
+      medianUpper: result.timeToClear.medianUpper,
       cleared: result.clearedCourses,
     },
     clearedPools: result.clearedPools,
