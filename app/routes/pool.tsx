@@ -3,10 +3,12 @@ import type { Metal } from "@analysis/metals/reading";
 import { METALS } from "@analysis/metals/reading";
 import { requireMember } from "~/.server/guard";
 import { companyPreferences } from "~/.server/queries/routebook-company";
+import { poolMetalPanel } from "~/.server/queries/analytics/pool-evidence";
 import { poolPage } from "~/.server/queries/routebook-pool-page";
 import { CautionNote } from "~/components/caution-note";
 import { BalanceHistoryChart, MetalHistoryChart, type MetalPoint } from "~/components/charts/metal-history-chart";
 import { ErrorPanel } from "~/components/error-panel";
+import { PoolMetalPanel } from "~/components/pool-metal-panel";
 import { equipmentAge } from "~/components/routebook/equipment-panel";
 import { todayIn } from "~/lib/dates";
 import { formatDate, formatDateTime, formatMgL } from "~/lib/format";
@@ -35,12 +37,17 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderD
 export async function loader({ request, params }: Route.LoaderArgs) {
   const scope = await requireMember(request, "pools");
   const poolId = idParam(params, "poolId", "pool");
-  const [detail, prefs] = await Promise.all([poolPage(scope, poolId), companyPreferences(scope)]);
+  const [detail, prefs, metalEvidence] = await Promise.all([
+    poolPage(scope, poolId),
+    companyPreferences(scope),
+    poolMetalPanel(scope, poolId),
+  ]);
   if (!detail) notFoundPage("No pool with that number is on your routes.");
   const saved = Number(new URL(request.url).searchParams.get("saved"));
   return {
     detail,
     prefs,
+    metalEvidence,
     today: todayIn(prefs.timeZone),
     justSaved: detail.tests.some((t) => t.id === saved),
     mayEdit: roleMayOpen(scope.role, "routebookEdit"),
@@ -68,7 +75,7 @@ function observationText(t: {
 }
 
 export default function PoolPage({ loaderData }: Route.ComponentProps) {
-  const { detail, prefs, today, justSaved, mayEdit, mayLogVisit } = loaderData;
+  const { detail, prefs, metalEvidence, today, justSaved, mayEdit, mayLogVisit } = loaderData;
   const { pool, tests, treatments } = detail;
   const { units, timeZone, thresholds, balanceBand } = prefs;
   const latest = tests[0];
@@ -238,6 +245,8 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
         <MetalHistoryChart points={metalPoints} thresholds={thresholds} />
         <BalanceHistoryChart points={balancePoints} band={balanceBand} />
       </section>
+
+      {metalEvidence ? <PoolMetalPanel evidence={metalEvidence} timeZone={prefs.timeZone} /> : null}
 
       <section aria-labelledby="tests">
         <h2 id="tests" className="mb-2 text-lg font-semibold">Water tests ({tests.length})</h2>

@@ -10,6 +10,7 @@ import * as seriesApi from "~/routes/api/analytics/pool-series";
 import * as sourcesApi from "~/routes/api/analytics/sources";
 import * as summaryApi from "~/routes/api/analytics/summary";
 import * as trendApi from "~/routes/api/analytics/trend";
+import * as poolPage from "~/routes/pool";
 import {
   addTest,
   createCompany,
@@ -480,6 +481,13 @@ describe("GET /api/analytics/pools/:poolId/evidence", () => {
     expect(later.evidence.map((e: Body) => e.kind)).toEqual(["iron-with-well-water"]);
     expect(earlier.evidence.map((e: Body) => e.kind).sort()).toEqual(["iron-with-well-water", "shared-source-alert"]);
     expect(earlier.evidence.find((e: Body) => e.kind === "shared-source-alert").reason).toContain("3 pools");
+  });
+
+  it("is shown on the pool page with the same episodes", async () => {
+    const { status, body } = await get(poolPage.loader, technician, `/pools/${P.P1}`, { poolId: String(P.P1) });
+    expect(status).toBe(200);
+    expect(body.metalEvidence.episodes).toHaveLength(2);
+    expect(body.metalEvidence.episodes[0].evidence.map((e: Body) => e.kind)).toEqual(["iron-with-well-water"]);
   });
 
   it("answers 404 for a technician's pool on another route", async () => {
