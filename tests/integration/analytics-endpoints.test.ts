@@ -457,7 +457,7 @@ describe("GET /api/analytics/outcomes", () => {
     expect(body.arms.map((a: Body) => [a.label, a.courses]).sort()).toEqual(
       [
         ["Seq A", 1],
-        ["Seq A + Pad B", 1],
+        ["Pad B + Seq A", 1],
       ].sort(),
     );
   });

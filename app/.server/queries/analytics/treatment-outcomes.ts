@@ -1,4 +1,4 @@
-import { and, asc, eq, inArray, isNotNull, or, sql } from "drizzle-orm";
+import { and, inArray, isNotNull, or, sql } from "drizzle-orm";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
 import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type OutcomeTest } from "@analysis/outcomes/treatments";
@@ -8,7 +8,7 @@ import { db } from "../../db/client";
 import { pools, products, treatments, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { treatmentRows } from "./rows";
+import { anyMetalMeasured, treatmentRows, waterTestReadings } from "../metal-readings";
 import type { AnalyticsWindow } from "./window";
 
 export type OutcomeParams = { window: AnalyticsWindow; thresholds: MetalThresholds; metal: Metal; arm: ArmDimension };
@@ -86,47 +86,22 @@ const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
  * to the end of the recurrence check. MariaDB keeps only those rows, using the
  * treatments' (pool, time) index, and only the metal and pH columns.
  */
-async function testsNearTreatments(scope: Scope, poolIds: readonly number[]): Promise<OutcomeTest[]> {
-  if (poolIds.length === 0) return [];
-  const rows = await db()
-    .select({
-      id: waterTests.id,
-      poolId: waterTests.poolId,
-      sampledAt: waterTests.sampledAt,
-      ph: waterTests.ph,
-      copper: waterTests.copper,
-      copperBelowDetection: waterTests.copperBelowDetection,
-      iron: waterTests.iron,
-      ironBelowDetection: waterTests.ironBelowDetection,
-      manganese: waterTests.manganese,
-      manganeseBelowDetection: waterTests.manganeseBelowDetection,
-    })
-    .from(waterTests)
-    .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(
-      and(
-        poolsInScope(scope),
-        eq(waterTests.companyId, scope.companyId),
-        inArray(waterTests.poolId, [...poolIds]),
-        or(isNotNull(waterTests.copper), isNotNull(waterTests.iron), isNotNull(waterTests.manganese), isNotNull(waterTests.ph)),
+function testsNearTreatments(scope: Scope, poolIds: readonly number[]): Promise<OutcomeTest[]> {
+  return waterTestReadings(
+    { scope },
+    {
+      poolIds,
+      with: { ph: true },
+      where: and(
+        or(anyMetalMeasured(), isNotNull(waterTests.ph)),
         sql`EXISTS (
           SELECT 1 FROM ${treatments} tr JOIN ${products} pr ON pr.id = tr.product_id
           WHERE tr.pool_id = ${waterTests.poolId}
             AND pr.category IN ('sequestrant', 'collector_pad', 'ph_decreaser')
             AND ${waterTests.sampledAt} BETWEEN tr.applied_at - INTERVAL ${LOOK_DAYS_BEFORE} DAY AND tr.applied_at + INTERVAL ${FOLLOW_DAYS_AFTER} DAY)`,
       ),
-    )
-    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
-  const reading = (value: number | null, below: boolean) => (value === null ? null : { value, belowDetection: below });
-  return rows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.poolId),
-    takenAt: r.sampledAt.getTime(),
-    ph: r.ph,
-    copper: reading(r.copper, r.copperBelowDetection),
-    iron: reading(r.iron, r.ironBelowDetection),
-    manganese: reading(r.manganese, r.manganeseBelowDetection),
-  }));
+    },
+  );
 }
 
 /**
@@ -135,7 +110,7 @@ async function testsNearTreatments(scope: Scope, poolIds: readonly number[]): Pr
  * clearing and cost per cleared pool, each also split by pH at treatment.
  */
 export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
-  const applied = await treatmentRows(scope, { window: params.window, categories: ["sequestrant", "collector_pad", "ph_decreaser"] });
+  const applied = await treatmentRows({ scope }, { window: params.window, categories: ["sequestrant", "collector_pad", "ph_decreaser"] });
   const courses = buildCourses(applied);
   const treatedPools = [...new Set(courses.map((c) => Number(c.poolId)))];
   const tests = await testsNearTreatments(scope, treatedPools);
@@ -143,11 +118,13 @@ export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Pr
   const summaries = summariseOutcomes(outcomes, params.arm);
 
   const productNames = new Map(applied.map((t) => [t.productId, t.productName]));
+  // Parts of a combination are named in alphabetical order, whatever their ids.
+  const joinNames = (names: string[]) => names.sort((a, b) => a.localeCompare(b)).join(" + ");
   const label = (arm: string) => {
     if (params.arm === "product") return productNames.get(arm) ?? arm;
     if (params.arm === "category") return CATEGORY_WORDS[arm] ?? arm;
-    if (params.arm === "combination") return arm.split(" + ").map((id) => productNames.get(id) ?? id).join(" + ");
-    return arm.split(" + ").map((c) => CATEGORY_WORDS[c] ?? c).join(" + ");
+    if (params.arm === "combination") return joinNames(arm.split(" + ").map((id) => productNames.get(id) ?? id));
+    return joinNames(arm.split(" + ").map((c) => CATEGORY_WORDS[c] ?? c));
   };
 
   const ineligible: Record<string, number> = {};
