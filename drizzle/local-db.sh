@@ -5,6 +5,7 @@
 #   bash drizzle/local-db.sh start    install if missing, initialise, start, create databases
 #   bash drizzle/local-db.sh stop     stop the project's server
 #   bash drizzle/local-db.sh status   say whether it answers
+#   bash drizzle/local-db.sh recreate NAME   drop and create an empty scratch database
 #
 # Environment: PATINA_DB_PORT (33061), PATINA_DB_DIR (<repo>/.data/mariadb),
 # PATINA_DB_NAMES (databases to create, default "patina patina_test").
@@ -128,6 +129,15 @@ case "${1:-start}" in
     create_databases
     ;;
   stop) stop_server ;;
+  recreate)
+    name=${2:-}
+    case "$name" in
+      patina_scratch_*) ;;
+      *) echo "recreate takes a scratch database name (patina_scratch_...)" >&2; exit 2 ;;
+    esac
+    client -e "DROP DATABASE IF EXISTS \`$name\`; CREATE DATABASE \`$name\` CHARACTER SET utf8mb4 COLLATE utf8mb4_unicode_ci;"
+    say "created an empty $name"
+    ;;
   status)
     if answers; then say "running on 127.0.0.1:$port"; else say "not running"; exit 1; fi
     ;;
