@@ -7,8 +7,8 @@ import { metalThresholdsFrom } from "../company-settings";
 import { db } from "../db/client";
 import { alertEvents, ALERT_KINDS, companies, fillSources, mailPreferences, memberships, pools, routes, user } from "../db/schema";
 import { serverEnv } from "../env";
+import { waterTestReadings } from "../queries/metal-readings";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
-import { metalTestsOfPools } from "./metal-rows";
 import { enqueueMail } from "./outbox";
 import type { RenderedMail } from "./templates";
 import { nudgeMailWorker } from "./worker";
@@ -165,7 +165,7 @@ async function poolAlerts(company: Company, poolId: number, now: number): Promis
   const labels = await poolLabels(company.id, [poolId]);
   const label = labels.get(poolId);
   if (!label) return [];
-  const tests = (await metalTestsOfPools(company.id, [poolId])).filter((t) => t.takenAt <= now);
+  const tests = (await waterTestReadings({ companyId: company.id }, { poolIds: [poolId] })).filter((t) => t.takenAt <= now);
   const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
   const valueAt = new Map<string, number>();
   for (const t of tests) {
@@ -191,7 +191,7 @@ async function sourceAlerts(company: Company, fillSourceId: number, now: number)
     .select({ n: count() })
     .from(pools)
     .where(and(eq(pools.companyId, company.id), eq(pools.fillSourceId, fillSourceId), eq(pools.active, true)));
-  const tests = (await metalTestsOfPools(company.id, onSource.map((p) => p.id))).filter((t) => t.takenAt <= now);
+  const tests = (await waterTestReadings({ companyId: company.id }, { poolIds: onSource.map((p) => p.id) })).filter((t) => t.takenAt <= now);
   const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
   const profiles: PoolProfile[] = onSource.map((p) => ({ poolId: String(p.id), fillSourceId: String(fillSourceId) }));
   const alerts = sharedSourceAlerts(history.episodes, profiles, {

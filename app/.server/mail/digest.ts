@@ -1,16 +1,18 @@
 import { TZDate } from "@date-fns/tz";
 import { format } from "date-fns";
-import { and, asc, eq, gte, inArray, lte } from "drizzle-orm";
+import { and, eq, inArray } from "drizzle-orm";
 import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/episodes";
-import type { Metal, MetalReading } from "@analysis/metals/reading";
-import type { FillSourceKind, PoolProfile, SanitiserSystem } from "@analysis/metals/route-book";
-import { buildCourses, courseOutcomes, type OutcomeTest, type ProductCategory } from "@analysis/outcomes/treatments";
+import type { Metal } from "@analysis/metals/reading";
+import type { PoolProfile } from "@analysis/metals/route-book";
+import { buildCourses, courseOutcomes } from "@analysis/outcomes/treatments";
 import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
 import { METALS } from "@analysis/metals/reading";
 import { metalThresholdsFrom } from "../company-settings";
 import { db } from "../db/client";
-import { companies, fillSources, mailOutbox, memberships, pools, products, routes, treatments, user, waterTests } from "../db/schema";
+import { companies, fillSources, mailOutbox, memberships, pools, routes, user } from "../db/schema";
 import { serverEnv } from "../env";
+import { SANITISER, SOURCE_KIND } from "../queries/analytics/rows";
+import { treatmentRows, waterTestReadings } from "../queries/metal-readings";
 import { digestMail, type WeeklyDigest } from "./digest-message";
 import { enqueueMail } from "./outbox";
 import { preferencesFor } from "./preferences";
@@ -27,23 +29,6 @@ const DIGEST_GROUPINGS: Array<{ key: GroupingKey; label: string }> = [
   { key: "surface", label: "Surface" },
   { key: "sanitiser", label: "Sanitiser" },
 ];
-
-const CATEGORY: Record<(typeof products.$inferSelect)["category"], ProductCategory> = {
-  sequestrant: "sequestrant",
-  collector_pad: "metal-collector-pad",
-  ph_decreaser: "ph-decreaser",
-  copper_algaecide: "copper-algaecide",
-  other_algaecide: "other-algaecide",
-  chlorine: "chlorine",
-  other: "other",
-};
-
-const SANITISER: Record<NonNullable<(typeof pools.$inferSelect)["sanitiser"]>, SanitiserSystem> = {
-  chlorine: "chlorine",
-  salt_generator: "salt-chlorine-generator",
-  mineral_assist: "mineral-ioniser-assist",
-  other: "other",
-};
 
 type CompanyPool = {
   id: number;
@@ -85,63 +70,15 @@ async function companyPools(companyId: number): Promise<Map<number, CompanyPool>
         profile: {
           poolId: String(r.id),
           fillSourceId: r.fillSourceId === null ? null : String(r.fillSourceId),
-          fillSourceKind: r.sourceKind ? (r.sourceKind.replace("_", "-") as FillSourceKind) : null,
+          fillSourceKind: r.sourceKind === null ? null : SOURCE_KIND[r.sourceKind],
           neighbourhood: r.neighbourhood,
           routeId: r.routeId === null ? null : String(r.routeId),
           surface: r.surface,
-          sanitiser: r.sanitiser ? SANITISER[r.sanitiser] : null,
+          sanitiser: r.sanitiser === null ? null : SANITISER[r.sanitiser],
         },
       },
     ]),
   );
-}
-
-function reading(value: number | null, belowDetection: boolean): MetalReading | null {
-  return value === null ? null : { value, belowDetection };
-}
-
-async function companyTests(companyId: number, until: Date): Promise<OutcomeTest[]> {
-  const rows = await db()
-    .select({
-      id: waterTests.id,
-      poolId: waterTests.poolId,
-      sampledAt: waterTests.sampledAt,
-      ph: waterTests.ph,
-      copper: waterTests.copper,
-      copperBelowDetection: waterTests.copperBelowDetection,
-      iron: waterTests.iron,
-      ironBelowDetection: waterTests.ironBelowDetection,
-      manganese: waterTests.manganese,
-      manganeseBelowDetection: waterTests.manganeseBelowDetection,
-    })
-    .from(waterTests)
-    .where(and(eq(waterTests.companyId, companyId), lte(waterTests.sampledAt, until)))
-    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
-  return rows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.poolId),
-    takenAt: r.sampledAt.getTime(),
-    ph: r.ph,
-    copper: reading(r.copper, r.copperBelowDetection),
-    iron: reading(r.iron, r.ironBelowDetection),
-    manganese: reading(r.manganese, r.manganeseBelowDetection),
-  }));
-}
-
-async function recentTreatments(companyId: number, from: Date, until: Date) {
-  return db()
-    .select({
-      id: treatments.id,
-      poolId: treatments.poolId,
-      productId: treatments.productId,
-      productName: products.name,
-      category: products.category,
-      appliedAt: treatments.appliedAt,
-      cost: treatments.cost,
-    })
-    .from(treatments)
-    .innerJoin(products, eq(products.id, treatments.productId))
-    .where(and(eq(treatments.companyId, companyId), gte(treatments.appliedAt, from), lte(treatments.appliedAt, until)));
 }
 
 function becameRecurring(episodes: readonly Episode[]): Array<{ episode: Episode; previous: Episode }> {
@@ -173,8 +110,8 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
   const weekStart = now.getTime() - WEEK_MS;
   const [book, tests, applied] = await Promise.all([
     companyPools(companyId),
-    companyTests(companyId, now),
-    recentTreatments(companyId, new Date(now.getTime() - 45 * DAY_MS), now),
+    waterTestReadings({ companyId }, { window: { from: null, to: now }, with: { ph: true } }),
+    treatmentRows({ companyId }, { window: { from: new Date(now.getTime() - 45 * DAY_MS), to: now } }),
   ]);
   const history = analyseMetalHistory(tests, { thresholds });
   const poolOf = (id: string) => book.get(Number(id));
@@ -215,16 +152,7 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
       })),
   );
 
-  const courses = buildCourses(
-    applied.map((t) => ({
-      id: String(t.id),
-      poolId: String(t.poolId),
-      productId: String(t.productId),
-      category: CATEGORY[t.category],
-      appliedAt: t.appliedAt.getTime(),
-      cost: t.cost,
-    })),
-  );
+  const courses = buildCourses(applied);
   const productName = new Map(applied.map((t) => [String(t.productId), t.productName]));
   const inWeek = (at: number | null | undefined) => typeof at === "number" && at >= weekStart && at <= now.getTime();
   const treatmentResults = METALS.flatMap((metal: Metal) =>

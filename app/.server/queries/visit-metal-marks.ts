@@ -1,10 +1,9 @@
-import { and, asc, eq, inArray, isNotNull, or } from "drizzle-orm";
-import { analyseMetalHistory, openSuspicions, type MetalTest } from "@analysis/metals/episodes";
+import { eq, or } from "drizzle-orm";
+import { analyseMetalHistory, openSuspicions } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
-import { db } from "../db/client";
-import { pools, waterTests } from "../db/schema";
+import { waterTests } from "../db/schema";
 import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
+import { anyMetalMeasured, waterTestReadings } from "./metal-readings";
 
 /** Why a technician should bring the metal test kit to a pool. */
 export type MetalMark = {
@@ -14,8 +13,6 @@ export type MetalMark = {
   openMetals: Metal[];
 };
 
-const reading = (value: number | null, belowDetection: boolean) => (value === null ? null : { value, belowDetection });
-
 /**
  * Metal marks for the listed pools (in the member's scope), keyed by pool id;
  * pools with nothing to bring the kit for are left out. Only tests carrying a
@@ -24,45 +21,10 @@ const reading = (value: number | null, belowDetection: boolean) => (value === nu
  */
 export async function metalMarks(scope: Scope, poolIds: readonly number[], thresholds: MetalThresholds): Promise<Record<number, MetalMark>> {
   if (poolIds.length === 0) return {};
-  const rows = await db()
-    .select({
-      id: waterTests.id,
-      poolId: waterTests.poolId,
-      sampledAt: waterTests.sampledAt,
-      copper: waterTests.copper,
-      copperBelowDetection: waterTests.copperBelowDetection,
-      iron: waterTests.iron,
-      ironBelowDetection: waterTests.ironBelowDetection,
-      manganese: waterTests.manganese,
-      manganeseBelowDetection: waterTests.manganeseBelowDetection,
-      hardnessEndpoint: waterTests.hardnessEndpoint,
-    })
-    .from(waterTests)
-    .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(
-      and(
-        poolsInScope(scope),
-        eq(waterTests.companyId, scope.companyId),
-        inArray(waterTests.poolId, [...poolIds]),
-        or(
-          isNotNull(waterTests.copper),
-          isNotNull(waterTests.iron),
-          isNotNull(waterTests.manganese),
-          eq(waterTests.hardnessEndpoint, "blurred"),
-        ),
-      ),
-    )
-    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
-
-  const tests: MetalTest[] = rows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.poolId),
-    takenAt: r.sampledAt.getTime(),
-    copper: reading(r.copper, r.copperBelowDetection),
-    iron: reading(r.iron, r.ironBelowDetection),
-    manganese: reading(r.manganese, r.manganeseBelowDetection),
-    hardnessEndpoint: r.hardnessEndpoint,
-  }));
+  const tests = await waterTestReadings(
+    { scope },
+    { poolIds, with: { hardnessEndpoint: true }, where: or(anyMetalMeasured(), eq(waterTests.hardnessEndpoint, "blurred")) },
+  );
   const history = analyseMetalHistory(tests, { thresholds });
 
   const marks: Record<number, MetalMark> = {};

@@ -1,7 +1,8 @@
 import { analyseMetalHistory, type MetalHistory, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import type { Scope } from "../../guard";
-import { metalReadings, observedSpans, poolProfiles, type ObservedSpan, type RouteBookProfiles } from "./rows";
+import { metalReadings } from "../metal-readings";
+import { observedSpans, poolProfiles, type ObservedSpan, type RouteBookProfiles } from "./rows";
 import type { AnalyticsParams } from "./window";
 
 /**
@@ -21,7 +22,7 @@ export type MetalDataset = {
 export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): Promise<MetalDataset> {
   const metals = params.metal ? [params.metal] : METALS;
   const [readings, book, spans] = await Promise.all([
-    metalReadings(scope, { window: params.window, metals }),
+    metalReadings({ scope }, { window: params.window, metals }),
     poolProfiles(scope),
     observedSpans(scope, params.window),
   ]);

@@ -5,7 +5,8 @@ import type { SharedSourceAlert } from "@analysis/metals/shared-source";
 import { episodeJson, isoInstant, type EpisodeJson } from "~/lib/analytics/json";
 import type { Scope } from "../../guard";
 import { poolBalance, poolInScope } from "./pool-series";
-import { dayToMs, metalReadings, poolProfiles, sourceTestRows, treatmentRows } from "./rows";
+import { metalReadings, treatmentRows } from "../metal-readings";
+import { dayToMs, poolProfiles, sourceTestRows } from "./rows";
 import { sharedSourceAlertList } from "./shared-source-alerts";
 import { companyAnalyticsSettings, type AnalyticsParams } from "./window";
 import { formatDate } from "~/lib/format";
@@ -33,10 +34,10 @@ export async function poolEvidence(
 ): Promise<PoolEvidence | null> {
   if (!(await poolInScope(scope, poolId))) return null;
   const [readings, book, treated, balance] = await Promise.all([
-    metalReadings(scope, { window: params.window, poolIds: [poolId] }),
+    metalReadings({ scope }, { window: params.window, poolIds: [poolId] }),
     poolProfiles(scope, { poolIds: [poolId] }),
     // Algaecide evidence looks back before the window's first episode.
-    treatmentRows(scope, { window: { from: null, to: params.window.to }, poolIds: [poolId] }),
+    treatmentRows({ scope }, { window: { from: null, to: params.window.to }, poolIds: [poolId] }),
     poolBalance(scope.companyId, poolId, { from: null, to: params.window.to }),
   ]);
   const pool = book.profiles[0]!;

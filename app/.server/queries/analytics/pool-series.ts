@@ -8,7 +8,7 @@ import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { metalReadings, treatmentRows } from "./rows";
+import { metalReadings, treatmentRows } from "../metal-readings";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
 
 export const ANALYTE_UNITS: Record<SeriesAnalyte, string> = {
@@ -94,7 +94,7 @@ export async function poolSeries(scope: Scope, poolId: number, analyte: SeriesAn
   if (!(await poolInScope(scope, poolId))) return null;
   let points: SeriesPoint[];
   if (isMetal(analyte)) {
-    const readings = await metalReadings(scope, { window: params.window, metals: [analyte], poolIds: [poolId] });
+    const readings = await metalReadings({ scope }, { window: params.window, metals: [analyte], poolIds: [poolId] });
     points = readings.map((r) => ({ at: new Date(r.takenAt).toISOString(), value: r[analyte]!.value, belowDetection: r[analyte]!.belowDetection }));
   } else if (analyte === "saturationIndex") {
     points = (await poolBalance(scope.companyId, poolId, params.window)).map((p) => ({
@@ -113,8 +113,8 @@ export async function poolSeries(scope: Scope, poolId: number, analyte: SeriesAn
   }
   const metals = isMetal(analyte) ? [analyte] : METALS;
   const [readings, treated] = await Promise.all([
-    isMetal(analyte) ? Promise.resolve(null) : metalReadings(scope, { window: params.window, poolIds: [poolId] }),
-    treatmentRows(scope, { window: params.window, poolIds: [poolId] }),
+    isMetal(analyte) ? Promise.resolve(null) : metalReadings({ scope }, { window: params.window, poolIds: [poolId] }),
+    treatmentRows({ scope }, { window: params.window, poolIds: [poolId] }),
   ]);
   const metalTests = readings ?? points.map((p, i) => ({ id: String(i), poolId: String(poolId), takenAt: Date.parse(p.at), [analyte]: { value: p.value, belowDetection: p.belowDetection } }));
   const history = analyseMetalHistory(metalTests, { thresholds: params.thresholds, metals });

@@ -6,7 +6,8 @@ import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
 import { compactReading, findRecurring, type CompactReading, type RecurringFindings } from "~/lib/analytics/recurring";
-import { metalReadings, poolProfiles, treatmentRows } from "./rows";
+import { metalReadings, treatmentRows } from "../metal-readings";
+import { poolProfiles } from "./rows";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
 
 export type RecurringParams = AnalyticsParams & { recurrenceWindowDays?: number; chronicAfterDays?: number };
@@ -47,7 +48,7 @@ export async function recurringPools(scope: Scope, params: RecurringParams): Pro
   const metals = params.metal ? [params.metal] : METALS;
   const candidates = await poolsReaching(scope, params.window, metals, (metal) => params.thresholds[metal].elevated);
   const [readings, book] = await Promise.all([
-    metalReadings(scope, { window: params.window, metals, poolIds: candidates }),
+    metalReadings({ scope }, { window: params.window, metals, poolIds: candidates }),
     poolProfiles(scope, { poolIds: candidates }),
   ]);
   return findRecurring(readings, book.labels, { thresholds: params.thresholds, metals, ...rulesOf(params) });
@@ -77,9 +78,9 @@ export async function recurringReadings(scope: Scope, params: RecurringParams): 
   const lowestElevated = Object.fromEntries(METALS.map((m) => [m, params.thresholds[m].elevated])) as Record<Metal, number>;
   const candidates = await poolsReaching(scope, params.window, metals, (metal) => lowestElevated[metal]);
   const [readings, book, treated] = await Promise.all([
-    metalReadings(scope, { window: params.window, metals, poolIds: candidates }),
+    metalReadings({ scope }, { window: params.window, metals, poolIds: candidates }),
     poolProfiles(scope, { poolIds: candidates }),
-    treatmentRows(scope, { window: params.window, poolIds: candidates }),
+    treatmentRows({ scope }, { window: params.window, poolIds: candidates }),
   ]);
   return {
     thresholds: params.thresholds,

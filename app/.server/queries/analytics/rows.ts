@@ -1,6 +1,5 @@
-import { and, asc, count, eq, gte, inArray, isNotNull, lte, max, min, or, type SQL } from "drizzle-orm";
-import type { MetalTest } from "@analysis/metals/episodes";
-import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
+import { and, asc, count, eq, inArray, max, min } from "drizzle-orm";
+import type { MetalReading } from "@analysis/metals/reading";
 import type {
   Equipment,
   EquipmentKind,
@@ -9,35 +8,22 @@ import type {
   PoolProfile,
   SanitiserSystem,
 } from "@analysis/metals/route-book";
-import type { ProductCategory, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { db } from "../../db/client";
-import {
-  EQUIPMENT_KINDS,
-  equipment,
-  fillSources,
-  PRODUCT_CATEGORIES,
-  pools,
-  products,
-  routes,
-  SANITISERS,
-  SOURCE_KINDS,
-  sourceTests,
-  treatments,
-  waterTests,
-} from "../../db/schema";
+import { EQUIPMENT_KINDS, equipment, fillSources, pools, routes, SANITISERS, SOURCE_KINDS, sourceTests, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
+import { metalReading, withinWindow } from "../metal-readings";
 import { poolsInScope } from "../scope";
 import type { AnalyticsWindow } from "./window";
 
 // The stored enum values and the analysis core's names differ in spelling only.
-const SOURCE_KIND: Record<(typeof SOURCE_KINDS)[number], FillSourceKind> = {
+export const SOURCE_KIND: Record<(typeof SOURCE_KINDS)[number], FillSourceKind> = {
   municipal: "municipal",
   private_well: "private-well",
   shared_well: "shared-well",
   trucked: "trucked",
   other: "other",
 };
-const SANITISER: Record<(typeof SANITISERS)[number], SanitiserSystem> = {
+export const SANITISER: Record<(typeof SANITISERS)[number], SanitiserSystem> = {
   chlorine: "chlorine",
   salt_generator: "salt-chlorine-generator",
   mineral_assist: "mineral-ioniser-assist",
@@ -52,15 +38,6 @@ const EQUIPMENT_KIND: Record<(typeof EQUIPMENT_KINDS)[number], EquipmentKind> = 
   ioniser: "ioniser",
   other: "other",
 };
-export const PRODUCT_CATEGORY: Record<(typeof PRODUCT_CATEGORIES)[number], ProductCategory> = {
-  sequestrant: "sequestrant",
-  collector_pad: "metal-collector-pad",
-  ph_decreaser: "ph-decreaser",
-  copper_algaecide: "copper-algaecide",
-  other_algaecide: "other-algaecide",
-  chlorine: "chlorine",
-  other: "other",
-};
 
 function exchangerMetal(stored: string | null): ExchangerMetal | null {
   if (stored === null) return null;
@@ -70,67 +47,6 @@ function exchangerMetal(stored: string | null): ExchangerMetal | null {
 /** A stored calendar date ("YYYY-MM-DD") as the epoch milliseconds of its UTC midnight. */
 export function dayToMs(day: string | null): number | null {
   return day ? Date.parse(`${day}T00:00:00Z`) : null;
-}
-
-function windowConditions(column: typeof waterTests.sampledAt | typeof treatments.appliedAt, window: AnalyticsWindow): SQL[] {
-  const conditions: SQL[] = [];
-  if (window.from) conditions.push(gte(column, window.from));
-  if (window.to) conditions.push(lte(column, window.to));
-  return conditions;
-}
-
-const reading = (value: number | null, belowDetection: boolean): MetalReading | null =>
-  value === null ? null : { value: Number(value), belowDetection };
-
-export type MetalReadingQuery = {
-  window: AnalyticsWindow;
-  /** Only these metals are read; rows without any of them are skipped. Default: all three. */
-  metals?: readonly Metal[];
-  poolIds?: readonly number[];
-};
-
-/**
- * Metal readings of the pools in scope, ordered by pool and time, as the
- * episode analysis reads them. Only tests where a metal was measured, and
- * only the columns the metal history needs.
- */
-export async function metalReadings(scope: Scope, query: MetalReadingQuery): Promise<MetalTest[]> {
-  const metals = query.metals ?? METALS;
-  if (query.poolIds && query.poolIds.length === 0) return [];
-  const measured = or(...metals.map((metal) => isNotNull(waterTests[metal])))!;
-  const rows = await db()
-    .select({
-      id: waterTests.id,
-      poolId: waterTests.poolId,
-      sampledAt: waterTests.sampledAt,
-      copper: waterTests.copper,
-      copperBelowDetection: waterTests.copperBelowDetection,
-      iron: waterTests.iron,
-      ironBelowDetection: waterTests.ironBelowDetection,
-      manganese: waterTests.manganese,
-      manganeseBelowDetection: waterTests.manganeseBelowDetection,
-    })
-    .from(waterTests)
-    .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(
-      and(
-        poolsInScope(scope),
-        eq(waterTests.companyId, scope.companyId),
-        measured,
-        ...windowConditions(waterTests.sampledAt, query.window),
-        query.poolIds ? inArray(waterTests.poolId, [...query.poolIds]) : undefined,
-      ),
-    )
-    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
-  const wanted = new Set(metals);
-  return rows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.poolId),
-    takenAt: r.sampledAt.getTime(),
-    copper: wanted.has("copper") ? reading(r.copper, r.copperBelowDetection) : null,
-    iron: wanted.has("iron") ? reading(r.iron, r.ironBelowDetection) : null,
-    manganese: wanted.has("manganese") ? reading(r.manganese, r.manganeseBelowDetection) : null,
-  }));
 }
 
 export type PoolLabel = {
@@ -253,57 +169,11 @@ export async function observedSpans(scope: Scope, window: AnalyticsWindow): Prom
     })
     .from(waterTests)
     .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), ...windowConditions(waterTests.sampledAt, window)))
+    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), ...withinWindow(waterTests.sampledAt, window)))
     .groupBy(waterTests.poolId);
   return rows
     .filter((r) => r.firstAt !== null && r.lastAt !== null)
     .map((r) => ({ poolId: String(r.poolId), firstAt: r.firstAt!.getTime(), lastAt: r.lastAt!.getTime(), tests: r.tests }));
-}
-
-export type TreatmentRow = TreatmentRecord & { productName: string; amount: number; unit: string };
-
-/** Treatments of the pools in scope with their product and category, oldest first. */
-export async function treatmentRows(
-  scope: Scope,
-  query: { window: AnalyticsWindow; poolIds?: readonly number[]; categories?: readonly (typeof PRODUCT_CATEGORIES)[number][] },
-): Promise<TreatmentRow[]> {
-  if (query.poolIds && query.poolIds.length === 0) return [];
-  const rows = await db()
-    .select({
-      id: treatments.id,
-      poolId: treatments.poolId,
-      productId: treatments.productId,
-      productName: products.name,
-      category: products.category,
-      appliedAt: treatments.appliedAt,
-      cost: treatments.cost,
-      amount: treatments.amount,
-      unit: treatments.unit,
-    })
-    .from(treatments)
-    .innerJoin(pools, eq(pools.id, treatments.poolId))
-    .innerJoin(products, eq(products.id, treatments.productId))
-    .where(
-      and(
-        poolsInScope(scope),
-        eq(treatments.companyId, scope.companyId),
-        ...windowConditions(treatments.appliedAt, query.window),
-        query.poolIds ? inArray(treatments.poolId, [...query.poolIds]) : undefined,
-        query.categories ? inArray(products.category, [...query.categories]) : undefined,
-      ),
-    )
-    .orderBy(asc(treatments.poolId), asc(treatments.appliedAt));
-  return rows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.poolId),
-    productId: String(r.productId),
-    productName: r.productName,
-    category: PRODUCT_CATEGORY[r.category],
-    appliedAt: r.appliedAt.getTime(),
-    cost: r.cost,
-    amount: r.amount,
-    unit: r.unit,
-  }));
 }
 
 export type SourceTestRow = {
@@ -327,8 +197,8 @@ export async function sourceTestRows(companyId: number, sourceIds?: readonly num
     id: r.id,
     fillSourceId: r.fillSourceId,
     sampledOn: r.sampledOn,
-    copper: reading(r.copper, r.copperBelowDetection),
-    iron: reading(r.iron, r.ironBelowDetection),
-    manganese: reading(r.manganese, r.manganeseBelowDetection),
+    copper: metalReading(r.copper, r.copperBelowDetection),
+    iron: metalReading(r.iron, r.ironBelowDetection),
+    manganese: metalReading(r.manganese, r.manganeseBelowDetection),
   }));
 }

@@ -7,7 +7,8 @@ import { db } from "../../db/client";
 import { fillSources, pools } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { metalReadings, poolProfiles } from "./rows";
+import { metalReadings } from "../metal-readings";
+import { poolProfiles } from "./rows";
 import type { AnalyticsParams } from "./window";
 
 export type SourceAlert = {
@@ -72,7 +73,7 @@ export async function sharedSourceAlertList(
   const poolIds = sourcePools.map((p) => p.id);
   const metals = params.metal ? [params.metal] : METALS;
   const [readings, book, visible] = await Promise.all([
-    metalReadings(companyScope, { window: params.window, metals, poolIds }),
+    metalReadings({ scope: companyScope }, { window: params.window, metals, poolIds }),
     poolProfiles(companyScope, { poolIds }),
     db().select({ id: pools.id, street: pools.street }).from(pools).where(and(poolsInScope(scope), inArray(pools.id, poolIds))),
   ]);

@@ -1,0 +1,165 @@
+import { and, asc, eq, gte, inArray, isNotNull, lte, or, sql, type SQL } from "drizzle-orm";
+import type { HardnessEndpoint, MetalTest } from "@analysis/metals/episodes";
+import type { OutcomeTest, ProductCategory, TreatmentRecord } from "@analysis/outcomes/treatments";
+import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
+import { db } from "../db/client";
+import { PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
+import type { Scope } from "../guard";
+import { poolsInScope } from "./scope";
+
+/**
+ * Whose rows are read: a member's Scope (company and, for technicians, their
+ * routes' pools), or a whole company for mail sent outside any request.
+ */
+export type Tenant = { scope: Scope } | { companyId: number };
+
+/** Instants bounding the rows read; null = open-ended. */
+export type TimeWindow = { from: Date | null; to: Date | null };
+
+export const PRODUCT_CATEGORY: Record<(typeof PRODUCT_CATEGORIES)[number], ProductCategory> = {
+  sequestrant: "sequestrant",
+  collector_pad: "metal-collector-pad",
+  ph_decreaser: "ph-decreaser",
+  copper_algaecide: "copper-algaecide",
+  other_algaecide: "other-algaecide",
+  chlorine: "chlorine",
+  other: "other",
+};
+
+/** A stored value and its below-detection flag as the analysis core reads it. */
+export function metalReading(value: number | null, belowDetection: boolean): MetalReading | null {
+  return value === null ? null : { value: Number(value), belowDetection };
+}
+
+/** Tests with at least one of these metals measured. */
+export function anyMetalMeasured(metals: readonly Metal[] = METALS): SQL {
+  return or(...metals.map((metal) => isNotNull(waterTests[metal])))!;
+}
+
+export function withinWindow(column: typeof waterTests.sampledAt | typeof treatments.appliedAt, window: TimeWindow | undefined): SQL[] {
+  const conditions: SQL[] = [];
+  if (window?.from) conditions.push(gte(column, window.from));
+  if (window?.to) conditions.push(lte(column, window.to));
+  return conditions;
+}
+
+/** The company condition, and with a Scope the pool condition too (the caller joins pools). */
+function tenantCondition(tenant: Tenant, companyColumn: typeof waterTests.companyId | typeof treatments.companyId): SQL {
+  return "scope" in tenant
+    ? and(poolsInScope(tenant.scope), eq(companyColumn, tenant.scope.companyId))!
+    : eq(companyColumn, tenant.companyId);
+}
+
+export type WaterTestQuery = {
+  poolIds?: readonly number[];
+  window?: TimeWindow;
+  /** Metals read into each test; the others stay null. Default: all three. */
+  metals?: readonly Metal[];
+  /** Further conditions on the tests (e.g. only those where a metal was measured). */
+  where?: SQL;
+  /** Also read the pH (treatment outcomes) or the hardness endpoint (suspected metals). */
+  with?: { ph?: boolean; hardnessEndpoint?: boolean };
+};
+
+/**
+ * Water tests as the analysis core reads them (metal readings, and pH or the
+ * hardness endpoint when asked), ordered by pool and time: the order
+ * analyseMetalHistory uses as is.
+ */
+export async function waterTestReadings(tenant: Tenant, query: WaterTestQuery = {}): Promise<OutcomeTest[]> {
+  if (query.poolIds && query.poolIds.length === 0) return [];
+  // Columns not asked for are read as NULL, so each query carries only what its analysis needs.
+  const select = db()
+    .select({
+      id: waterTests.id,
+      poolId: waterTests.poolId,
+      sampledAt: waterTests.sampledAt,
+      copper: waterTests.copper,
+      copperBelowDetection: waterTests.copperBelowDetection,
+      iron: waterTests.iron,
+      ironBelowDetection: waterTests.ironBelowDetection,
+      manganese: waterTests.manganese,
+      manganeseBelowDetection: waterTests.manganeseBelowDetection,
+      ph: query.with?.ph ? waterTests.ph : sql<number | null>`NULL`,
+      hardnessEndpoint: query.with?.hardnessEndpoint ? waterTests.hardnessEndpoint : sql<HardnessEndpoint | null>`NULL`,
+    })
+    .from(waterTests)
+    .$dynamic();
+  const rows = await ("scope" in tenant ? select.innerJoin(pools, eq(pools.id, waterTests.poolId)) : select)
+    .where(
+      and(
+        tenantCondition(tenant, waterTests.companyId),
+        query.poolIds ? inArray(waterTests.poolId, [...query.poolIds]) : undefined,
+        ...withinWindow(waterTests.sampledAt, query.window),
+        query.where,
+      ),
+    )
+    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt));
+  const wanted = new Set(query.metals ?? METALS);
+  return rows.map((r) => ({
+    id: String(r.id),
+    poolId: String(r.poolId),
+    takenAt: r.sampledAt.getTime(),
+    ...(query.with?.ph ? { ph: r.ph } : {}),
+    copper: wanted.has("copper") ? metalReading(r.copper, r.copperBelowDetection) : null,
+    iron: wanted.has("iron") ? metalReading(r.iron, r.ironBelowDetection) : null,
+    manganese: wanted.has("manganese") ? metalReading(r.manganese, r.manganeseBelowDetection) : null,
+    ...(query.with?.hardnessEndpoint ? { hardnessEndpoint: r.hardnessEndpoint } : {}),
+  }));
+}
+
+/**
+ * Metal readings, ordered by pool and time, as the episode analysis reads
+ * them: only tests where one of the metals asked for was measured, and only
+ * the columns the metal history needs.
+ */
+export function metalReadings(tenant: Tenant, query: Omit<WaterTestQuery, "where" | "with"> = {}): Promise<MetalTest[]> {
+  return waterTestReadings(tenant, { ...query, where: anyMetalMeasured(query.metals) });
+}
+
+export type TreatmentRow = TreatmentRecord & { productName: string; amount: number; unit: string };
+
+/** Treatments with their product and category, ordered by pool and time. */
+export async function treatmentRows(
+  tenant: Tenant,
+  query: { window?: TimeWindow; poolIds?: readonly number[]; categories?: readonly (typeof PRODUCT_CATEGORIES)[number][] } = {},
+): Promise<TreatmentRow[]> {
+  if (query.poolIds && query.poolIds.length === 0) return [];
+  const select = db()
+    .select({
+      id: treatments.id,
+      poolId: treatments.poolId,
+      productId: treatments.productId,
+      productName: products.name,
+      category: products.category,
+      appliedAt: treatments.appliedAt,
+      cost: treatments.cost,
+      amount: treatments.amount,
+      unit: treatments.unit,
+    })
+    .from(treatments)
+    .$dynamic();
+  const rows = await ("scope" in tenant ? select.innerJoin(pools, eq(pools.id, treatments.poolId)) : select)
+    .innerJoin(products, eq(products.id, treatments.productId))
+    .where(
+      and(
+        tenantCondition(tenant, treatments.companyId),
+        ...withinWindow(treatments.appliedAt, query.window),
+        query.poolIds ? inArray(treatments.poolId, [...query.poolIds]) : undefined,
+        query.categories ? inArray(products.category, [...query.categories]) : undefined,
+      ),
+    )
+    // Treatments given together keep the order they were recorded in (a course's combination is named in that order).
+    .orderBy(asc(treatments.poolId), asc(treatments.appliedAt), asc(treatments.id));
+  return rows.map((r) => ({
+    id: String(r.id),
+    poolId: String(r.poolId),
+    productId: String(r.productId),
+    productName: r.productName,
+    category: PRODUCT_CATEGORY[r.category],
+    appliedAt: r.appliedAt.getTime(),
+    cost: r.cost,
+    amount: r.amount,
+    unit: r.unit,
+  }));
+}
