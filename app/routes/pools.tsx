@@ -1,12 +1,12 @@
-import { Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { companyPreferences } from "~/.server/queries/routebook-company";
 import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/queries/routebook-pools";
 import { routeOptions } from "~/.server/queries/routebook-routes";
 import { sourceOptions } from "~/.server/queries/routebook-sources";
-import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
+import { countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { filterOptions } from "~/lib/archived";
 import { formatDate } from "~/lib/format";
 import { SURFACES } from "~/lib/forms/routebook";
@@ -46,11 +46,7 @@ export default function Pools({ loaderData }: Route.ComponentProps) {
       key: "street",
       label: "Pool",
       sortKey: "street",
-      cell: (r) => (
-        <Link to={`/pools/${r.id}`} className="font-medium text-verdigris-700 underline">
-          {r.street}
-        </Link>
-      ),
+      cell: (r) => <NameCell to={`/pools/${r.id}`}>{r.street}</NameCell>,
     },
     { key: "account", label: "Account", sortKey: "account", wide: true, cell: (r) => r.accountCode },
     { key: "customer", label: "Customer", sortKey: "customer", cell: (r) => r.customerName },
@@ -64,7 +60,7 @@ export default function Pools({ loaderData }: Route.ComponentProps) {
   return (
     <div>
       <PageHeader title="Pools" action={mayEdit ? <ButtonLink to="/pools/new">Add a pool</ButtonLink> : null}>
-        {total} {total === 1 ? "pool" : "pools"}
+        {countOf(total, "pool", "pools")}
       </PageHeader>
       <ListFilters searchLabel="Search address, customer or account">
         <FilterSelect name="route" label="Route" allLabel="All routes" options={filterOptions(routes)} />
@@ -80,17 +76,7 @@ export default function Pools({ loaderData }: Route.ComponentProps) {
           ]}
         />
       </ListFilters>
-      <DataTable
-        caption="Pools"
-        columns={columns}
-        rows={rows}
-        rowKey={(r) => r.id}
-        total={total}
-        sort={params.sort}
-        dir={params.dir}
-        page={params.page}
-        empty={params.q ? `No pool matches "${params.q}".` : "No pools here yet."}
-      />
+      <ListTable caption="Pools" columns={columns} rows={rows} total={total} params={params} noun="pool" emptyText="No pools here yet." />
     </div>
   );
 }

@@ -1,9 +1,10 @@
-import { Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { listProducts, PRODUCT_SORTS } from "~/.server/queries/routebook-products";
-import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
+import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
+import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
 import { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
 import { DOSE_BASIS_LABELS, labelOf, PRODUCT_CATEGORY_LABELS } from "~/lib/labels";
 import { enumFilter, listParams } from "~/lib/list-params";
@@ -16,10 +17,10 @@ export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "routebook");
   const url = new URL(request.url);
   const params = listParams(url, PRODUCT_SORTS, "name");
-  const status = enumFilter(url, "status", ["active", "archived", "all"] as const) ?? "active";
+  const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";
   const list = await listProducts(scope, params, {
     category: enumFilter(url, "category", PRODUCT_CATEGORIES),
-    active: status === "all" ? null : status === "active",
+    active: activeWanted(status),
   });
   return { ...list, params, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
@@ -33,14 +34,7 @@ export default function Products({ loaderData }: Route.ComponentProps) {
       key: "name",
       label: "Product",
       sortKey: "name",
-      cell: (r) =>
-        mayEdit ? (
-          <Link to={`/products/${r.id}/edit`} className="font-medium text-verdigris-700 underline">
-            {r.name}
-          </Link>
-        ) : (
-          <span className="font-medium">{r.name}</span>
-        ),
+      cell: (r) => <NameCell to={mayEdit ? `/products/${r.id}/edit` : null}>{r.name}</NameCell>,
     },
     { key: "category", label: "Category", sortKey: "category", cell: (r) => labelOf(PRODUCT_CATEGORY_LABELS, r.category) },
     {
@@ -57,36 +51,18 @@ export default function Products({ loaderData }: Route.ComponentProps) {
       numeric: true,
       cell: (r) => (r.unitCost === null ? "—" : `${r.unitCost.toFixed(2)} per ${r.doseUnit ?? "unit"}`),
     },
-    { key: "active", label: "Status", wide: true, cell: (r) => (r.active ? "In use" : "Archived") },
+    archiveColumn(),
   ];
   return (
     <div>
       <PageHeader title="Products" action={mayEdit ? <ButtonLink to="/products/new">Add a product</ButtonLink> : null}>
-        {total} {total === 1 ? "product" : "products"}
+        {countOf(total, "product", "products")}
       </PageHeader>
       <ListFilters searchLabel="Search product names">
         <FilterSelect name="category" label="Category" allLabel="All categories" options={options(PRODUCT_CATEGORY_LABELS)} />
-        <FilterSelect
-          name="status"
-          label="Status"
-          options={[
-            { value: "active", label: "In use" },
-            { value: "archived", label: "Archived" },
-            { value: "all", label: "All" },
-          ]}
-        />
+        <ArchiveStatusFilter />
       </ListFilters>
-      <DataTable
-        caption="Products"
-        columns={columns}
-        rows={rows}
-        rowKey={(r) => r.id}
-        total={total}
-        sort={params.sort}
-        dir={params.dir}
-        page={params.page}
-        empty={params.q ? `No product matches "${params.q}".` : "No products here yet."}
-      />
+      <ListTable caption="Products" columns={columns} rows={rows} total={total} params={params} noun="product" emptyText="No products here yet." />
     </div>
   );
 }

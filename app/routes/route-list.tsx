@@ -1,10 +1,11 @@
 import { Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { listRoutes, ROUTE_SORTS } from "~/.server/queries/routebook-routes";
-import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { ButtonLink, type Column, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
+import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { weekdayList } from "~/lib/weekdays";
-import { activeWanted, ARCHIVE_STATUS_OPTIONS, ARCHIVE_STATUSES } from "~/lib/archived";
+import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
 import { enumFilter, listParams } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/route-list";
@@ -29,14 +30,7 @@ export default function Routes({ loaderData }: Route.ComponentProps) {
       key: "name",
       label: "Route",
       sortKey: "name",
-      cell: (r) =>
-        mayEdit ? (
-          <Link to={`/routes/${r.id}/edit`} className="font-medium text-verdigris-700 underline">
-            {r.name}
-          </Link>
-        ) : (
-          <span className="font-medium">{r.name}</span>
-        ),
+      cell: (r) => <NameCell to={mayEdit ? `/routes/${r.id}/edit` : null}>{r.name}</NameCell>,
     },
     { key: "weekdays", label: "Service days", sortKey: "weekdays", cell: (r) => weekdayList(r.serviceWeekdays) },
     { key: "technicians", label: "Technicians", cell: (r) => r.technicians ?? "nobody yet" },
@@ -51,27 +45,17 @@ export default function Routes({ loaderData }: Route.ComponentProps) {
         </Link>
       ),
     },
-    { key: "active", label: "Status", wide: true, cell: (r) => (r.active ? "In use" : "Archived") },
+    archiveColumn(),
   ];
   return (
     <div>
       <PageHeader title="Routes" action={mayEdit ? <ButtonLink to="/routes/new">Add a route</ButtonLink> : null}>
-        {total} {total === 1 ? "route" : "routes"}
+        {countOf(total, "route", "routes")}
       </PageHeader>
       <ListFilters searchLabel="Search route names">
-        <FilterSelect name="status" label="Status" options={ARCHIVE_STATUS_OPTIONS} />
+        <ArchiveStatusFilter />
       </ListFilters>
-      <DataTable
-        caption="Routes"
-        columns={columns}
-        rows={rows}
-        rowKey={(r) => r.id}
-        total={total}
-        sort={params.sort}
-        dir={params.dir}
-        page={params.page}
-        empty={params.q ? `No route matches "${params.q}".` : "No routes here yet."}
-      />
+      <ListTable caption="Routes" columns={columns} rows={rows} total={total} params={params} noun="route" emptyText="No routes here yet." />
     </div>
   );
 }

@@ -1,12 +1,12 @@
-import { Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { listSources, SOURCE_SORTS } from "~/.server/queries/routebook-sources";
-import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
+import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { labelOf, SOURCE_KIND_LABELS } from "~/lib/labels";
-import { activeWanted, ARCHIVE_STATUS_OPTIONS, ARCHIVE_STATUSES } from "~/lib/archived";
+import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
 import { enumFilter, listParams } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/sources";
@@ -29,16 +29,12 @@ const columns: Array<Column<Row>> = [
     key: "name",
     label: "Source",
     sortKey: "name",
-    cell: (r) => (
-      <Link to={`/sources/${r.id}`} className="font-medium text-verdigris-700 underline">
-        {r.name}
-      </Link>
-    ),
+    cell: (r) => <NameCell to={`/sources/${r.id}`}>{r.name}</NameCell>,
   },
   { key: "kind", label: "Kind", sortKey: "kind", cell: (r) => labelOf(SOURCE_KIND_LABELS, r.kind) },
   { key: "pools", label: "Pools fed", sortKey: "pools", numeric: true, cell: (r) => r.poolCount },
   { key: "lastTest", label: "Last source test", sortKey: "lastTest", cell: (r) => r.lastTest ?? "never tested" },
-  { key: "active", label: "Status", wide: true, cell: (r) => (r.active ? "In use" : "Archived") },
+  archiveColumn(),
 ];
 
 export default function Sources({ loaderData }: Route.ComponentProps) {
@@ -46,23 +42,13 @@ export default function Sources({ loaderData }: Route.ComponentProps) {
   return (
     <div>
       <PageHeader title="Fill sources" action={mayEdit ? <ButtonLink to="/sources/new">Add a source</ButtonLink> : null}>
-        Where each pool's top-up water comes from · {total} {total === 1 ? "source" : "sources"}
+        Where each pool's top-up water comes from · {countOf(total, "source", "sources")}
       </PageHeader>
       <ListFilters searchLabel="Search source names">
         <FilterSelect name="kind" label="Kind" allLabel="All kinds" options={options(SOURCE_KIND_LABELS)} />
-        <FilterSelect name="status" label="Status" options={ARCHIVE_STATUS_OPTIONS} />
+        <ArchiveStatusFilter />
       </ListFilters>
-      <DataTable
-        caption="Fill sources"
-        columns={columns}
-        rows={rows}
-        rowKey={(r) => r.id}
-        total={total}
-        sort={params.sort}
-        dir={params.dir}
-        page={params.page}
-        empty={params.q ? `No source matches "${params.q}".` : "No fill sources here yet."}
-      />
+      <ListTable caption="Fill sources" columns={columns} rows={rows} total={total} params={params} noun="source" emptyText="No fill sources here yet." />
     </div>
   );
 }
