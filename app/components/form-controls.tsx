@@ -20,6 +20,22 @@ function describedBy(name: string, errors?: FieldErrors, hint?: ReactNode) {
   return ids.length > 0 ? ids.join(" ") : undefined;
 }
 
+/** The label around a control, with its hint and error below it. */
+function Field({ name, label, errors, hint, className, children }: Common & { children: ReactNode }) {
+  return (
+    <label className={`block ${className ?? ""}`}>
+      <span className="text-sm font-medium">{label}</span>
+      {children}
+      {hint ? (
+        <span id={`${name}-hint`} className="mt-1 block text-xs text-muted">
+          {hint}
+        </span>
+      ) : null}
+      <ErrorText name={name} errors={errors} />
+    </label>
+  );
+}
+
 export function TextField({
   name,
   label,
@@ -29,8 +45,7 @@ export function TextField({
   ...input
 }: Common & Omit<React.InputHTMLAttributes<HTMLInputElement>, "name">) {
   return (
-    <label className={`block ${className ?? ""}`}>
-      <span className="text-sm font-medium">{label}</span>
+    <Field name={name} label={label} errors={errors} hint={hint} className={className}>
       <input
         name={name}
         aria-invalid={Boolean(errors?.[name])}
@@ -38,13 +53,7 @@ export function TextField({
         className={inputClass}
         {...input}
       />
-      {hint ? (
-        <span id={`${name}-hint`} className="mt-1 block text-xs text-muted">
-          {hint}
-        </span>
-      ) : null}
-      <ErrorText name={name} errors={errors} />
-    </label>
+    </Field>
   );
 }
 
@@ -62,8 +71,7 @@ export function SelectField({
   placeholder?: string;
 } & Omit<React.SelectHTMLAttributes<HTMLSelectElement>, "name">) {
   return (
-    <label className={`block ${className ?? ""}`}>
-      <span className="text-sm font-medium">{label}</span>
+    <Field name={name} label={label} errors={errors} hint={hint} className={className}>
       <select
         name={name}
         aria-invalid={Boolean(errors?.[name])}
@@ -78,13 +86,7 @@ export function SelectField({
           </option>
         ))}
       </select>
-      {hint ? (
-        <span id={`${name}-hint`} className="mt-1 block text-xs text-muted">
-          {hint}
-        </span>
-      ) : null}
-      <ErrorText name={name} errors={errors} />
-    </label>
+    </Field>
   );
 }
 
@@ -96,8 +98,7 @@ export function TextAreaField({
   ...area
 }: Common & Omit<React.TextareaHTMLAttributes<HTMLTextAreaElement>, "name">) {
   return (
-    <label className={`block ${className ?? ""}`}>
-      <span className="text-sm font-medium">{label}</span>
+    <Field name={name} label={label} errors={errors} className={className}>
       <textarea
         name={name}
         rows={3}
@@ -106,8 +107,7 @@ export function TextAreaField({
         className={inputClass}
         {...area}
       />
-      <ErrorText name={name} errors={errors} />
-    </label>
+    </Field>
   );
 }
 

@@ -2,7 +2,8 @@ import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import { requestPasswordReset } from "~/.server/mail/reset-request";
 import { ErrorPanel } from "~/components/error-panel";
-import { FormProblem, primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { FormProblem } from "~/components/form-controls";
+import { primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf } from "~/lib/account-forms";
 import type { Route } from "./+types/forgot-password";
 

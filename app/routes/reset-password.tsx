@@ -3,7 +3,8 @@ import { data, Form, Link, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { ErrorPanel } from "~/components/error-panel";
-import { FormProblem, primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { FormProblem } from "~/components/form-controls";
+import { primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import type { Route } from "./+types/reset-password";
 

@@ -3,6 +3,8 @@ import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { currentUser } from "~/.server/guard";
+import { FormProblem } from "~/components/form-controls";
+import { primaryButton, TextField } from "~/components/mail/public-card";
 import { PatinaMark } from "~/components/patina-mark";
 import type { Route } from "./+types/sign-in";
 
@@ -71,50 +73,10 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
       <Form method="post" className="space-y-4 rounded-2xl border border-line bg-white p-6 shadow-sm" noValidate>
         <h1 className="text-lg font-semibold">Sign in</h1>
         <input type="hidden" name="next" value={loaderData.next} />
-        <label className="block">
-          <span className="text-sm font-medium">E-mail</span>
-          <input
-            name="email"
-            type="email"
-            autoComplete="username"
-            required
-            aria-invalid={Boolean(fieldErrors.email)}
-            aria-describedby={fieldErrors.email ? "email-error" : undefined}
-            className="mt-1 block w-full rounded-lg border border-line px-3 py-3 text-base"
-          />
-          {fieldErrors.email ? (
-            <span id="email-error" className="mt-1 block text-sm text-alert">
-              {fieldErrors.email}
-            </span>
-          ) : null}
-        </label>
-        <label className="block">
-          <span className="text-sm font-medium">Password</span>
-          <input
-            name="password"
-            type="password"
-            autoComplete="current-password"
-            required
-            aria-invalid={Boolean(fieldErrors.password)}
-            aria-describedby={fieldErrors.password ? "password-error" : undefined}
-            className="mt-1 block w-full rounded-lg border border-line px-3 py-3 text-base"
-          />
-          {fieldErrors.password ? (
-            <span id="password-error" className="mt-1 block text-sm text-alert">
-              {fieldErrors.password}
-            </span>
-          ) : null}
-        </label>
-        {actionData?.formError ? (
-          <p role="alert" className="rounded-lg bg-orange-50 px-3 py-2 text-sm text-alert">
-            {actionData.formError}
-          </p>
-        ) : null}
-        <button
-          type="submit"
-          disabled={busy}
-          className="w-full rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60"
-        >
+        <TextField name="email" label="E-mail" type="email" autoComplete="username" error={fieldErrors.email} />
+        <TextField name="password" label="Password" type="password" autoComplete="current-password" error={fieldErrors.password} />
+        <FormProblem message={actionData?.formError} />
+        <button type="submit" disabled={busy} className={primaryButton}>
           {busy ? "Signing in…" : "Sign in"}
         </button>
         <p className="text-center text-sm">

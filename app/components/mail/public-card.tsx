@@ -61,14 +61,5 @@ export function TextField(props: {
   );
 }
 
-export function FormProblem({ message }: { message: string | null | undefined }) {
-  if (!message) return null;
-  return (
-    <p role="alert" className="rounded-lg bg-orange-50 px-3 py-2 text-sm text-alert">
-      {message}
-    </p>
-  );
-}
-
 export const primaryButton =
   "w-full rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60";
