@@ -1,9 +1,8 @@
-import { data, Form, Link, useNavigation } from "react-router";
+import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { requestPasswordReset } from "~/.server/mail/reset-request";
-import { ErrorPanel } from "~/components/error-panel";
 import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf } from "~/lib/account-forms";
 import type { Route } from "./+types/forgot-password";
 
@@ -33,14 +32,11 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
   const busy = useNavigation().state !== "idle";
   if (actionData?.sent) {
     return (
-      <PublicCard title="Check your e-mail">
-        <p>If an account uses that address, a link to choose a new password is on its way. It works for one hour.</p>
-        <p>
-          <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
-            Back to sign-in
-          </Link>
-        </p>
-      </PublicCard>
+      <PublicNotice
+        title="Check your e-mail"
+        message="If an account uses that address, a link to choose a new password is on its way. It works for one hour."
+        next={{ to: "/sign-in", label: "Back to sign-in" }}
+      />
     );
   }
   const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
@@ -55,18 +51,12 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
         </button>
       </Form>
       <p className="text-sm">
-        <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
-          Back to sign-in
-        </Link>
+        <PublicLink to="/sign-in">Back to sign-in</PublicLink>
       </p>
     </PublicCard>
   );
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
-  );
+  return <PublicErrorPage error={error} />;
 }

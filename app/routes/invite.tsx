@@ -1,10 +1,9 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { data, Form, redirect, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { acceptInvitation, invitationByToken } from "~/.server/mail/invitations";
-import { ErrorPanel } from "~/components/error-panel";
 import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { primaryButton, PublicCard, PublicErrorPage, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/invite";
@@ -64,16 +63,7 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
   const busy = useNavigation().state !== "idle";
   const { invitation } = loaderData;
   if (invitation.state !== "open") {
-    return (
-      <PublicCard title="Invitation">
-        <p>{closedMessages[invitation.state]}</p>
-        <p>
-          <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
-            Go to sign-in
-          </Link>
-        </p>
-      </PublicCard>
-    );
+    return <PublicNotice title="Invitation" message={closedMessages[invitation.state]} next={{ to: "/sign-in", label: "Go to sign-in" }} />;
   }
   const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
   return (
@@ -103,9 +93,5 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
-  );
+  return <PublicErrorPage error={error} />;
 }

@@ -9,6 +9,7 @@ import { CautionNote } from "~/components/caution-note";
 import { BalanceHistoryChart, MetalHistoryChart, type MetalPoint } from "~/components/charts/metal-history-chart";
 import { ErrorPanel } from "~/components/error-panel";
 import { PoolMetalPanel } from "~/components/pool-metal-panel";
+import { ReadingTable } from "~/components/reading-table";
 import { equipmentAge } from "~/components/routebook/equipment-panel";
 import { todayIn } from "~/lib/dates";
 import { formatDate, formatDateTime, formatMgL } from "~/lib/format";
@@ -195,37 +196,24 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
         ) : judged.length === 0 ? (
           <p className="text-muted">The latest visit logged observations only.</p>
         ) : (
-          <div className="overflow-x-auto rounded-xl border border-line bg-white">
-            <table className="w-full text-left text-sm tabular-nums">
-              <caption className="sr-only">Latest test, each value judged</caption>
-              <thead className="border-b border-line text-muted">
-                <tr>
-                  <th scope="col" className="px-3 py-2 font-medium">Reading</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Value</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Expected</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Verdict</th>
-                </tr>
-              </thead>
-              <tbody className="divide-y divide-line">
-                {judged.map((j) => (
-                  <tr key={j.label}>
-                    <td className="px-3 py-2">{j.label}</td>
-                    <td className="px-3 py-2">{j.value}</td>
-                    <td className="px-3 py-2 text-muted">{j.expected}</td>
-                    <td className={`px-3 py-2 ${toneClass[j.tone]}`}>{j.verdict}</td>
-                  </tr>
-                ))}
-                {latest.temperatureC !== null ? (
-                  <tr>
-                    <td className="px-3 py-2">Temperature</td>
-                    <td className="px-3 py-2">{formatTemperature(latest.temperatureC, units)}</td>
-                    <td className="px-3 py-2 text-muted">—</td>
-                    <td className="px-3 py-2 text-muted">not judged</td>
-                  </tr>
-                ) : null}
-              </tbody>
-            </table>
-          </div>
+          <ReadingTable caption="Latest test, each value judged" headings={["Reading", "Value", "Expected", "Verdict"]}>
+            {judged.map((j) => (
+              <tr key={j.label}>
+                <td className="px-3 py-2">{j.label}</td>
+                <td className="px-3 py-2">{j.value}</td>
+                <td className="px-3 py-2 text-muted">{j.expected}</td>
+                <td className={`px-3 py-2 ${toneClass[j.tone]}`}>{j.verdict}</td>
+              </tr>
+            ))}
+            {latest.temperatureC !== null ? (
+              <tr>
+                <td className="px-3 py-2">Temperature</td>
+                <td className="px-3 py-2">{formatTemperature(latest.temperatureC, units)}</td>
+                <td className="px-3 py-2 text-muted">—</td>
+                <td className="px-3 py-2 text-muted">not judged</td>
+              </tr>
+            ) : null}
+          </ReadingTable>
         )}
         <p className="mt-2 text-xs text-muted">
           Ranges from public pool codes (Montana pool rules, ANSI/APSP/ICC-11, CDC guidance); metal levels are the company's
@@ -253,49 +241,32 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
         {tests.length === 0 ? (
           <p className="text-muted">No water tests yet.</p>
         ) : (
-          <div className="overflow-x-auto rounded-xl border border-line bg-white">
-            <table className="w-full text-left text-sm tabular-nums">
-              <caption className="sr-only">Water tests, newest first</caption>
-              <thead className="border-b border-line text-muted">
-                <tr>
-                  <th scope="col" className="px-3 py-2 font-medium">Sampled</th>
-                  <th scope="col" className="px-3 py-2 font-medium">pH</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Free Cl</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Alk.</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Hardness</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Temp.</th>
-                  <th scope="col" className="px-3 py-2 font-medium">SI</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Copper</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Iron</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Manganese</th>
-                  <th scope="col" className="px-3 py-2 font-medium">Seen</th>
+          <ReadingTable
+            caption="Water tests, newest first"
+            headings={["Sampled", "pH", "Free Cl", "Alk.", "Hardness", "Temp.", "SI", "Copper", "Iron", "Manganese", "Seen"]}
+          >
+            {tests.map((t) => {
+              const index = testSaturationIndex(t);
+              return (
+                <tr key={t.id}>
+                  <td className="px-3 py-2 whitespace-nowrap">
+                    {formatDateTime(t.sampledAt, timeZone)}
+                    {t.technicianName ? <span className="block text-xs text-muted">{t.technicianName}</span> : null}
+                  </td>
+                  <td className="px-3 py-2">{t.ph?.toFixed(2) ?? "—"}</td>
+                  <td className="px-3 py-2">{t.freeChlorine?.toFixed(1) ?? "—"}</td>
+                  <td className="px-3 py-2">{t.totalAlkalinity?.toFixed(0) ?? "—"}</td>
+                  <td className="px-3 py-2">{t.calciumHardness?.toFixed(0) ?? "—"}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">{formatTemperature(t.temperatureC, units)}</td>
+                  <td className="px-3 py-2">{index === null ? "—" : index.toFixed(2)}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">{t.copper === null ? "—" : formatMgL(t.copper, t.copperBelowDetection)}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">{t.iron === null ? "—" : formatMgL(t.iron, t.ironBelowDetection)}</td>
+                  <td className="px-3 py-2 whitespace-nowrap">{t.manganese === null ? "—" : formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
+                  <td className="min-w-48 px-3 py-2">{observationText(t)}</td>
                 </tr>
-              </thead>
-              <tbody className="divide-y divide-line">
-                {tests.map((t) => {
-                  const index = testSaturationIndex(t);
-                  return (
-                    <tr key={t.id}>
-                      <td className="px-3 py-2 whitespace-nowrap">
-                        {formatDateTime(t.sampledAt, timeZone)}
-                        {t.technicianName ? <span className="block text-xs text-muted">{t.technicianName}</span> : null}
-                      </td>
-                      <td className="px-3 py-2">{t.ph?.toFixed(2) ?? "—"}</td>
-                      <td className="px-3 py-2">{t.freeChlorine?.toFixed(1) ?? "—"}</td>
-                      <td className="px-3 py-2">{t.totalAlkalinity?.toFixed(0) ?? "—"}</td>
-                      <td className="px-3 py-2">{t.calciumHardness?.toFixed(0) ?? "—"}</td>
-                      <td className="px-3 py-2 whitespace-nowrap">{formatTemperature(t.temperatureC, units)}</td>
-                      <td className="px-3 py-2">{index === null ? "—" : index.toFixed(2)}</td>
-                      <td className="px-3 py-2 whitespace-nowrap">{t.copper === null ? "—" : formatMgL(t.copper, t.copperBelowDetection)}</td>
-                      <td className="px-3 py-2 whitespace-nowrap">{t.iron === null ? "—" : formatMgL(t.iron, t.ironBelowDetection)}</td>
-                      <td className="px-3 py-2 whitespace-nowrap">{t.manganese === null ? "—" : formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
-                      <td className="min-w-48 px-3 py-2">{observationText(t)}</td>
-                    </tr>
-                  );
-                })}
-              </tbody>
-            </table>
-          </div>
+              );
+            })}
+          </ReadingTable>
         )}
         <p className="mt-2 text-xs text-muted">
           SI: saturation index, pool-code factor-table form with alkalinity corrected for cyanuric acid. Since {formatDate(pool.createdAt, timeZone)} on Patina.

@@ -1,10 +1,9 @@
 import { APIError } from "better-auth/api";
-import { data, Form, Link, useNavigation } from "react-router";
+import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
-import { ErrorPanel } from "~/components/error-panel";
 import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, TextField } from "~/components/mail/public-card";
+import { primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import type { Route } from "./+types/reset-password";
 
@@ -42,26 +41,20 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   const busy = useNavigation().state !== "idle";
   if (actionData?.done) {
     return (
-      <PublicCard title="Password changed">
-        <p>Your new password is set, and every earlier session is signed out.</p>
-        <p>
-          <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
-            Sign in
-          </Link>
-        </p>
-      </PublicCard>
+      <PublicNotice
+        title="Password changed"
+        message="Your new password is set, and every earlier session is signed out."
+        next={{ to: "/sign-in", label: "Sign in" }}
+      />
     );
   }
   if (!loaderData.token) {
     return (
-      <PublicCard title="Choose a new password">
-        <p>This page needs the link from the e-mail. </p>
-        <p>
-          <Link to="/forgot-password" className="font-medium text-verdigris-700 underline">
-            Ask for a new link
-          </Link>
-        </p>
-      </PublicCard>
+      <PublicNotice
+        title="Choose a new password"
+        message="This page needs the link from the e-mail."
+        next={{ to: "/forgot-password", label: "Ask for a new link" }}
+      />
     );
   }
   const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
@@ -85,9 +78,7 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
       </Form>
       {actionData?.formError ? (
         <p className="text-sm">
-          <Link to="/forgot-password" className="font-medium text-verdigris-700 underline">
-            Ask for a new link
-          </Link>
+          <PublicLink to="/forgot-password">Ask for a new link</PublicLink>
         </p>
       ) : null}
     </PublicCard>
@@ -95,9 +86,5 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
-  );
+  return <PublicErrorPage error={error} />;
 }

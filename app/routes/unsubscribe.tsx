@@ -1,8 +1,7 @@
-import { data, Form, Link } from "react-router";
+import { data, Form } from "react-router";
 import { z } from "zod";
 import { unsubscribeFromDigest } from "~/.server/mail/preferences";
-import { ErrorPanel } from "~/components/error-panel";
-import { primaryButton, PublicCard } from "~/components/mail/public-card";
+import { primaryButton, PublicCard, PublicErrorPage, PublicNotice } from "~/components/mail/public-card";
 import type { Route } from "./+types/unsubscribe";
 
 export const meta: Route.MetaFunction = () => [{ title: "Weekly digest · Patina" }];
@@ -27,22 +26,19 @@ export async function action({ params }: Route.ActionArgs) {
 export default function Unsubscribe({ loaderData, actionData }: Route.ComponentProps) {
   if (actionData?.done) {
     return (
-      <PublicCard title="Weekly digest turned off">
-        <p>
-          {actionData.email} will no longer get the weekly digest from {actionData.companyName}. Alerts about metal in pools still
-          arrive.
-        </p>
-      </PublicCard>
+      <PublicNotice
+        title="Weekly digest turned off"
+        message={`${actionData.email} will no longer get the weekly digest from ${actionData.companyName}. Alerts about metal in pools still arrive.`}
+      />
     );
   }
   if (!loaderData.valid || actionData?.done === false) {
     return (
-      <PublicCard title="Weekly digest">
-        <p>This unsubscribe link is not valid. Use the link from your most recent digest.</p>
-        <Link to="/sign-in" className="font-medium text-verdigris-700 underline">
-          Go to sign-in
-        </Link>
-      </PublicCard>
+      <PublicNotice
+        title="Weekly digest"
+        message="This unsubscribe link is not valid. Use the link from your most recent digest."
+        next={{ to: "/sign-in", label: "Go to sign-in" }}
+      />
     );
   }
   return (
@@ -58,9 +54,5 @@ export default function Unsubscribe({ loaderData, actionData }: Route.ComponentP
 }
 
 export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
-  );
+  return <PublicErrorPage error={error} />;
 }

@@ -1,4 +1,6 @@
 import type { ReactNode } from "react";
+import { Link } from "react-router";
+import { ErrorPanel } from "~/components/error-panel";
 import { PatinaMark } from "~/components/patina-mark";
 
 /** The frame of the pages people reach from an e-mail link, before or without signing in. */
@@ -13,6 +15,38 @@ export function PublicCard({ title, children }: { title: string; children: React
         <h1 className="text-lg font-semibold">{title}</h1>
         {children}
       </section>
+    </main>
+  );
+}
+
+/** A link on a public page: where to go next. */
+export function PublicLink({ to, children }: { to: string; children: ReactNode }) {
+  return (
+    <Link to={to} className="font-medium text-verdigris-700 underline">
+      {children}
+    </Link>
+  );
+}
+
+/** A public page that only tells how things stand (sent, done, closed) and where to go next. */
+export function PublicNotice({ title, message, next }: { title: string; message: ReactNode; next?: { to: string; label: string } }) {
+  return (
+    <PublicCard title={title}>
+      <p>{message}</p>
+      {next ? (
+        <p>
+          <PublicLink to={next.to}>{next.label}</PublicLink>
+        </p>
+      ) : null}
+    </PublicCard>
+  );
+}
+
+/** The error boundary of the public pages: no app frame around it. */
+export function PublicErrorPage({ error }: { error: unknown }) {
+  return (
+    <main className="mx-auto max-w-xl p-6">
+      <ErrorPanel error={error} />
     </main>
   );
 }

@@ -1,5 +1,6 @@
 import { Form, useNavigation } from "react-router";
 import { FormProblem, SubmitButton, TextField } from "~/components/form-controls";
+import { ReadingTable } from "~/components/reading-table";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { formatMgL } from "~/lib/format";
 
@@ -18,31 +19,17 @@ type SourceTest = {
 export function SourceTestTable({ tests }: { tests: SourceTest[] }) {
   if (tests.length === 0) return <p className="text-muted">No tests of this water yet. A lab or kit test of the fill water shows whether it brings metals in.</p>;
   return (
-    <div className="overflow-x-auto rounded-xl border border-line bg-white">
-      <table className="w-full text-left text-sm tabular-nums">
-        <caption className="sr-only">Tests of the fill water, metals in mg/L</caption>
-        <thead className="border-b border-line text-muted">
-          <tr>
-            <th scope="col" className="px-3 py-2 font-medium">Sampled</th>
-            <th scope="col" className="px-3 py-2 font-medium">Copper</th>
-            <th scope="col" className="px-3 py-2 font-medium">Iron</th>
-            <th scope="col" className="px-3 py-2 font-medium">Manganese</th>
-            <th scope="col" className="px-3 py-2 font-medium">Note</th>
-          </tr>
-        </thead>
-        <tbody className="divide-y divide-line">
-          {tests.map((t) => (
-            <tr key={t.id}>
-              <td className="px-3 py-2 whitespace-nowrap">{t.sampledOn}</td>
-              <td className="px-3 py-2">{formatMgL(t.copper, t.copperBelowDetection)}</td>
-              <td className="px-3 py-2">{formatMgL(t.iron, t.ironBelowDetection)}</td>
-              <td className="px-3 py-2">{formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
-              <td className="px-3 py-2">{t.note ?? ""}</td>
-            </tr>
-          ))}
-        </tbody>
-      </table>
-    </div>
+    <ReadingTable caption="Tests of the fill water, metals in mg/L" headings={["Sampled", "Copper", "Iron", "Manganese", "Note"]}>
+      {tests.map((t) => (
+        <tr key={t.id}>
+          <td className="px-3 py-2 whitespace-nowrap">{t.sampledOn}</td>
+          <td className="px-3 py-2">{formatMgL(t.copper, t.copperBelowDetection)}</td>
+          <td className="px-3 py-2">{formatMgL(t.iron, t.ironBelowDetection)}</td>
+          <td className="px-3 py-2">{formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
+          <td className="px-3 py-2">{t.note ?? ""}</td>
+        </tr>
+      ))}
+    </ReadingTable>
   );
 }
 
