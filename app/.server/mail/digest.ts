@@ -9,10 +9,11 @@ import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
 import { METALS } from "@analysis/metals/reading";
 import { metalThresholdsFrom } from "../company-settings";
 import { db } from "../db/client";
-import { companies, fillSources, mailOutbox, memberships, pools, routes, user } from "../db/schema";
+import { companies, mailOutbox, memberships, user } from "../db/schema";
 import { serverEnv } from "../env";
 import { SANITISER, SOURCE_KIND } from "../queries/analytics/rows";
 import { treatmentRows, waterTestReadings } from "../queries/metal-readings";
+import { poolsWithPlaces } from "../queries/routebook-pools";
 import { digestMail, type WeeklyDigest } from "./digest-message";
 import { enqueueMail } from "./outbox";
 import { preferencesFor } from "./preferences";
@@ -40,24 +41,7 @@ type CompanyPool = {
 };
 
 async function companyPools(companyId: number): Promise<Map<number, CompanyPool>> {
-  const rows = await db()
-    .select({
-      id: pools.id,
-      customerName: pools.customerName,
-      street: pools.street,
-      neighbourhood: pools.neighbourhood,
-      surface: pools.surface,
-      sanitiser: pools.sanitiser,
-      routeId: pools.routeId,
-      routeName: routes.name,
-      fillSourceId: pools.fillSourceId,
-      sourceName: fillSources.name,
-      sourceKind: fillSources.kind,
-    })
-    .from(pools)
-    .leftJoin(routes, eq(routes.id, pools.routeId))
-    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-    .where(eq(pools.companyId, companyId));
+  const rows = await poolsWithPlaces({ companyId });
   return new Map(
     rows.map((r) => [
       r.id,
@@ -66,11 +50,11 @@ async function companyPools(companyId: number): Promise<Map<number, CompanyPool>
         customerName: r.customerName,
         street: r.street,
         routeName: r.routeName,
-        sourceName: r.sourceName,
+        sourceName: r.fillSourceName,
         profile: {
           poolId: String(r.id),
           fillSourceId: r.fillSourceId === null ? null : String(r.fillSourceId),
-          fillSourceKind: r.sourceKind === null ? null : SOURCE_KIND[r.sourceKind],
+          fillSourceKind: r.fillSourceKind === null ? null : SOURCE_KIND[r.fillSourceKind],
           neighbourhood: r.neighbourhood,
           routeId: r.routeId === null ? null : String(r.routeId),
           surface: r.surface,

@@ -1,27 +1,19 @@
 import { and, asc, desc, eq } from "drizzle-orm";
 import { analyseMetalHistory, openSuspicions, type MetalTest } from "@analysis/metals/episodes";
 import { db } from "../db/client";
-import { equipment, fillSources, pools, products, routes, treatments, user, waterTests } from "../db/schema";
+import { equipment, products, treatments, user, waterTests } from "../db/schema";
 import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
+import { metalReading } from "./metal-readings";
+import { poolWithPlace } from "./pools";
 
 const HISTORY_LIMIT = 250;
-
-function metalReading(value: number | null, belowDetection: boolean) {
-  return value === null ? null : { value, belowDetection };
-}
 
 /**
  * Everything the pool page shows, or null when the pool is outside the
  * member's scope. Tests come newest first.
  */
 export async function poolPage(scope: Scope, poolId: number) {
-  const [row] = await db()
-    .select({ pool: pools, routeName: routes.name, fillSourceName: fillSources.name, fillSourceKind: fillSources.kind })
-    .from(pools)
-    .leftJoin(routes, eq(routes.id, pools.routeId))
-    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-    .where(and(poolsInScope(scope), eq(pools.id, poolId)));
+  const row = await poolWithPlace(scope, poolId);
   if (!row) return null;
   const [items, tests, given] = await Promise.all([
     db()

@@ -1,10 +1,12 @@
-import { and, asc, count, desc, eq, like, or, sql } from "drizzle-orm";
+import { and, asc, desc, eq, like, or, sql } from "drizzle-orm";
 import { likePattern, type ListParams } from "~/lib/list-params";
 import type { SURFACES } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { utcDate } from "../db/values";
 import { equipment, fillSources, pools, routes } from "../db/schema";
 import type { Scope } from "../guard";
+import { listOrder, withTotal } from "./list-page";
+import type { Tenant } from "./metal-readings";
 import { poolsInScope } from "./scope";
 
 export const POOL_SORTS = ["account", "customer", "street", "neighbourhood", "route", "volume", "lastTest"] as const;
@@ -46,31 +48,29 @@ export async function listPools(scope: Scope, params: ListParams<PoolSort>, filt
     volume: pools.volumeLitres,
     lastTest,
   }[params.sort];
-  const [rows, [total]] = await Promise.all([
-    db()
-      .select({
-        id: pools.id,
-        accountCode: pools.accountCode,
-        customerName: pools.customerName,
-        street: pools.street,
-        neighbourhood: pools.neighbourhood,
-        routeName: routes.name,
-        fillSourceName: fillSources.name,
-        volumeLitres: pools.volumeLitres,
-        surface: pools.surface,
-        active: pools.active,
-        lastTest,
-      })
-      .from(pools)
-      .leftJoin(routes, eq(routes.id, pools.routeId))
-      .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-      .where(where)
-      .orderBy(params.dir === "desc" ? desc(order) : asc(order), asc(pools.id))
-      .limit(params.limit)
-      .offset(params.offset),
-    db().select({ n: count() }).from(pools).where(where),
-  ]);
-  return { rows: rows.map((r) => ({ ...r, lastTest: utcDate(r.lastTest) })), total: total?.n ?? 0 };
+  const page = db()
+    .select({
+      id: pools.id,
+      accountCode: pools.accountCode,
+      customerName: pools.customerName,
+      street: pools.street,
+      neighbourhood: pools.neighbourhood,
+      routeName: routes.name,
+      fillSourceName: fillSources.name,
+      volumeLitres: pools.volumeLitres,
+      surface: pools.surface,
+      active: pools.active,
+      lastTest,
+    })
+    .from(pools)
+    .leftJoin(routes, eq(routes.id, pools.routeId))
+    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
+    .where(where)
+    .orderBy(...listOrder(params.dir, order, pools.id))
+    .limit(params.limit)
+    .offset(params.offset);
+  const { rows, total } = await withTotal(page, pools, where);
+  return { rows: rows.map((r) => ({ ...r, lastTest: utcDate(r.lastTest) })), total };
 }
 
 export async function poolForEdit(scope: Scope, poolId: number) {
@@ -110,4 +110,30 @@ export async function searchPools(scope: Scope, q: string, limit = 20) {
     )
     .orderBy(asc(pools.street))
     .limit(limit);
+}
+
+/**
+ * Every pool with its route and fill source, for a member's Scope or, for
+ * mail sent outside any request, a whole company.
+ */
+export async function poolsWithPlaces(tenant: Tenant) {
+  return db()
+    .select({
+      id: pools.id,
+      customerName: pools.customerName,
+      street: pools.street,
+      neighbourhood: pools.neighbourhood,
+      surface: pools.surface,
+      sanitiser: pools.sanitiser,
+      routeId: pools.routeId,
+      routeName: routes.name,
+      fillSourceId: pools.fillSourceId,
+      fillSourceName: fillSources.name,
+      fillSourceKind: fillSources.kind,
+    })
+    .from(pools)
+    .leftJoin(routes, eq(routes.id, pools.routeId))
+    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
+    .where("scope" in tenant ? poolsInScope(tenant.scope) : eq(pools.companyId, tenant.companyId))
+    .orderBy(asc(pools.id));
 }

@@ -1,9 +1,10 @@
-import { and, asc, count, desc, eq, like } from "drizzle-orm";
+import { and, asc, eq, like } from "drizzle-orm";
 import { likePattern, type ListParams } from "~/lib/list-params";
 import type { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { products } from "../db/schema";
 import type { Scope } from "../guard";
+import { listOrder, withTotal } from "./list-page";
 
 export const PRODUCT_SORTS = ["name", "category", "labelDose", "unitCost"] as const;
 export type ProductSort = (typeof PRODUCT_SORTS)[number];
@@ -22,17 +23,14 @@ export async function listProducts(scope: Scope, params: ListParams<ProductSort>
     filters.active === null ? undefined : eq(products.active, filters.active),
   );
   const order = { name: products.name, category: products.category, labelDose: products.labelDose, unitCost: products.unitCost }[params.sort];
-  const [rows, [total]] = await Promise.all([
-    db()
-      .select()
-      .from(products)
-      .where(where)
-      .orderBy(params.dir === "desc" ? desc(order) : asc(order), asc(products.id))
-      .limit(params.limit)
-      .offset(params.offset),
-    db().select({ n: count() }).from(products).where(where),
-  ]);
-  return { rows, total: total?.n ?? 0 };
+  const page = db()
+    .select()
+    .from(products)
+    .where(where)
+    .orderBy(...listOrder(params.dir, order, products.id))
+    .limit(params.limit)
+    .offset(params.offset);
+  return withTotal(page, products, where);
 }
 
 export async function productForEdit(scope: Scope, productId: number) {

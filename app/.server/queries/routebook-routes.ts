@@ -1,8 +1,9 @@
-import { and, asc, count, desc, eq, inArray, like, type SQL, sql } from "drizzle-orm";
+import { and, asc, eq, inArray, like, type SQL, sql } from "drizzle-orm";
 import { likePattern, type ListParams } from "~/lib/list-params";
 import { db } from "../db/client";
 import { memberships, pools, routes, routeTechnicians, user } from "../db/schema";
 import type { Scope } from "../guard";
+import { listOrder, withTotal } from "./list-page";
 
 export const ROUTE_SORTS = ["name", "weekdays", "pools"] as const;
 export type RouteSort = (typeof ROUTE_SORTS)[number];
@@ -30,17 +31,14 @@ export async function listRoutes(scope: Scope, params: ListParams<RouteSort>, fi
     filters.active === null ? undefined : eq(routes.active, filters.active),
   );
   const order = { name: routes.name, weekdays: routes.serviceWeekdays, pools: poolCount }[params.sort];
-  const [rows, [total]] = await Promise.all([
-    db()
-      .select({ id: routes.id, name: routes.name, serviceWeekdays: routes.serviceWeekdays, active: routes.active, technicians, poolCount })
-      .from(routes)
-      .where(where)
-      .orderBy(params.dir === "desc" ? desc(order) : asc(order), asc(routes.id))
-      .limit(params.limit)
-      .offset(params.offset),
-    db().select({ n: count() }).from(routes).where(where),
-  ]);
-  return { rows, total: total?.n ?? 0 };
+  const page = db()
+    .select({ id: routes.id, name: routes.name, serviceWeekdays: routes.serviceWeekdays, active: routes.active, technicians, poolCount })
+    .from(routes)
+    .where(where)
+    .orderBy(...listOrder(params.dir, order, routes.id))
+    .limit(params.limit)
+    .offset(params.offset);
+  return withTotal(page, routes, where);
 }
 
 export async function routeForEdit(scope: Scope, routeId: number) {

@@ -1,9 +1,10 @@
-import { and, asc, count, desc, eq, like, sql } from "drizzle-orm";
+import { and, asc, desc, eq, like, sql } from "drizzle-orm";
 import { likePattern, type ListParams } from "~/lib/list-params";
 import type { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { fillSources, pools, routes, sourceTests } from "../db/schema";
 import type { Scope } from "../guard";
+import { listOrder, withTotal } from "./list-page";
 import { poolsInScope } from "./scope";
 
 export const SOURCE_SORTS = ["name", "kind", "pools", "lastTest"] as const;
@@ -28,17 +29,15 @@ export async function listSources(
     filters.active === null ? undefined : eq(fillSources.active, filters.active),
   );
   const order = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest }[params.sort];
-  const [rows, [total]] = await Promise.all([
-    db()
-      .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, active: fillSources.active, poolCount, lastTest })
-      .from(fillSources)
-      .where(where)
-      .orderBy(params.dir === "desc" ? desc(order) : asc(order), asc(fillSources.id))
-      .limit(params.limit)
-      .offset(params.offset),
-    db().select({ n: count() }).from(fillSources).where(where),
-  ]);
-  return { rows: rows.map((r) => ({ ...r, lastTest: r.lastTest ? String(r.lastTest).slice(0, 10) : null })), total: total?.n ?? 0 };
+  const page = db()
+    .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, active: fillSources.active, poolCount, lastTest })
+    .from(fillSources)
+    .where(where)
+    .orderBy(...listOrder(params.dir, order, fillSources.id))
+    .limit(params.limit)
+    .offset(params.offset);
+  const { rows, total } = await withTotal(page, fillSources, where);
+  return { rows: rows.map((r) => ({ ...r, lastTest: r.lastTest ? String(r.lastTest).slice(0, 10) : null })), total };
 }
 
 export async function sourceForEdit(scope: Scope, sourceId: number) {
