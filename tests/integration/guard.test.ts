@@ -11,8 +11,7 @@ import {
   addTest,
   createCompany,
   createMember,
-  createPool,
-  createRoute,
+  createRouteWithPool,
   type FixtureMember,
   requestAs,
 } from "../fixtures/company";
@@ -29,10 +28,9 @@ let poolOfOtherCompany: number;
 
 beforeAll(async () => {
   const companyId = await createCompany();
-  const mondayRoute = await createRoute(companyId, "Monday loop", "1");
-  const tuesdayRoute = await createRoute(companyId, "Tuesday loop", "2");
-  poolOnOwnRoute = await createPool(companyId, { routeId: mondayRoute, accountCode: "G-1" });
-  poolOnOtherRoute = await createPool(companyId, { routeId: tuesdayRoute, accountCode: "G-2" });
+  const monday = await createRouteWithPool(companyId, "Monday loop", "G-1", "1");
+  poolOnOwnRoute = monday.poolId;
+  poolOnOtherRoute = (await createRouteWithPool(companyId, "Tuesday loop", "G-2", "2")).poolId;
   // Pool G-1: copper 0.40 opens a case (>= 0.3), 0.20 is not below 0.1, so it stays open.
   await addTest(companyId, poolOnOwnRoute, "2026-01-05T09:00:00Z", { copper: 0.4, ph: 7.4 });
   await addTest(companyId, poolOnOwnRoute, "2026-01-12T09:00:00Z", { copper: 0.2, ph: 7.5 });
@@ -42,12 +40,11 @@ beforeAll(async () => {
 
   owner = await createMember(companyId, "owner");
   manager = await createMember(companyId, "manager");
-  technician = await createMember(companyId, "technician", [mondayRoute]);
+  technician = await createMember(companyId, "technician", [monday.routeId]);
   analyst = await createMember(companyId, "analyst");
 
   const otherCompany = await createCompany();
-  const otherRoute = await createRoute(otherCompany, "Elsewhere", "1");
-  poolOfOtherCompany = await createPool(otherCompany, { routeId: otherRoute, accountCode: "X-1" });
+  poolOfOtherCompany = (await createRouteWithPool(otherCompany, "Elsewhere", "X-1")).poolId;
   await addTest(otherCompany, poolOfOtherCompany, "2026-01-05T09:00:00Z", { copper: 0.9 });
   otherOwner = await createMember(otherCompany, "owner");
 });

@@ -16,6 +16,7 @@ import * as teamInvitations from "~/routes/team-invitations";
 import * as teamPage from "~/routes/team";
 import { createCompany, createMember, type FixtureMember, requestAs } from "../fixtures/company";
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
+import { formData } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
@@ -36,16 +37,10 @@ afterAll(async () => {
   await sink.dispose();
 });
 
-function form(values: Record<string, string>): FormData {
-  const body = new FormData();
-  for (const [key, value] of Object.entries(values)) body.set(key, value);
-  return body;
-}
-
 async function invite(owner: FixtureMember, email: string, role: string) {
   return callRoute(
     teamInvitations.action,
-    requestAs(owner, "/team/invitations", { method: "POST", body: form({ intent: "invite", email, role }) }),
+    requestAs(owner, "/team/invitations", { method: "POST", body: formData({ intent: "invite", email, role }) }),
   );
 }
 
@@ -53,7 +48,7 @@ async function invite(owner: FixtureMember, email: string, role: string) {
 async function accept(token: string, values: { name: string; password: string; confirm?: string }) {
   const request = new Request(`http://localhost:3000/invite/${token}`, {
     method: "POST",
-    body: form({ name: values.name, password: values.password, confirm: values.confirm ?? values.password }),
+    body: formData({ name: values.name, password: values.password, confirm: values.confirm ?? values.password }),
   });
   return callRoute(invitePage.action, request, { token });
 }
@@ -61,7 +56,7 @@ async function accept(token: string, values: { name: string; password: string; c
 async function acceptForCookie(token: string, values: { name: string; password: string }): Promise<Response> {
   const request = new Request(`http://localhost:3000/invite/${token}`, {
     method: "POST",
-    body: form({ ...values, confirm: values.password }),
+    body: formData({ ...values, confirm: values.password }),
   });
   const answer = await invitePage.action({ request, params: { token }, context: {} } as never);
   if (!(answer instanceof Response)) throw new Error(`expected a redirect, got ${JSON.stringify(answer)}`);
@@ -154,7 +149,7 @@ describe("invitations by e-mail", () => {
     expect(JSON.stringify(teamB.body)).not.toContain(email);
     const withdraw = await callRoute(
       teamInvitations.action,
-      requestAs(ownerB, "/team/invitations", { method: "POST", body: form({ intent: "withdraw", invitationId: String(row!.id) }) }),
+      requestAs(ownerB, "/team/invitations", { method: "POST", body: formData({ intent: "withdraw", invitationId: String(row!.id) }) }),
     );
     expect(withdraw.status).toBe(404);
 

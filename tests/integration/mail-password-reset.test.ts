@@ -10,6 +10,7 @@ import * as forgotPage from "~/routes/forgot-password";
 import * as resetPage from "~/routes/reset-password";
 import { createCompany, createMember, FIXTURE_PASSWORD, type FixtureMember, signIn } from "../fixtures/company";
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
+import { formData } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
@@ -24,19 +25,13 @@ afterAll(async () => {
   await sink.dispose();
 });
 
-function form(values: Record<string, string>): FormData {
-  const body = new FormData();
-  for (const [key, value] of Object.entries(values)) body.set(key, value);
-  return body;
-}
-
 /** Each test asks from its own documentation-range address, so their rate limits stay apart. */
 function askForLink(email: string, clientAddress: string) {
   return callRoute(
     forgotPage.action,
     new Request("http://localhost:3000/forgot-password", {
       method: "POST",
-      body: form({ email }),
+      body: formData({ email }),
       headers: { "x-forwarded-for": clientAddress },
     }),
   );
@@ -47,7 +42,7 @@ function submitNewPassword(token: string, password: string) {
     resetPage.action,
     new Request(`http://localhost:3000/reset-password?token=${token}`, {
       method: "POST",
-      body: form({ token, password, confirm: password }),
+      body: formData({ token, password, confirm: password }),
     }),
   );
 }

@@ -5,7 +5,15 @@ import { equipment, pools } from "~/.server/db/schema";
 import * as poolEdit from "~/routes/pool-edit";
 import * as poolNew from "~/routes/pool-new";
 import * as poolList from "~/routes/pools";
-import { createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
+import {
+  createCompany,
+  createMember,
+  createOtherCompanyPool,
+  createRoute,
+  createRouteWithPool,
+  type FixtureMember,
+  requestAs,
+} from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
 
@@ -20,15 +28,12 @@ let otherCompanyPool: number;
 
 beforeAll(async () => {
   companyId = await createCompany();
-  routeId = await createRoute(companyId, "Pool loop", "1");
-  otherRouteId = await createRoute(companyId, "Other loop", "2");
-  existingPool = await createPool(companyId, { routeId, accountCode: "P-1" });
-  await createPool(companyId, { routeId: otherRouteId, accountCode: "P-2" });
+  ({ routeId, poolId: existingPool } = await createRouteWithPool(companyId, "Pool loop", "P-1", "1"));
+  ({ routeId: otherRouteId } = await createRouteWithPool(companyId, "Other loop", "P-2", "2"));
   manager = await createMember(companyId, "manager");
   technician = await createMember(companyId, "technician", [routeId]);
   analyst = await createMember(companyId, "analyst");
-  const other = await createCompany();
-  otherCompanyPool = await createPool(other, { routeId: null, accountCode: "X-1" });
+  otherCompanyPool = await createOtherCompanyPool("X-1");
 });
 
 afterAll(closeDatabase);

@@ -3,7 +3,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { alertEvents, mailOutbox } from "~/.server/db/schema";
 import * as visitPool from "~/routes/visit-pool";
-import { createCompany, createMember, createPool, createRoute, type FixtureMember } from "../fixtures/company";
+import { createCompany, createMember, createRouteWithPool, type FixtureMember } from "../fixtures/company";
 import { postForm } from "../fixtures/forms";
 
 let companyId: number;
@@ -13,9 +13,9 @@ let poolId: number;
 
 beforeAll(async () => {
   companyId = await createCompany();
-  const route = await createRoute(companyId, "Alert loop", "1,2,3,4,5,6,7");
-  poolId = await createPool(companyId, { routeId: route, accountCode: "AL-1" });
-  technician = await createMember(companyId, "technician", [route]);
+  const route = await createRouteWithPool(companyId, "Alert loop", "AL-1", "1,2,3,4,5,6,7");
+  poolId = route.poolId;
+  technician = await createMember(companyId, "technician", [route.routeId]);
   manager = await createMember(companyId, "manager");
 });
 

@@ -4,7 +4,7 @@ import { closeDatabase, db } from "~/.server/db/client";
 import { products, treatments, waterTests } from "~/.server/db/schema";
 import * as poolPage from "~/routes/pool";
 import * as visitPool from "~/routes/visit-pool";
-import { createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
+import { createCompany, createMember, createOtherCompanyPool, createRouteWithPool, type FixtureMember, requestAs } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
 
@@ -18,19 +18,17 @@ let sequestrant: number;
 
 beforeAll(async () => {
   companyId = await createCompany();
-  const route = await createRoute(companyId, "Visit loop", "1,2,3,4,5,6,7");
-  const otherRoute = await createRoute(companyId, "Not mine", "1");
-  poolOnRoute = await createPool(companyId, { routeId: route, accountCode: "V-1" });
-  poolOffRoute = await createPool(companyId, { routeId: otherRoute, accountCode: "V-2" });
-  technician = await createMember(companyId, "technician", [route]);
+  const own = await createRouteWithPool(companyId, "Visit loop", "V-1", "1,2,3,4,5,6,7");
+  poolOnRoute = own.poolId;
+  poolOffRoute = (await createRouteWithPool(companyId, "Not mine", "V-2")).poolId;
+  technician = await createMember(companyId, "technician", [own.routeId]);
   analyst = await createMember(companyId, "analyst");
   const [product] = await db()
     .insert(products)
     .values({ companyId, name: "Test sequestrant", category: "sequestrant", labelDose: 16, doseUnit: "fl oz", unitCost: 0.75 })
     .$returningId();
   sequestrant = product!.id;
-  const other = await createCompany();
-  otherCompanyPool = await createPool(other, { routeId: await createRoute(other, "Far", "1"), accountCode: "X-9" });
+  otherCompanyPool = await createOtherCompanyPool("X-9");
 });
 
 afterAll(closeDatabase);
