@@ -3,7 +3,7 @@ import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { acceptInvitation, invitationByToken } from "~/.server/mail/invitations";
 import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, PublicErrorPage, PublicNotice, TextField } from "~/components/mail/public-card";
+import { NewPasswordFields, primaryButton, PublicCard, PublicErrorPage, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/invite";
@@ -74,15 +74,7 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
       </p>
       <Form method="post" className="space-y-4" noValidate>
         <TextField name="name" label="Your name" autoComplete="name" error={fieldErrors.name} />
-        <TextField
-          name="password"
-          label="Password"
-          type="password"
-          autoComplete="new-password"
-          hint="At least 12 characters."
-          error={fieldErrors.password}
-        />
-        <TextField name="confirm" label="Password again" type="password" autoComplete="new-password" error={fieldErrors.confirm} />
+        <NewPasswordFields label="Password" errors={fieldErrors} />
         <FormProblem message={actionData?.formError} />
         <button type="submit" disabled={busy} className={primaryButton}>
           {busy ? "Creating your account…" : "Join and sign in"}

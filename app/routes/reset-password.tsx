@@ -3,7 +3,7 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice, TextField } from "~/components/mail/public-card";
+import { NewPasswordFields, primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import type { Route } from "./+types/reset-password";
 
@@ -62,15 +62,7 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
     <PublicCard title="Choose a new password">
       <Form method="post" className="space-y-4" noValidate>
         <input type="hidden" name="token" value={loaderData.token} />
-        <TextField
-          name="password"
-          label="New password"
-          type="password"
-          autoComplete="new-password"
-          hint="At least 12 characters."
-          error={fieldErrors.password}
-        />
-        <TextField name="confirm" label="New password again" type="password" autoComplete="new-password" error={fieldErrors.confirm} />
+        <NewPasswordFields label="New password" errors={fieldErrors} />
         <FormProblem message={actionData?.formError} />
         <button type="submit" disabled={busy} className={primaryButton}>
           {busy ? "Saving…" : "Save the new password"}

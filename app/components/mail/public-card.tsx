@@ -95,5 +95,15 @@ export function TextField(props: {
   );
 }
 
+/** The password and its repetition, for a new account or a new password. */
+export function NewPasswordFields({ label, errors }: { label: string; errors: Record<string, string | undefined> }) {
+  return (
+    <>
+      <TextField name="password" label={label} type="password" autoComplete="new-password" hint="At least 12 characters." error={errors.password} />
+      <TextField name="confirm" label={`${label} again`} type="password" autoComplete="new-password" error={errors.confirm} />
+    </>
+  );
+}
+
 export const primaryButton =
   "w-full rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60";
