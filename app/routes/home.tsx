@@ -3,8 +3,10 @@ import { METALS } from "@analysis/metals/reading";
 import { companyMetalThresholds } from "~/.server/company-settings";
 import { requireMember } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/queries/home-summary";
+import { metalMarks } from "~/.server/queries/visit-metal-marks";
 import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
+import { MetalBadge } from "~/components/visit/metal-badge";
 import { formatCount, formatDate, formatMgL, isoWeekdayIn, weekdayName } from "~/lib/format";
 import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/home";
@@ -27,6 +29,7 @@ export async function loader({ request }: Route.LoaderArgs) {
     homeSummary(scope, thresholds, now),
     scope.role === "technician" ? stopsForWeekday(scope, weekday) : Promise.resolve([]),
   ]);
+  const marks = await metalMarks(scope, stops.map((stop) => stop.poolId), thresholds);
   return {
     role: scope.role,
     userName: scope.userName,
@@ -34,11 +37,12 @@ export async function loader({ request }: Route.LoaderArgs) {
     weekday,
     summary,
     stops,
+    marks,
   };
 }
 
 export default function Home({ loaderData }: Route.ComponentProps) {
-  const { role, userName, timeZone, weekday, summary, stops } = loaderData;
+  const { role, userName, timeZone, weekday, summary, stops, marks } = loaderData;
   const openTotal = summary.openCases.length;
   return (
     <div className="space-y-8">
@@ -66,6 +70,7 @@ export default function Home({ loaderData }: Route.ComponentProps) {
                       <span className="block text-sm text-muted">
                         {stop.customerName} · {stop.neighbourhood ?? "—"} · {stop.routeName}
                       </span>
+                      <MetalBadge mark={marks[stop.poolId]} />
                     </span>
                     <span className="text-right text-xs text-muted">last visit {formatDate(stop.lastVisitAt, timeZone)}</span>
                   </Link>

@@ -6,8 +6,8 @@ import { searchPools } from "~/.server/queries/routebook-pools";
 import { type MetalMark, metalMarks } from "~/.server/queries/visit-metal-marks";
 import { PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
+import { MetalBadge } from "~/components/visit/metal-badge";
 import { formatDate, isoWeekdayIn, weekdayName } from "~/lib/format";
-import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/visit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Log a visit · Patina" }];
@@ -25,28 +25,6 @@ export async function loader({ request }: Route.LoaderArgs) {
   const poolIds = [...new Set([...stops, ...found].map((p) => p.poolId))];
   const marks = await metalMarks(scope, poolIds, prefs.thresholds);
   return { weekday, stops, q, found, marks, timeZone: scope.timeZone };
-}
-
-/** Plain words on the card, so the mark does not rest on colour alone. */
-function metalMarkText(mark: MetalMark): string {
-  const parts: string[] = [];
-  if (mark.openMetals.length > 0) {
-    const metals = mark.openMetals.map((m) => METAL_LABELS[m].toLowerCase()).join(", ");
-    parts.push(`open ${metals} case`);
-  }
-  if (mark.suspected) parts.push("metal suspected");
-  const text = `${parts.join(" · ")}: bring the metal test`;
-  return text[0]!.toUpperCase() + text.slice(1);
-}
-
-function MetalBadge({ mark }: { mark: MetalMark | undefined }) {
-  if (!mark) return null;
-  return (
-    <span className="mt-1 inline-block rounded-md border border-watch bg-yellow-50 px-2 py-0.5 text-sm font-medium">
-      <span aria-hidden="true">◆ </span>
-      {metalMarkText(mark)}
-    </span>
-  );
 }
 
 function PoolChoice({ poolId, street, detail, mark }: { poolId: number; street: string; detail: string; mark: MetalMark | undefined }) {

@@ -2,6 +2,7 @@ import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { companies } from "~/.server/db/schema";
+import * as home from "~/routes/home";
 import * as visitList from "~/routes/visit";
 import { addTest, createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
@@ -91,5 +92,18 @@ describe("metal marks on the visit list", () => {
     expect(page.found.map((p) => p.poolId)).toEqual([belowDefaultButAboveCompany]);
     expect(page.marks[belowDefaultButAboveCompany]).toEqual({ suspected: false, openMetals: ["copper"] });
     expect(page.marks[otherRoutePool]).toBeUndefined();
+  });
+});
+
+describe("metal marks on the home page", () => {
+  it("marks the technician's pools of today as /visit does, with the company's own levels", async () => {
+    const page = (await callRoute(home.loader, requestAs(technician, "/"))).body as VisitPage;
+    expect(page.stops).toHaveLength(6);
+    // The same three pools as on /visit: M-1 blurred, M-2 0.15 not yet below 0.1, M-6 0.25 >= the company's 0.2.
+    expect(page.marks).toEqual({
+      [blurredOnly]: { suspected: true, openMetals: [] },
+      [copperStillOpen]: { suspected: false, openMetals: ["copper"] },
+      [belowDefaultButAboveCompany]: { suspected: false, openMetals: ["copper"] },
+    });
   });
 });
