@@ -9,6 +9,12 @@ import { addTest, createCompany, createMember, createPool, createRoute, type Fix
 import { callRoute } from "../fixtures/route-call";
 import { checkPageData, fixtureBytes, postCheckForm, upload, uploadFixture, useScratchUploadDir } from "./imports-helpers";
 import type { PlanSummary } from "~/.server/imports/plan";
+import { readdirSync } from "node:fs";
+
+/** Every file in the upload folder, by path. */
+function storedFiles(): string[] {
+  return readdirSync(process.env.PATINA_UPLOAD_DIR!, { recursive: true, encoding: "utf8" }).sort();
+}
 
 let companyId: number;
 let analyst: FixtureMember;
@@ -272,13 +278,19 @@ describe("saved mappings", () => {
 });
 
 describe("refusals", () => {
-  it("a file over the size cap gets 413 with a clear message", async () => {
+  it("a file over the size cap gets 413 with a clear message, and nothing of it is kept", async () => {
     process.env.PATINA_UPLOAD_MAX_MB = "0.001";
+    const filesBefore = storedFiles();
+    const uploadsBefore = await db().select({ n: count() }).from(importUploads);
     try {
+      // 5,000 bytes against a cap of 0.001 MB = 1,048.576 bytes (rounded to 1,049); no size is declared,
+      // so the parser stops on the actual bytes
       const outcome = await upload(analyst, "big.csv", new Uint8Array(5000).fill(65));
       expect(outcome.status).toBe(413);
       expect(outcome.body).toMatchObject({ error: { code: "payload_too_large", field: "file" } });
       expect((outcome.body as { error: { message: string } }).error.message).toContain("larger than");
+      expect(storedFiles()).toEqual(filesBefore);
+      expect(await db().select({ n: count() }).from(importUploads)).toEqual(uploadsBefore);
     } finally {
       delete process.env.PATINA_UPLOAD_MAX_MB;
     }

@@ -1,11 +1,13 @@
 import type { PoolConnection, ResultSetHeader, RowDataPacket } from "mysql2/promise";
 import { and, eq } from "drizzle-orm";
+import { ANALYTES, type AnalyteField, METAL_FIELDS } from "~/lib/imports/fields";
 import { readImportOptions } from "~/lib/imports/options";
 import { accountKey } from "~/lib/imports/match-keys";
 import { db, pool as connectionPool } from "../db/client";
 import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
 import type { Scope } from "../guard";
-import { type ImportPlan, type PlannedRow, planImport, type PlanSummary } from "./plan";
+import { type ImportPlan, planImport, type PlanSummary } from "./plan";
+import { PlannedRows } from "./planned-rows";
 import { findUpload, reportProgress } from "./uploads";
 import { afterWaterTestsSaved } from "../mail/alerts";
 
@@ -21,53 +23,51 @@ export type CommitResult =
   | { ok: true; batchId: number; testsAdded: number; treatmentsAdded: number; summary: PlanSummary }
   | { ok: false; status: 404 | 409 | 422; message: string };
 
+/** Column names of water_tests for each analyte, in ANALYTES order. */
+const ANALYTE_COLUMNS: Record<AnalyteField, string> = {
+  freeChlorine: "free_chlorine",
+  combinedChlorine: "combined_chlorine",
+  ph: "ph",
+  totalAlkalinity: "total_alkalinity",
+  calciumHardness: "calcium_hardness",
+  cyanuricAcid: "cyanuric_acid",
+  salt: "salt",
+  tds: "tds",
+  temperatureC: "temperature_c",
+  copper: "copper",
+  iron: "iron",
+  manganese: "manganese",
+};
+
 const TEST_COLUMNS = [
   "company_id",
   "pool_id",
   "sampled_at",
-  "free_chlorine",
-  "combined_chlorine",
-  "ph",
-  "total_alkalinity",
-  "calcium_hardness",
-  "cyanuric_acid",
-  "salt",
-  "tds",
-  "temperature_c",
-  "copper",
-  "copper_below_detection",
-  "iron",
-  "iron_below_detection",
-  "manganese",
-  "manganese_below_detection",
+  ...ANALYTES.map((field) => ANALYTE_COLUMNS[field]),
+  ...METAL_FIELDS.map((metal) => `${ANALYTE_COLUMNS[metal]}_below_detection`),
   "note",
   "import_batch_id",
-] as const;
+];
 
-function testValues(companyId: number, poolId: number, batchId: number, entry: PlannedRow) {
-  const t = entry.record.test!;
+function testValues(rows: PlannedRows, i: number, companyId: number, poolId: number, batchId: number) {
   return [
     companyId,
     poolId,
-    entry.record.sampledAt,
-    t.freeChlorine ?? null,
-    t.combinedChlorine ?? null,
-    t.ph ?? null,
-    t.totalAlkalinity ?? null,
-    t.calciumHardness ?? null,
-    t.cyanuricAcid ?? null,
-    t.salt ?? null,
-    t.tds ?? null,
-    t.temperatureC ?? null,
-    t.copper ?? null,
-    t.copperBelowDetection ?? false,
-    t.iron ?? null,
-    t.ironBelowDetection ?? false,
-    t.manganese ?? null,
-    t.manganeseBelowDetection ?? false,
-    t.note ?? null,
+    new Date(rows.sampledAt[i]!),
+    ...rows.readingsOf(i),
+    ...METAL_FIELDS.map((metal) => rows.has(i, PlannedRows.BELOW_DETECTION[metal])),
+    rows.notes[i] ?? null,
     batchId,
   ];
+}
+
+/** Indexes of the rows that carry a flag, in file order. */
+function rowsWith(rows: PlannedRows, flag: number): Uint32Array {
+  let count = 0;
+  for (let i = 0; i < rows.length; i++) if (rows.has(i, flag)) count++;
+  const out = new Uint32Array(count);
+  for (let i = 0, k = 0; i < rows.length; i++) if (rows.has(i, flag)) out[k++] = i;
+  return out;
 }
 
 /**
@@ -109,40 +109,49 @@ export async function commitUpload(scope: Scope, uploadId: string, hooks: Commit
     const batchId = await insertBatch(connection, scope, upload.fileName, upload.fileSha256, plan);
     const newPools = await createPools(connection, scope, plan);
     const newProducts = await createProducts(connection, scope, plan);
-    const poolIdOf = (entry: PlannedRow) => ("id" in entry.pool ? entry.pool.id : newPools.get(entry.pool.newKey)!);
+    const rows = plan.planned;
+    const poolIdOf = (i: number) => {
+      const pool = rows.pool[i]!;
+      return pool > 0 ? pool : newPools.get(rows.newPoolKeys[-pool - 1]!)!;
+    };
+    const productIdOf = (i: number) => {
+      const product = rows.product[i]!;
+      return product > 0 ? product : newProducts.get(rows.newProductKeys[-product - 1]!)!;
+    };
 
     let stored = 0;
-    const tests = plan.planned.filter((p) => p.testIsNew);
-    for (let i = 0; i < tests.length; i += INSERT_CHUNK) {
-      const chunk = tests.slice(i, i + INSERT_CHUNK);
+    const tests = rowsWith(rows, PlannedRows.TEST_IS_NEW);
+    for (let from = 0; from < tests.length; from += INSERT_CHUNK) {
+      const chunk = tests.subarray(from, from + INSERT_CHUNK);
       await connection.query(`INSERT INTO water_tests (${TEST_COLUMNS.join(", ")}) VALUES ?`, [
-        chunk.map((entry) => testValues(scope.companyId, poolIdOf(entry), batchId, entry)),
+        Array.from(chunk, (i) => testValues(rows, i, scope.companyId, poolIdOf(i), batchId)),
       ]);
       stored += chunk.length;
       await reportProgress(upload.id, { rowsDone: stored });
       await hooks.afterChunk?.({ table: "water_tests", stored, connectionId });
     }
 
-    const withTreatment = plan.planned.filter((p) => p.product !== null && p.record.treatment);
-    const testIds = withTreatment.some((p) => p.testIsNew) ? await storedTestIds(connection, batchId) : new Map<string, number>();
-    for (let i = 0; i < withTreatment.length; i += INSERT_CHUNK) {
-      const chunk = withTreatment.slice(i, i + INSERT_CHUNK);
+    const withTreatment = rowsWith(rows, PlannedRows.ADDS_TREATMENT);
+    const testIds = withTreatment.some((i) => rows.has(i, PlannedRows.TEST_IS_NEW))
+      ? await storedTestIds(connection, batchId)
+      : new Map<string, number>();
+    for (let from = 0; from < withTreatment.length; from += INSERT_CHUNK) {
+      const chunk = withTreatment.subarray(from, from + INSERT_CHUNK);
       await connection.query(
         "INSERT INTO treatments (company_id, pool_id, product_id, applied_at, amount, unit, cost, water_test_id, import_batch_id) VALUES ?",
         [
-          chunk.map((entry) => {
-            const poolId = poolIdOf(entry);
-            const product = entry.product!;
-            const treatment = entry.record.treatment!;
+          Array.from(chunk, (i) => {
+            const poolId = poolIdOf(i);
+            const cost = rows.cost[i]!;
             return [
               scope.companyId,
               poolId,
-              "id" in product ? product.id : newProducts.get(product.newKey)!,
-              entry.record.sampledAt,
-              treatment.amount,
-              treatment.unit,
-              treatment.cost,
-              testIds.get(`${poolId}|${entry.record.sampledAt.getTime()}`) ?? null,
+              productIdOf(i),
+              new Date(rows.sampledAt[i]!),
+              rows.amount[i]!,
+              rows.units[i]!,
+              Number.isNaN(cost) ? null : cost,
+              testIds.get(`${poolId}|${rows.sampledAt[i]}`) ?? null,
               batchId,
             ];
           }),
@@ -159,7 +168,7 @@ export async function commitUpload(scope: Scope, uploadId: string, hooks: Commit
     );
     await connection.commit();
     // Alerts look only at recent events, so years of history mail nobody.
-    void afterWaterTestsSaved(scope.companyId, [...new Set(tests.map(poolIdOf))]);
+    void afterWaterTestsSaved(scope.companyId, [...new Set(Array.from(tests, poolIdOf))]);
     return { ok: true, batchId, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
   } catch (error) {
     broken = true;

@@ -1,14 +1,15 @@
 import { and, eq, gte, inArray, lte } from "drizzle-orm";
-import { type DateOrderFinding, findDateOrder } from "~/lib/imports/dates";
+import { DateOrderEvidence, type DateOrderFinding } from "~/lib/imports/dates";
 import type { ImportOptions } from "~/lib/imports/options";
 import { accountKey, addressKey, productKey, unknownPoolKey } from "~/lib/imports/match-keys";
-import { type ImportRecord, type Refusal, validateRow } from "~/lib/imports/validate-row";
+import { type Refusal, type RowContext, validateRow } from "~/lib/imports/validate-row";
 import { db } from "../db/client";
 import { pools, products, treatments, waterTests } from "../db/schema";
 import type { Scope } from "../guard";
 import { poolsInScope } from "../queries/scope";
-import { type Delimiter, parseTable } from "./read-file";
-import { readUploadText, reportProgress, type UploadRow } from "./uploads";
+import { PlannedRows } from "./planned-rows";
+import { type Delimiter, ENCODING_NOTES, parseStoredFile } from "./read-file";
+import { reportProgress, storedPath, uploadEncoding, type UploadRow } from "./uploads";
 
 export type UnknownPool = {
   key: string;
@@ -22,15 +23,10 @@ export type UnknownPool = {
 
 export type UnknownProduct = { key: string; name: string; rows: number; create: boolean };
 
-/** A pool is an existing id, or one of the unknown pools the person chose to create. */
-export type PoolRef = { id: number } | { newKey: string };
-
-export type PlannedRow = { record: ImportRecord; pool: PoolRef; product: { id: number } | { newKey: string } | null; testIsNew: boolean };
-
 export type ImportPlan = {
   dateOrder: DateOrderFinding;
   rowsRead: number;
-  planned: PlannedRow[];
+  planned: PlannedRows;
   testsToAdd: number;
   treatmentsToAdd: number;
   duplicates: number;
@@ -52,13 +48,15 @@ export type PlanSummary = Omit<ImportPlan, "planned" | "refused"> & {
 
 const PROGRESS_EVERY = 5000;
 
-function instantKey(poolId: number | string, at: Date) {
-  return `${poolId}|${at.getTime()}`;
+function instantKey(poolId: number | string, at: number) {
+  return `${poolId}|${at}`;
 }
 
 /**
- * Reads the whole file with the chosen mapping and works out what a commit
- * would store: nothing is written except progress.
+ * Reads the file with the chosen mapping and works out what a commit would
+ * store: nothing is written except progress. The file is read as it streams,
+ * twice when a date column is mapped (its order must be known before any
+ * date is read); each accepted row is kept only in compact typed columns.
  */
 export async function planImport(
   scope: Scope,
@@ -67,20 +65,23 @@ export async function planImport(
   /** The phase to report progress under; null reads quietly (e.g. for the refused-rows download). */
   phase: "checking" | "committing" | null = "checking",
 ): Promise<{ plan: ImportPlan; summary: PlanSummary }> {
-  const report = async (values: Parameters<typeof reportProgress>[1]) => {
-    if (phase) await reportProgress(upload.id, values);
+  let reporting: Promise<void> = Promise.resolve();
+  /** Progress is written in order, without holding up the reading. */
+  const report = (values: Parameters<typeof reportProgress>[1]) => {
+    if (phase) reporting = reporting.then(() => reportProgress(upload.id, values));
   };
   const delimiter = (upload.delimiter ?? ",") as Delimiter;
-  // Only the parsed rows are kept, not the text, and they are let go once read.
-  const { table, encodingNote } = await readUploadText(upload).then((decoded) => ({
-    table: parseTable(decoded.text, delimiter),
-    encodingNote: decoded.note,
-  }));
-  const rowsRead = table.rows.length;
-  if (phase) await report({ phase, rowsDone: 0, rowsTotal: rowsRead, error: null });
+  const encoding = uploadEncoding(upload);
+  const path = storedPath(upload);
+  if (phase) report({ phase, rowsDone: 0, rowsTotal: upload.rowsTotal, error: null });
 
   const dateColumn = options.columns.findIndex((c) => c.field === "sampledAt");
-  const dateOrder = dateColumn < 0 ? ({ kind: "none" } as const) : findDateOrder(table.rows.map((r) => r.cells[dateColumn] ?? ""));
+  let dateOrder: DateOrderFinding = { kind: "none" };
+  if (dateColumn >= 0) {
+    const evidence = new DateOrderEvidence();
+    await parseStoredFile(path, encoding, delimiter, (_row, cells) => evidence.add(cells[dateColumn] ?? ""));
+    dateOrder = evidence.finding();
+  }
   const chosenOrder = options.dateOrder ?? (dateOrder.kind === "known" ? dateOrder.order : null);
 
   const poolRows = await db()
@@ -96,42 +97,31 @@ export async function planImport(
     .where(eq(products.companyId, scope.companyId));
   const productByKey = new Map(productRows.map((p) => [productKey(p.name), p.id]));
 
-  const context = {
-    headers: table.headers,
-    columns: options.columns,
-    dateOrder: chosenOrder,
-    timeZone: scope.timeZone,
-    style: { decimalComma: delimiter !== "," },
-  };
   const createPools = new Set(options.createPools);
   const createProducts = new Set(options.createProducts);
   const unknownPools = new Map<string, UnknownPool>();
   const unknownProducts = new Map<string, UnknownProduct>();
   const refused: Refusal[] = [];
+  let rowsRead = 0;
   let refusedRows = 0;
   let leftOutUnknownPool = 0;
   let pHWarnings = 0;
-  const accepted: Array<{ record: ImportRecord; pool: PoolRef; product: PlannedRow["product"] }> = [];
+  const accepted = new PlannedRows();
+  let context: RowContext | null = null;
 
-  for (let i = 0; i < rowsRead; i++) {
-    if (i > 0 && i % PROGRESS_EVERY === 0) await report({ rowsDone: i });
-    const { row, cells } = table.rows[i]!;
-    table.rows[i] = undefined as never;
-    const result = validateRow(cells, row, context);
+  const readRow = (row: number, cells: string[]) => {
+    const result = validateRow(cells, row, context!);
     if (!result.ok) {
-      refused.push(...result.refusals);
+      for (const refusal of result.refusals) refused.push(refusal);
       refusedRows++;
-      continue;
+      return;
     }
     const record = result.record;
     if (record.test?.ph !== undefined && (record.test.ph < 6 || record.test.ph > 9)) pHWarnings++;
-    const poolId =
+    let pool =
       (record.accountCode ? byCode.get(accountKey(record.accountCode)) : undefined) ??
       (record.address ? byAddress.get(addressKey(record.address)) : undefined);
-    let pool: PoolRef;
-    if (poolId !== undefined) {
-      pool = { id: poolId };
-    } else {
+    if (pool === undefined) {
       const key = unknownPoolKey(record.accountCode, record.address);
       const listed = unknownPools.get(key) ?? {
         key,
@@ -148,63 +138,49 @@ export async function planImport(
       unknownPools.set(key, listed);
       if (!listed.create) {
         leftOutUnknownPool++;
-        continue;
+        return;
       }
-      pool = { newKey: key };
+      pool = accepted.newPool(key);
     }
-    let product: PlannedRow["product"] = null;
+    let product = 0;
     if (record.treatment) {
       const key = productKey(record.treatment.product);
       const id = productByKey.get(key);
-      if (id !== undefined) product = { id };
+      if (id !== undefined) product = id;
       else {
         const listed = unknownProducts.get(key) ?? { key, name: record.treatment.product, rows: 0, create: createProducts.has(key) };
         listed.rows++;
         unknownProducts.set(key, listed);
-        product = listed.create ? { newKey: key } : null;
+        if (listed.create) product = accepted.newProduct(key);
       }
     }
-    accepted.push({ record, pool, product });
-  }
+    accepted.add(record, pool, product);
+  };
 
-  const existing = await existingTests(scope, accepted);
-  const existingTreatments = await existingTreatmentKeys(scope, accepted);
-  const planned: PlannedRow[] = [];
-  const seen = new Set<string>();
-  let duplicates = 0;
-  let testsToAdd = 0;
-  let treatmentsToAdd = 0;
-  for (const entry of accepted) {
-    const poolKey = "id" in entry.pool ? entry.pool.id : `new:${entry.pool.newKey}`;
-    const key = instantKey(poolKey, entry.record.sampledAt);
-    const testIsNew = entry.record.test !== null && !existing.has(key) && !seen.has(key);
-    if (entry.record.test) seen.add(key);
-    let product = entry.product;
-    if (product && entry.record.treatment) {
-      const productRef = "id" in product ? product.id : `new:${product.newKey}`;
-      const treatmentKey = `${key}|${productRef}|${entry.record.treatment.amount}`;
-      if (existingTreatments.has(treatmentKey) || seen.has(treatmentKey)) product = null;
-      seen.add(treatmentKey);
-    }
-    const addsTreatment = product !== null && entry.record.treatment !== null;
-    if (!testIsNew && !addsTreatment) {
-      duplicates++;
-      continue;
-    }
-    if (testIsNew) testsToAdd++;
-    if (addsTreatment) treatmentsToAdd++;
-    planned.push({ record: entry.record, pool: entry.pool, product: addsTreatment ? product : null, testIsNew });
-  }
-  table.rows.length = 0;
-  await report({ rowsDone: rowsRead });
+  await parseStoredFile(
+    path,
+    encoding,
+    delimiter,
+    (row, cells) => {
+      rowsRead++;
+      if (rowsRead % PROGRESS_EVERY === 0) report({ rowsDone: rowsRead });
+      readRow(row, cells);
+    },
+    (headers) => {
+      context = { headers, columns: options.columns, dateOrder: chosenOrder, timeZone: scope.timeZone, style: { decimalComma: delimiter !== "," } };
+    },
+  );
+  await reporting;
+
+  const counts = await markNewRows(scope, accepted);
+  report({ rowsDone: rowsRead, rowsTotal: rowsRead });
+  await reporting;
 
   const plan: ImportPlan = {
     dateOrder,
     rowsRead,
-    planned,
-    testsToAdd,
-    treatmentsToAdd,
-    duplicates,
+    planned: accepted,
+    ...counts,
     refused,
     refusedRows,
     leftOutUnknownPool,
@@ -212,45 +188,78 @@ export async function planImport(
     unknownProducts: [...unknownProducts.values()],
     pHWarnings,
   };
-  const { planned: _planned, refused: _refused, ...counts } = plan;
+  const { planned: _planned, refused: _refused, ...figures } = plan;
   return {
     plan,
     summary: {
-      ...counts,
-      unknownPools: counts.unknownPools.slice(0, 500),
+      ...figures,
+      unknownPools: figures.unknownPools.slice(0, 500),
       refusedSample: refused.slice(0, 100),
-      encodingNote,
+      encodingNote: ENCODING_NOTES[encoding],
       delimiter,
       checkedAt: new Date().toISOString(),
     },
   };
 }
 
-function timeRange(entries: Array<{ record: ImportRecord }>) {
+/**
+ * Marks which accepted rows add a test and which add a treatment: a test is
+ * new unless the same pool has one at the same instant (stored, or earlier in
+ * the file); a treatment is new unless the same pool, instant, product and
+ * amount are already there. A row adding neither is a duplicate.
+ */
+async function markNewRows(scope: Scope, rows: PlannedRows) {
+  const existing = await existingTests(scope, rows);
+  const existingTreatments = await existingTreatmentKeys(scope, rows);
+  const seen = new Set<string>();
+  let duplicates = 0;
+  let testsToAdd = 0;
+  let treatmentsToAdd = 0;
+  for (let i = 0; i < rows.length; i++) {
+    const pool = rows.pool[i]!;
+    const key = instantKey(pool > 0 ? pool : `new:${rows.newPoolKeys[-pool - 1]}`, rows.sampledAt[i]!);
+    const hasTest = rows.has(i, PlannedRows.HAS_TEST);
+    const testIsNew = hasTest && !existing.has(key) && !seen.has(key);
+    if (hasTest) seen.add(key);
+    let addsTreatment = false;
+    const product = rows.product[i]!;
+    if (product !== 0) {
+      const productRef = product > 0 ? product : `new:${rows.newProductKeys[-product - 1]}`;
+      const treatmentKey = `${key}|${productRef}|${rows.amount[i]}`;
+      addsTreatment = !existingTreatments.has(treatmentKey) && !seen.has(treatmentKey);
+      seen.add(treatmentKey);
+    }
+    rows.mark(i, PlannedRows.TEST_IS_NEW, testIsNew);
+    rows.mark(i, PlannedRows.ADDS_TREATMENT, addsTreatment);
+    if (!testIsNew && !addsTreatment) duplicates++;
+    if (testIsNew) testsToAdd++;
+    if (addsTreatment) treatmentsToAdd++;
+  }
+  return { testsToAdd, treatmentsToAdd, duplicates };
+}
+
+/** Stored pools among the rows (and the time span they cover), optionally only rows with a treatment. */
+function knownPoolSpan(rows: PlannedRows, treatmentsOnly: boolean) {
+  const ids = new Set<number>();
   let min = Infinity;
   let max = -Infinity;
-  for (const { record } of entries) {
-    const t = record.sampledAt.getTime();
+  for (let i = 0; i < rows.length; i++) {
+    if (treatmentsOnly && rows.product[i] === 0) continue;
+    const pool = rows.pool[i]!;
+    if (pool > 0) ids.add(pool);
+    const t = rows.sampledAt[i]!;
     if (t < min) min = t;
     if (t > max) max = t;
   }
-  return { from: new Date(min), to: new Date(max) };
-}
-
-function knownPoolIds(entries: Array<{ pool: PoolRef }>): number[] {
-  const ids = new Set<number>();
-  for (const { pool } of entries) if ("id" in pool) ids.add(pool.id);
-  return [...ids];
+  return { ids: [...ids], from: new Date(min), to: new Date(max) };
 }
 
 /** Tests already stored for the file's pools within the file's time span, as pool|instant keys. */
-async function existingTests(scope: Scope, entries: Array<{ record: ImportRecord; pool: PoolRef }>) {
-  const ids = knownPoolIds(entries);
+async function existingTests(scope: Scope, rows: PlannedRows) {
+  const { ids, from, to } = knownPoolSpan(rows, false);
   const keys = new Set<string>();
-  if (ids.length === 0) return keys;
-  const { from, to } = timeRange(entries);
   for (let i = 0; i < ids.length; i += 1000) {
-    const rows = await db()
+    const found = await db()
       .select({ poolId: waterTests.poolId, sampledAt: waterTests.sampledAt })
       .from(waterTests)
       .where(
@@ -261,20 +270,17 @@ async function existingTests(scope: Scope, entries: Array<{ record: ImportRecord
           lte(waterTests.sampledAt, to),
         ),
       );
-    for (const row of rows) keys.add(instantKey(row.poolId, row.sampledAt));
+    for (const row of found) keys.add(instantKey(row.poolId, row.sampledAt.getTime()));
   }
   return keys;
 }
 
 /** Treatments already stored: the same pool, time, product and amount count as the same treatment. */
-async function existingTreatmentKeys(scope: Scope, entries: Array<{ record: ImportRecord; pool: PoolRef }>) {
-  const withTreatment = entries.filter((e) => e.record.treatment);
-  const ids = knownPoolIds(withTreatment);
+async function existingTreatmentKeys(scope: Scope, rows: PlannedRows) {
+  const { ids, from, to } = knownPoolSpan(rows, true);
   const keys = new Set<string>();
-  if (ids.length === 0) return keys;
-  const { from, to } = timeRange(withTreatment);
   for (let i = 0; i < ids.length; i += 1000) {
-    const rows = await db()
+    const found = await db()
       .select({ poolId: treatments.poolId, appliedAt: treatments.appliedAt, productId: treatments.productId, amount: treatments.amount })
       .from(treatments)
       .where(
@@ -285,7 +291,7 @@ async function existingTreatmentKeys(scope: Scope, entries: Array<{ record: Impo
           lte(treatments.appliedAt, to),
         ),
       );
-    for (const row of rows) keys.add(`${instantKey(row.poolId, row.appliedAt)}|${row.productId}|${row.amount}`);
+    for (const row of found) keys.add(`${instantKey(row.poolId, row.appliedAt.getTime())}|${row.productId}|${row.amount}`);
   }
   return keys;
 }

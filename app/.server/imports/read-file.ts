@@ -1,3 +1,5 @@
+import { createReadStream } from "node:fs";
+import { Readable } from "node:stream";
 import Papa from "papaparse";
 
 export type Encoding = "utf-8" | "windows-1252";
@@ -5,24 +7,82 @@ export type Delimiter = "," | ";" | "\t";
 
 export type DecodedText = { text: string; encoding: Encoding; hadBom: boolean; note: string };
 
+export const ENCODING_NOTES: Record<Encoding, string> = {
+  "utf-8": "Read as UTF-8.",
+  "windows-1252":
+    "The file is not valid UTF-8, so it was read as Windows-1252 (the usual encoding of older spreadsheet exports). Check that names with accents look right.",
+};
+
+function startsWithBom(bytes: Uint8Array): boolean {
+  return bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+}
+
 /**
  * Reads the bytes as UTF-8 when they are valid UTF-8, otherwise as
  * Windows-1252 (what older spreadsheet programs save), and says which.
  */
 export function decodeBytes(bytes: Uint8Array): DecodedText {
-  const hadBom = bytes[0] === 0xef && bytes[1] === 0xbb && bytes[2] === 0xbf;
+  const hadBom = startsWithBom(bytes);
   const body = hadBom ? bytes.subarray(3) : bytes;
   try {
     const text = new TextDecoder("utf-8", { fatal: true, ignoreBOM: true }).decode(body);
-    return { text, encoding: "utf-8", hadBom, note: "Read as UTF-8." };
+    return { text, encoding: "utf-8", hadBom, note: ENCODING_NOTES["utf-8"] };
   } catch {
     const text = new TextDecoder("windows-1252").decode(body);
-    return {
-      text,
-      encoding: "windows-1252",
-      hadBom,
-      note: "The file is not valid UTF-8, so it was read as Windows-1252 (the usual encoding of older spreadsheet exports). Check that names with accents look right.",
-    };
+    return { text, encoding: "windows-1252", hadBom, note: ENCODING_NOTES["windows-1252"] };
+  }
+}
+
+/**
+ * Tells, a piece at a time, whether bytes are valid UTF-8 (a character split
+ * between two pieces is fine). The file is written once and checked on the way.
+ */
+export class Utf8Check {
+  #decoder = new TextDecoder("utf-8", { fatal: true, ignoreBOM: true });
+  #valid = true;
+
+  push(bytes: Uint8Array) {
+    if (!this.#valid) return;
+    try {
+      this.#decoder.decode(bytes, { stream: true });
+    } catch {
+      this.#valid = false;
+    }
+  }
+
+  /** Whether every byte pushed was valid UTF-8, including the last character. */
+  end(): boolean {
+    if (!this.#valid) return false;
+    try {
+      this.#decoder.decode();
+    } catch {
+      this.#valid = false;
+    }
+    return this.#valid;
+  }
+}
+
+/** Large pieces: the first one is what the line-ending guess looks at, as when the text was read whole. */
+const READ_PIECE = 1024 * 1024;
+
+/**
+ * The text of a stored file a piece at a time, in the encoding found when it
+ * was uploaded, without its byte-order mark. `limitBytes` reads only the start.
+ */
+export async function* readFileText(path: string, encoding: Encoding, limitBytes?: number): AsyncGenerator<string> {
+  const decoder = new TextDecoder(encoding, { fatal: encoding === "utf-8", ignoreBOM: true });
+  const stream = createReadStream(path, { highWaterMark: READ_PIECE, ...(limitBytes ? { end: limitBytes - 1 } : {}) });
+  let first = true;
+  for await (const chunk of stream as AsyncIterable<Buffer>) {
+    const bytes = first && startsWithBom(chunk) ? chunk.subarray(3) : chunk;
+    first = false;
+    const text = decoder.decode(bytes, { stream: true });
+    if (text) yield text;
+  }
+  // A read cut short may end inside a character; that part is left out.
+  if (!limitBytes) {
+    const rest = decoder.decode();
+    if (rest) yield rest;
   }
 }
 
@@ -59,6 +119,53 @@ function isBlank(cells: string[]): boolean {
   return cells.every((cell) => cell.trim() === "");
 }
 
+function headerNames(cells: string[]): string[] {
+  let headers = cells.map((h) => h.trim());
+  while (headers.length > 0 && headers[headers.length - 1] === "") headers = headers.slice(0, -1);
+  return headers;
+}
+
+/**
+ * Parses a stored file as it is read, by the same rules as parseTable, handing
+ * each data record to `onRow` and keeping none of them. Resolves with the headers.
+ */
+export function parseStoredFile(
+  path: string,
+  encoding: Encoding,
+  delimiter: Delimiter,
+  onRow: (row: number, cells: string[]) => void,
+  onHeaders?: (headers: string[]) => void,
+): Promise<{ headers: string[] }> {
+  const source = Readable.from(readFileText(path, encoding));
+  let record = 0;
+  let headers: string[] | null = null;
+  let width = 1;
+  return new Promise((resolve, reject) => {
+    Papa.parse<string[]>(source, {
+      delimiter,
+      skipEmptyLines: false,
+      chunk: ({ data }) => {
+        for (const cells of data) {
+          record++;
+          if (isBlank(cells)) continue;
+          if (headers === null) {
+            headers = headerNames(cells);
+            width = Math.max(headers.length, 1);
+            onHeaders?.(headers);
+            continue;
+          }
+          onRow(record, cells.length > width ? cells.slice(0, width) : cells);
+        }
+      },
+      complete: () => resolve({ headers: headers ?? [] }),
+      error: (error) => {
+        source.destroy();
+        reject(error);
+      },
+    });
+  });
+}
+
 /**
  * Parses the whole text. Blank lines are skipped but still counted, so row
  * numbers match the spreadsheet. Trailing separators (empty last cells with
@@ -68,9 +175,7 @@ export function parseTable(text: string, delimiter: Delimiter, preview = 0): Par
   const { data } = Papa.parse<string[]>(text, { delimiter, newline: undefined, skipEmptyLines: false, preview });
   let index = 0;
   while (index < data.length && isBlank(data[index]!)) index++;
-  const headerRow = data[index] ?? [];
-  let headers = headerRow.map((h) => h.trim());
-  while (headers.length > 0 && headers[headers.length - 1] === "") headers = headers.slice(0, -1);
+  const headers = headerNames(data[index] ?? []);
   const rows: ParsedTable["rows"] = [];
   for (let i = index + 1; i < data.length; i++) {
     const cells = data[i]!;

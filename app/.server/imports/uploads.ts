@@ -1,6 +1,8 @@
 import { createHash, randomUUID } from "node:crypto";
-import { mkdir, readFile, writeFile } from "node:fs/promises";
+import { createWriteStream } from "node:fs";
+import { mkdir, rm } from "node:fs/promises";
 import { dirname, join } from "node:path";
+import { pipeline } from "node:stream/promises";
 import { and, desc, eq, notInArray } from "drizzle-orm";
 import { type ColumnMapping, unitsFor } from "~/lib/imports/fields";
 import type { ImportOptions } from "~/lib/imports/options";
@@ -9,44 +11,106 @@ import { db } from "../db/client";
 import { companies, importMappings, importUploads } from "../db/schema";
 import type { Scope } from "../guard";
 import { importConfig } from "./config";
-import { decodeBytes, type Delimiter, detectDelimiter, parseTable } from "./read-file";
+import {
+  type Delimiter,
+  detectDelimiter,
+  type Encoding,
+  ENCODING_NOTES,
+  parseStoredFile,
+  parseTable,
+  readFileText,
+  Utf8Check,
+} from "./read-file";
 
 export type UploadRow = typeof importUploads.$inferSelect;
 
 export class UploadTooLarge extends Error {}
 
-/** Keeps the file on disk, reads its shape, proposes a mapping, and records the upload. */
-export async function storeUpload(scope: Scope, fileName: string, bytes: Uint8Array): Promise<string> {
-  const { uploadDir, maxBytes } = importConfig();
-  if (bytes.byteLength > maxBytes) throw new UploadTooLarge();
+/** A file written into the upload folder, with what was learnt while writing it. */
+export type StoredFile = { id: string; storedAs: string; byteSize: number; sha256: string; encoding: Encoding };
+
+export function storedPath(file: Pick<UploadRow, "storedAs">): string {
+  return join(importConfig().uploadDir, file.storedAs);
+}
+
+/**
+ * Writes a file into the upload folder as its bytes arrive, hashing, counting
+ * and checking for UTF-8 on the way; nothing is held beyond the piece in hand.
+ * Past the size cap it stops, removes what it wrote and throws UploadTooLarge.
+ */
+export async function writeUploadFile(scope: Scope, source: AsyncIterable<Uint8Array> | Iterable<Uint8Array>): Promise<StoredFile> {
+  const { maxBytes } = importConfig();
   const id = randomUUID();
   const storedAs = join(String(scope.companyId), `${id}.csv`);
-  const path = join(uploadDir, storedAs);
+  const path = storedPath({ storedAs });
   await mkdir(dirname(path), { recursive: true });
-  await writeFile(path, bytes);
+  const hash = createHash("sha256");
+  const utf8 = new Utf8Check();
+  let byteSize = 0;
+  async function* measured() {
+    for await (const piece of source) {
+      byteSize += piece.byteLength;
+      if (byteSize > maxBytes) throw new UploadTooLarge();
+      hash.update(piece);
+      utf8.push(piece);
+      yield piece;
+    }
+  }
+  try {
+    await pipeline(measured, createWriteStream(path, { flags: "wx" }));
+  } catch (error) {
+    await rm(path, { force: true });
+    throw error;
+  }
+  return { id, storedAs, byteSize, sha256: hash.digest("hex"), encoding: utf8.end() ? "utf-8" : "windows-1252" };
+}
 
-  const decoded = decodeBytes(bytes);
-  const delimiter = detectDelimiter(decoded.text);
-  const table = parseTable(decoded.text, delimiter);
-  const columns = await proposeForCompany(scope, table.headers);
-  const options: ImportOptions = { columns, dateOrder: null, createPools: [], createProducts: [] };
+export async function removeStoredFile(file: Pick<StoredFile, "storedAs">) {
+  await rm(storedPath(file), { force: true });
+}
 
-  await db()
-    .insert(importUploads)
-    .values({
-      id,
-      companyId: scope.companyId,
-      userId: scope.userId,
-      fileName: fileName.slice(0, 255) || "upload.csv",
-      byteSize: bytes.byteLength,
-      fileSha256: createHash("sha256").update(bytes).digest("hex"),
-      storedAs,
-      encoding: decoded.encoding,
-      delimiter,
-      rowsTotal: table.rows.length,
-      options,
+async function textStart(path: string, encoding: Encoding, bytes: number): Promise<string> {
+  let text = "";
+  for await (const piece of readFileText(path, encoding, bytes)) text += piece;
+  return text;
+}
+
+/** Reads the stored file's shape as it streams, proposes a mapping, and records the upload. */
+export async function registerUpload(scope: Scope, fileName: string, file: StoredFile): Promise<string> {
+  try {
+    const path = storedPath(file);
+    const delimiter = detectDelimiter(await textStart(path, file.encoding, 64 * 1024));
+    let rowsTotal = 0;
+    const { headers } = await parseStoredFile(path, file.encoding, delimiter, () => {
+      rowsTotal++;
     });
-  return id;
+    const columns = await proposeForCompany(scope, headers);
+    const options: ImportOptions = { columns, dateOrder: null, createPools: [], createProducts: [] };
+    await db()
+      .insert(importUploads)
+      .values({
+        id: file.id,
+        companyId: scope.companyId,
+        userId: scope.userId,
+        fileName: fileName.slice(0, 255) || "upload.csv",
+        byteSize: file.byteSize,
+        fileSha256: file.sha256,
+        storedAs: file.storedAs,
+        encoding: file.encoding,
+        delimiter,
+        rowsTotal,
+        options,
+      });
+    return file.id;
+  } catch (error) {
+    await removeStoredFile(file);
+    throw error;
+  }
+}
+
+/** Keeps a file already in memory (scripts and tests): the same path as an upload. */
+export async function storeUpload(scope: Scope, fileName: string, bytes: Uint8Array): Promise<string> {
+  return registerUpload(scope, fileName, await writeUploadFile(scope, [bytes]));
 }
 
 /** A saved mapping that names every header wins; otherwise the headers are read one by one. */
@@ -77,16 +141,20 @@ export async function findUpload(scope: Scope, uploadId: string): Promise<Upload
   return row ?? null;
 }
 
-export async function readUploadText(upload: UploadRow) {
-  const bytes = await readFile(join(importConfig().uploadDir, upload.storedAs));
-  return decodeBytes(bytes);
+export function uploadEncoding(upload: UploadRow): Encoding {
+  return upload.encoding === "windows-1252" ? "windows-1252" : "utf-8";
 }
 
-/** Headers and the first rows, for the mapping editor. */
+/** Headers and the first rows, for the mapping editor: only the start of the file is read. */
 export async function uploadSample(upload: UploadRow, rows = 5) {
-  const decoded = await readUploadText(upload);
-  const table = parseTable(decoded.text, (upload.delimiter ?? ",") as Delimiter, rows + 50);
-  return { headers: table.headers, rows: table.rows.slice(0, rows), encodingNote: decoded.note };
+  const encoding = uploadEncoding(upload);
+  const readBytes = 1024 * 1024;
+  const text = await textStart(storedPath(upload), encoding, readBytes);
+  const table = parseTable(text, (upload.delimiter ?? ",") as Delimiter, rows + 50);
+  // A start cut short may end inside a record: that record is not shown.
+  const whole = upload.byteSize <= readBytes;
+  const complete = whole ? table.rows : table.rows.slice(0, -1);
+  return { headers: table.headers, rows: complete.slice(0, rows), encodingNote: ENCODING_NOTES[encoding] };
 }
 
 export async function uploadsInProgress(scope: Scope) {

@@ -14,39 +14,53 @@ const ISO = /^(\d{4})[-/](\d{1,2})[-/](\d{1,2})(?:[T\s]+(.+))?$/;
 const SLASHED = /^(\d{1,2})[/.-](\d{1,2})[/.-](\d{2,4})(?:[T\s,]+(.+))?$/;
 const TIME = /^(\d{1,2})[:.](\d{2})(?::(\d{2})(?:\.\d+)?)?\s*([ap]\.?m\.?)?$/i;
 
-/** Looks at every date cell: a first part above 12 means day first, a second part above 12 month first. */
-export function findDateOrder(cells: Iterable<string>): DateOrderFinding {
-  let slashed = 0;
-  let iso = 0;
-  let dayFirstProof: string | null = null;
-  let monthFirstProof: string | null = null;
-  for (const raw of cells) {
+/** Gathers what date cells say about their order, one cell at a time (a file is read as it streams). */
+export class DateOrderEvidence {
+  #slashed = 0;
+  #iso = 0;
+  #dayFirstProof: string | null = null;
+  #monthFirstProof: string | null = null;
+
+  add(raw: string) {
     const cell = raw.trim();
     if (ISO.test(cell)) {
-      iso++;
-      continue;
+      this.#iso++;
+      return;
     }
     const match = SLASHED.exec(cell);
-    if (!match) continue;
-    slashed++;
+    if (!match) return;
+    this.#slashed++;
     const first = Number(match[1]);
     const second = Number(match[2]);
-    if (first > 12 && second <= 12) dayFirstProof ??= cell;
-    if (second > 12 && first <= 12) monthFirstProof ??= cell;
+    if (first > 12 && second <= 12) this.#dayFirstProof ??= cell;
+    if (second > 12 && first <= 12) this.#monthFirstProof ??= cell;
   }
-  if (slashed === 0) return iso > 0 ? { kind: "iso" } : { kind: "none" };
-  if (dayFirstProof && monthFirstProof) {
+
+  /** A first part above 12 means day first, a second part above 12 month first. */
+  finding(): DateOrderFinding {
+    const dayFirstProof = this.#dayFirstProof;
+    const monthFirstProof = this.#monthFirstProof;
+    if (this.#slashed === 0) return this.#iso > 0 ? { kind: "iso" } : { kind: "none" };
+    if (dayFirstProof && monthFirstProof) {
+      return {
+        kind: "conflicting",
+        reason: `"${dayFirstProof}" can only be day first and "${monthFirstProof}" only month first`,
+      };
+    }
+    if (dayFirstProof) return { kind: "known", order: "dmy", reason: `"${dayFirstProof}" can only be day first` };
+    if (monthFirstProof) return { kind: "known", order: "mdy", reason: `"${monthFirstProof}" can only be month first` };
     return {
-      kind: "conflicting",
-      reason: `"${dayFirstProof}" can only be day first and "${monthFirstProof}" only month first`,
+      kind: "ambiguous",
+      reason: `none of the ${this.#slashed} dates shows a day above 12, so 03/04 could be 3 April or 4 March`,
     };
   }
-  if (dayFirstProof) return { kind: "known", order: "dmy", reason: `"${dayFirstProof}" can only be day first` };
-  if (monthFirstProof) return { kind: "known", order: "mdy", reason: `"${monthFirstProof}" can only be month first` };
-  return {
-    kind: "ambiguous",
-    reason: `none of the ${slashed} dates shows a day above 12, so 03/04 could be 3 April or 4 March`,
-  };
+}
+
+/** Looks at every date cell: a first part above 12 means day first, a second part above 12 month first. */
+export function findDateOrder(cells: Iterable<string>): DateOrderFinding {
+  const evidence = new DateOrderEvidence();
+  for (const cell of cells) evidence.add(cell);
+  return evidence.finding();
 }
 
 export type ParsedInstant = { ok: true; value: Date; hadTime: boolean } | { ok: false; reason: string };

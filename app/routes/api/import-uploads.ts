@@ -1,7 +1,7 @@
 import { redirect } from "react-router";
 import { apiError, requireApiMember } from "~/.server/guard";
 import { importConfig } from "~/.server/imports/config";
-import { storeUpload, UploadTooLarge } from "~/.server/imports/uploads";
+import { FORM_MARGIN_BYTES, receiveUpload } from "~/.server/imports/receive-upload";
 import type { Route } from "./+types/import-uploads";
 
 function tooLarge(maxBytes: number) {
@@ -20,26 +20,13 @@ export async function action({ request }: Route.ActionArgs) {
   const { maxBytes } = importConfig();
   // Refuse before reading: the multipart envelope adds a little, so allow a small margin.
   const declared = Number(request.headers.get("Content-Length") ?? NaN);
-  if (Number.isFinite(declared) && declared > maxBytes + 64 * 1024) throw tooLarge(maxBytes);
+  if (Number.isFinite(declared) && declared > maxBytes + FORM_MARGIN_BYTES) throw tooLarge(maxBytes);
 
-  let form: FormData;
-  try {
-    form = await request.formData();
-  } catch {
-    throw apiError(400, "invalid_parameter", "The upload is not a multipart form with a file in it.", "file");
+  const received = await receiveUpload(scope, request);
+  if (!received.ok) {
+    throw received.status === 413 ? tooLarge(maxBytes) : apiError(400, "invalid_parameter", received.message, "file");
   }
-  const file = form.get("file");
-  if (!(file instanceof File) || file.size === 0) {
-    throw apiError(400, "invalid_parameter", "Choose a CSV file to upload; the form arrived without one or with an empty file.", "file");
-  }
-  if (file.size > maxBytes) throw tooLarge(maxBytes);
-  let uploadId: string;
-  try {
-    uploadId = await storeUpload(scope, file.name, new Uint8Array(await file.arrayBuffer()));
-  } catch (error) {
-    if (error instanceof UploadTooLarge) throw tooLarge(maxBytes);
-    throw error;
-  }
+  const { uploadId } = received;
   if ((request.headers.get("Accept") ?? "").includes("application/json")) {
     return Response.json({ uploadId, next: `/imports/${uploadId}` }, { status: 201 });
   }
