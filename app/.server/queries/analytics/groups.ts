@@ -50,14 +50,26 @@ function groupNames(dataset: MetalDataset, grouping: GroupingKey): Map<string, s
  * observed time runs from its first to its last test in the window; for
  * heater age and exchanger metal it is split at the dates the answer changes.
  */
-export function computeGroupFigures(dataset: MetalDataset, grouping: GroupingKey, metal: Metal | null): GroupFigures {
+type Instant = { poolId: string; takenAt: number };
+
+/** The instants bounding each pool's observed time, split where the pool's group of this dimension changes. */
+function groupingInstants(dataset: MetalDataset, grouping: GroupingKey): Instant[] {
   const profiles = new Map(dataset.book.profiles.map((p) => [p.poolId, p]));
-  const instants: Array<{ poolId: string; takenAt: number }> = [];
+  const instants: Instant[] = [];
   for (const span of dataset.spans) {
     const pool = profiles.get(span.poolId);
     if (!pool) continue;
     for (const takenAt of observationInstants(pool, span.firstAt, span.lastAt, grouping)) instants.push({ poolId: span.poolId, takenAt });
   }
+  return instants;
+}
+
+export function computeGroupFigures(
+  dataset: MetalDataset,
+  grouping: GroupingKey,
+  metal: Metal | null,
+  instants: readonly Instant[] = groupingInstants(dataset, grouping),
+): GroupFigures {
   const observations = groupObservations(dataset.book.profiles, instants, dataset.history.episodes, grouping, metal ? { metal } : {});
   const stats = compareGroups(observations);
   const names = groupNames(dataset, grouping);
@@ -93,9 +105,11 @@ export type RiskyGroup = GroupFigure & { grouping: GroupingKey; metal: Metal };
 /** Every group flagged risky, over all dimensions and each metal of the dataset. */
 export function computeRiskyGroups(dataset: MetalDataset): RiskyGroup[] {
   const risky: RiskyGroup[] = [];
+  // The observed time does not depend on the metal: work it out once per dimension.
+  const instants = new Map(GROUPING_KEYS.map((grouping) => [grouping, groupingInstants(dataset, grouping)]));
   for (const metal of dataset.metals) {
     for (const grouping of GROUPING_KEYS) {
-      for (const g of computeGroupFigures(dataset, grouping, metal).groups) {
+      for (const g of computeGroupFigures(dataset, grouping, metal, instants.get(grouping)).groups) {
         if (g.risky) risky.push({ ...g, grouping, metal });
       }
     }

@@ -1,5 +1,5 @@
 import { and, count, eq, inArray, isNotNull } from "drizzle-orm";
-import { analyseMetalHistory } from "@analysis/metals/episodes";
+import { analyseMetalHistory, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/shared-source";
 import { isoInstant } from "~/lib/analytics/json";
@@ -41,6 +41,30 @@ export async function sharedSourceAlertList(
   scope: Scope,
   params: AnalyticsParams & { sourceIds?: readonly number[] },
 ): Promise<SharedSourceAlerts> {
+  const { alerts, sourcesWatched } = await sourceAlertsWithReadings(scope, params, params.metal ? [params.metal] : METALS);
+  return { alerts, sourcesWatched };
+}
+
+/** Readings kept to one metal, as they would have been read for it alone. */
+function onlyMetal(readings: readonly MetalTest[], metal: Metal): MetalTest[] {
+  const kept: MetalTest[] = [];
+  for (const r of readings) {
+    if (!r[metal]) continue;
+    kept.push({ ...r, copper: null, iron: null, manganese: null, [metal]: r[metal] });
+  }
+  return kept;
+}
+
+/**
+ * The alerts, and the readings they were worked out from: every pool of the
+ * company on the watched sources, with the metals asked to be read (at least
+ * the alert's metal), so a caller needing the same rows does not read them again.
+ */
+export async function sourceAlertsWithReadings(
+  scope: Scope,
+  params: AnalyticsParams & { sourceIds?: readonly number[] },
+  metalsToRead: readonly Metal[],
+): Promise<SharedSourceAlerts & { readings: MetalTest[] }> {
   const visibleSources = await db()
     .selectDistinct({ id: pools.fillSourceId })
     .from(pools)
@@ -52,7 +76,7 @@ export async function sharedSourceAlertList(
       ),
     );
   const sourceIds = visibleSources.map((s) => s.id!).filter((id) => id !== null);
-  if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0 };
+  if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0, readings: [] };
 
   const companyScope: Scope = { ...scope, routeIds: null };
   const [sourcePools, sources, active] = await Promise.all([
@@ -73,23 +97,26 @@ export async function sharedSourceAlertList(
   const poolIds = sourcePools.map((p) => p.id);
   const metals = params.metal ? [params.metal] : METALS;
   const [readings, book, visible] = await Promise.all([
-    metalReadings({ scope: companyScope }, { window: params.window, metals, poolIds }),
+    metalReadings({ scope: companyScope }, { window: params.window, metals: params.metal ? metalsToRead : METALS, poolIds }),
     poolProfiles(companyScope, { poolIds }),
     db().select({ id: pools.id, street: pools.street }).from(pools).where(and(poolsInScope(scope), inArray(pools.id, poolIds))),
   ]);
-  const history = analyseMetalHistory(readings, { thresholds: params.thresholds, metals });
+  const alertReadings = params.metal && metalsToRead.some((m) => m !== params.metal) ? onlyMetal(readings, params.metal) : readings;
+  const history = analyseMetalHistory(alertReadings, { thresholds: params.thresholds, metals });
   const activePools = new Map(active.map((a) => [String(a.sourceId), a.n]));
   const found = sharedSourceAlerts(history.episodes, book.profiles, { activePools });
-  return { alerts: found.map((a) => describe(a, sources, visible)).reverse(), sourcesWatched: sourceIds.length };
+  // Lookups by id, built once: a large route book has hundreds of sources.
+  const sourceById = new Map(sources.map((s) => [String(s.id), s]));
+  const streets = new Map(visible.map((p) => [String(p.id), p.street]));
+  return { alerts: found.map((a) => describe(a, sourceById, streets)).reverse(), sourcesWatched: sourceIds.length, readings };
 }
 
 function describe(
   alert: SharedSourceAlert,
-  sources: ReadonlyArray<{ id: number; name: string; kind: string }>,
-  visible: ReadonlyArray<{ id: number; street: string }>,
+  sources: ReadonlyMap<string, { name: string; kind: string }>,
+  streets: ReadonlyMap<string, string>,
 ): SourceAlert {
-  const source = sources.find((s) => String(s.id) === alert.fillSourceId);
-  const streets = new Map(visible.map((p) => [String(p.id), p.street]));
+  const source = sources.get(alert.fillSourceId);
   const named = alert.poolIds.filter((id) => streets.has(id));
   return {
     fillSourceId: Number(alert.fillSourceId),

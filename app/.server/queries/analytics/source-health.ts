@@ -1,11 +1,11 @@
 import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
-import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
-import { utcDate } from "../../db/values";
+import type { MetalTest } from "@analysis/metals/episodes";
+import { METALS, metalStatus, type Metal, type MetalReading, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { fillSources, pools } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { sharedSourceAlertList, type SourceAlert } from "./shared-source-alerts";
+import { sourceAlertsWithReadings, type SourceAlert } from "./shared-source-alerts";
 import { sourceTestRows } from "./rows";
 import type { AnalyticsParams } from "./window";
 
@@ -34,41 +34,40 @@ export type SourceHealthReport = { sources: SourceHealth[]; flaggedPoolsInScope:
 
 /**
  * Per pool and metal, the last elevated, last clear and last tested time,
- * grouped in MariaDB (one row per pool). An episode is open when the last
+ * from readings ordered by pool and time. An episode is open when the last
  * elevated reading is later than the last clear one: only a clear reading
  * closes it.
  */
-async function poolMetalStates(scope: Scope, poolIds: readonly number[], params: AnalyticsParams) {
-  if (poolIds.length === 0) return new Map<number, SourceHealthPool["metals"]>();
-  const columns = METALS.map((metal) => {
-    const value = sql.raw(`t.${metal}`);
-    const below = sql.raw(`t.${metal}_below_detection`);
-    const { elevated, clear } = params.thresholds[metal];
-    return sql`
-      MAX(CASE WHEN ${value} IS NOT NULL THEN t.sampled_at END) AS ${sql.raw(`${metal}_last`)},
-      MAX(CASE WHEN ${value} IS NOT NULL AND ((${below} = 1 AND ${value} <= ${clear}) OR (${below} = 0 AND ${value} < ${clear})) THEN t.sampled_at END) AS ${sql.raw(`${metal}_clear`)},
-      MAX(CASE WHEN ${below} = 0 AND ${value} >= ${elevated} THEN t.sampled_at END) AS ${sql.raw(`${metal}_elevated`)}`;
-  });
-  const [rows] = (await db().execute(sql`
-    SELECT t.pool_id, ${sql.join(columns, sql`, `)}
-    FROM water_tests t JOIN pools ON pools.id = t.pool_id
-    WHERE ${poolsInScope(scope)} AND t.company_id = ${scope.companyId}
-      AND t.pool_id IN (${sql.join(poolIds.map((id) => sql`${id}`), sql`, `)})
-      ${params.window.from ? sql`AND t.sampled_at >= ${params.window.from}` : sql``}
-      ${params.window.to ? sql`AND t.sampled_at <= ${params.window.to}` : sql``}
-    GROUP BY t.pool_id
-  `)) as unknown as [Array<Record<string, unknown>>];
+function poolMetalStates(readings: readonly MetalTest[], poolIds: ReadonlySet<number>, thresholds: MetalThresholds) {
+  type Seen = { last: number | null; clear: number | null; elevated: number | null };
+  const seenByPool = new Map<number, Record<Metal, Seen>>();
+  for (const r of readings) {
+    const poolId = Number(r.poolId);
+    if (!poolIds.has(poolId)) continue;
+    let seen = seenByPool.get(poolId);
+    if (!seen) {
+      seen = Object.fromEntries(METALS.map((m) => [m, { last: null, clear: null, elevated: null }])) as unknown as Record<Metal, Seen>;
+      seenByPool.set(poolId, seen);
+    }
+    for (const metal of METALS) {
+      const reading = r[metal];
+      if (!reading) continue;
+      const s = seen[metal];
+      s.last = r.takenAt;
+      const status = metalStatus(reading, thresholds[metal]);
+      if (status === "clear") s.clear = r.takenAt;
+      else if (status === "elevated") s.elevated = r.takenAt;
+    }
+  }
   const states = new Map<number, SourceHealthPool["metals"]>();
-  for (const row of rows) {
+  for (const [poolId, seen] of seenByPool) {
     const metals = {} as SourceHealthPool["metals"];
     for (const metal of METALS) {
-      const last = utcDate(row[`${metal}_last`]);
-      const lastClear = utcDate(row[`${metal}_clear`]);
-      const lastElevated = utcDate(row[`${metal}_elevated`]);
-      const state: PoolMetalState = !last ? "not-tested" : lastElevated && (!lastClear || lastElevated > lastClear) ? "open" : "clear";
-      metals[metal] = { state, lastTestedAt: last?.toISOString() ?? null };
+      const { last, clear, elevated } = seen[metal];
+      const state: PoolMetalState = last === null ? "not-tested" : elevated !== null && (clear === null || elevated > clear) ? "open" : "clear";
+      metals[metal] = { state, lastTestedAt: last === null ? null : new Date(last).toISOString() };
     }
-    states.set(Number(row.pool_id), metals);
+    states.set(poolId, metals);
   }
   return states;
 }
@@ -106,17 +105,18 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
   if (sourceIds.length === 0) return { sources: [], flaggedPoolsInScope: 0 };
 
   const onSources = scopedPools.filter((p) => p.fillSourceId !== null);
-  const [active, tests, alerts, states, routeNames] = await Promise.all([
+  // One read of every metal serves both the alerts and the pools' metal state.
+  const [active, tests, alerts, routeNames] = await Promise.all([
     db()
       .select({ sourceId: pools.fillSourceId, n: count() })
       .from(pools)
       .where(and(eq(pools.companyId, scope.companyId), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
       .groupBy(pools.fillSourceId),
     sourceTestRows(scope.companyId, sourceIds),
-    sharedSourceAlertList(scope, params),
-    poolMetalStates(scope, onSources.map((p) => p.id), params),
+    sourceAlertsWithReadings(scope, params, METALS),
     db().execute(sql`SELECT id, name FROM routes WHERE company_id = ${scope.companyId}`) as unknown as Promise<[Array<{ id: number; name: string }>]>,
   ]);
+  const states = poolMetalStates(alerts.readings, new Set(onSources.map((p) => p.id)), params.thresholds);
   const routeName = new Map(routeNames[0].map((r) => [Number(r.id), String(r.name)]));
   const activeBySource = new Map(active.map((a) => [a.sourceId, a.n]));
   let flaggedPoolsInScope = 0;

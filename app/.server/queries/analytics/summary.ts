@@ -2,6 +2,7 @@ import { and, count, countDistinct, eq, gte, isNotNull, lte, or, sql, type SQL }
 import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
 import type { Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
+import { utcDate } from "../../db/values";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
@@ -38,55 +39,50 @@ function windowOn(column: typeof waterTests.sampledAt, window: AnalyticsWindow):
   return conditions;
 }
 
-async function counts(scope: Scope, window: AnalyticsWindow) {
-  const inScope = poolsInScope(scope);
-  const [poolRow, testRow] = await Promise.all([
-    db()
-      .select({
-        active: sql<number>`SUM(${pools.active})`.mapWith(Number),
-        routes: countDistinct(pools.routeId),
-        sources: countDistinct(pools.fillSourceId),
-      })
-      .from(pools)
-      .where(inScope),
-    db()
-      .select({
-        tests: count(),
-        metalTests: sql<number>`SUM(${or(isNotNull(waterTests.copper), isNotNull(waterTests.iron), isNotNull(waterTests.manganese))})`.mapWith(Number),
-        poolsTested: countDistinct(waterTests.poolId),
-      })
-      .from(waterTests)
-      .innerJoin(pools, eq(pools.id, waterTests.poolId))
-      .where(and(inScope, eq(waterTests.companyId, scope.companyId), ...windowOn(waterTests.sampledAt, window))),
-  ]);
-  return {
-    activePools: poolRow[0]?.active ?? 0,
-    routes: poolRow[0]?.routes ?? 0,
-    fillSources: poolRow[0]?.sources ?? 0,
-    tests: testRow[0]?.tests ?? 0,
-    metalTests: testRow[0]?.metalTests ?? 0,
-    poolsTested: testRow[0]?.poolsTested ?? 0,
-  };
+const balanceInputsPresent = and(
+  isNotNull(waterTests.ph),
+  isNotNull(waterTests.temperatureC),
+  isNotNull(waterTests.calciumHardness),
+  isNotNull(waterTests.totalAlkalinity),
+)!;
+
+/**
+ * One pass over the window's tests, grouped by pool in MariaDB: how many
+ * tests, how many with a metal, and when the latest test carrying all four
+ * balance inputs was taken.
+ */
+function poolTestFigures(scope: Scope, window: AnalyticsWindow) {
+  return db()
+    .select({
+      poolId: waterTests.poolId,
+      tests: count(),
+      metalTests: sql<number>`SUM(${or(isNotNull(waterTests.copper), isNotNull(waterTests.iron), isNotNull(waterTests.manganese))})`.mapWith(Number),
+      latestBalanceAt: sql<Date | null>`MAX(CASE WHEN ${balanceInputsPresent} THEN ${waterTests.sampledAt} END)`.mapWith(utcDate),
+    })
+    .from(waterTests)
+    .innerJoin(pools, eq(pools.id, waterTests.poolId))
+    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), ...windowOn(waterTests.sampledAt, window)))
+    .groupBy(waterTests.poolId);
+}
+
+async function poolCounts(scope: Scope) {
+  const [row] = await db()
+    .select({
+      active: sql<number>`SUM(${pools.active})`.mapWith(Number),
+      routes: countDistinct(pools.routeId),
+      sources: countDistinct(pools.fillSourceId),
+    })
+    .from(pools)
+    .where(poolsInScope(scope));
+  return { activePools: row?.active ?? 0, routes: row?.routes ?? 0, fillSources: row?.sources ?? 0 };
 }
 
 /**
- * Each pool's latest test with the four balance inputs, one row per pool:
- * MariaDB finds the latest time per pool, then reads just those tests.
+ * The balance inputs of each pool's latest complete test, read by the
+ * (pool, time) key the grouped pass found: one indexed lookup per pool.
  */
-async function latestBalanceTests(scope: Scope, window: AnalyticsWindow) {
-  const complete = and(
-    isNotNull(waterTests.ph),
-    isNotNull(waterTests.temperatureC),
-    isNotNull(waterTests.calciumHardness),
-    isNotNull(waterTests.totalAlkalinity),
-  );
-  const latest = db()
-    .select({ poolId: waterTests.poolId, at: sql`MAX(${waterTests.sampledAt})`.as("latest_at") })
-    .from(waterTests)
-    .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), complete, ...windowOn(waterTests.sampledAt, window)))
-    .groupBy(waterTests.poolId)
-    .as("latest");
+async function balanceTestsAt(scope: Scope, latest: ReadonlyArray<{ poolId: number; at: Date }>) {
+  if (latest.length === 0) return [];
   return db()
     .select({
       ph: waterTests.ph,
@@ -98,7 +94,12 @@ async function latestBalanceTests(scope: Scope, window: AnalyticsWindow) {
       salt: waterTests.salt,
     })
     .from(waterTests)
-    .innerJoin(latest, and(eq(latest.poolId, waterTests.poolId), eq(latest.at, waterTests.sampledAt)));
+    .where(
+      and(
+        eq(waterTests.companyId, scope.companyId),
+        or(...latest.map((l) => and(eq(waterTests.poolId, l.poolId), eq(waterTests.sampledAt, l.at)))),
+      ),
+    );
 }
 
 export async function routeBookSummary(
@@ -106,11 +107,19 @@ export async function routeBookSummary(
   params: AnalyticsParams & { balanceBand: BalanceBand },
   loaded?: MetalDataset,
 ): Promise<RouteBookSummary> {
-  const [figures, balanceRows, dataset] = await Promise.all([
-    counts(scope, params.window),
-    latestBalanceTests(scope, params.window),
+  const [poolFigures, perPool, dataset] = await Promise.all([
+    poolCounts(scope),
+    poolTestFigures(scope, params.window),
     loaded ? Promise.resolve(loaded) : loadMetalDataset(scope, { ...params, metal: null }),
   ]);
+  const latest = perPool.flatMap((p) => (p.latestBalanceAt ? [{ poolId: p.poolId, at: p.latestBalanceAt }] : []));
+  const balanceRows = await balanceTestsAt(scope, latest);
+  const figures = {
+    ...poolFigures,
+    tests: perPool.reduce((sum, p) => sum + p.tests, 0),
+    metalTests: perPool.reduce((sum, p) => sum + p.metalTests, 0),
+    poolsTested: perPool.length,
+  };
   const metalHistory = dataset.history;
   const openEpisodes = { copper: 0, iron: 0, manganese: 0 } satisfies Record<Metal, number>;
   const chronic = new Set<string>();

@@ -1,11 +1,12 @@
-import { and, inArray, isNotNull, or, sql } from "drizzle-orm";
+import { and, inArray, isNotNull, or } from "drizzle-orm";
+import { DAY_MS } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
 import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type OutcomeTest } from "@analysis/outcomes/treatments";
 import { CATEGORY_WORDS } from "~/lib/analytics/labels";
 import { isoInstant, jsonInterval, type JsonInterval } from "~/lib/analytics/json";
 import { db } from "../../db/client";
-import { pools, products, treatments, waterTests } from "../../db/schema";
+import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
 import { anyMetalMeasured, treatmentRows, waterTestReadings } from "../metal-readings";
@@ -81,27 +82,42 @@ function figures(result: ArmResult): ArmFigures {
 const FOLLOW_DAYS_AFTER = DEFAULT_OUTCOME_RULES.followUpDays + DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays + 30;
 const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
 
+const COURSE_CATEGORIES = ["sequestrant", "collector_pad", "ph_decreaser"] as const;
+
+const inWindow = (at: number, window: AnalyticsWindow) =>
+  (!window.from || at >= window.from.getTime()) && (!window.to || at <= window.to.getTime());
+
 /**
- * Tests of treated pools near a metal treatment: from the baseline look-back
- * to the end of the recurrence check. MariaDB keeps only those rows, using the
- * treatments' (pool, time) index, and only the metal and pH columns.
+ * Keeps the tests taken from the baseline look-back before to the end of the
+ * recurrence check after any metal treatment of their pool. Tests and
+ * treatments both come ordered by pool and time, so one pass with a moving
+ * pointer into the treatments does it.
  */
-function testsNearTreatments(scope: Scope, poolIds: readonly number[]): Promise<OutcomeTest[]> {
-  return waterTestReadings(
-    { scope },
-    {
-      poolIds,
-      with: { ph: true },
-      where: and(
-        or(anyMetalMeasured(), isNotNull(waterTests.ph)),
-        sql`EXISTS (
-          SELECT 1 FROM ${treatments} tr JOIN ${products} pr ON pr.id = tr.product_id
-          WHERE tr.pool_id = ${waterTests.poolId}
-            AND pr.category IN ('sequestrant', 'collector_pad', 'ph_decreaser')
-            AND ${waterTests.sampledAt} BETWEEN tr.applied_at - INTERVAL ${LOOK_DAYS_BEFORE} DAY AND tr.applied_at + INTERVAL ${FOLLOW_DAYS_AFTER} DAY)`,
-      ),
-    },
-  );
+export function testsNearTreatments(tests: readonly OutcomeTest[], applied: ReadonlyArray<{ poolId: string; appliedAt: number }>): OutcomeTest[] {
+  const before = LOOK_DAYS_BEFORE * DAY_MS;
+  const after = FOLLOW_DAYS_AFTER * DAY_MS;
+  const timesByPool = new Map<string, number[]>();
+  for (const t of applied) {
+    const times = timesByPool.get(t.poolId);
+    if (times) times.push(t.appliedAt);
+    else timesByPool.set(t.poolId, [t.appliedAt]);
+  }
+  const kept: OutcomeTest[] = [];
+  let poolId: string | null = null;
+  let times: number[] = [];
+  let next = 0;
+  for (const test of tests) {
+    if (test.poolId !== poolId) {
+      poolId = test.poolId;
+      times = timesByPool.get(poolId) ?? [];
+      next = 0;
+    }
+    // Treatments whose follow-up ended before this test cannot reach any later test either.
+    while (next < times.length && times[next]! + after < test.takenAt) next++;
+    const earliest = times[next];
+    if (earliest !== undefined && earliest - before <= test.takenAt) kept.push(test);
+  }
+  return kept;
 }
 
 /**
@@ -110,10 +126,13 @@ function testsNearTreatments(scope: Scope, poolIds: readonly number[]): Promise<
  * clearing and cost per cleared pool, each also split by pH at treatment.
  */
 export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
-  const applied = await treatmentRows({ scope }, { window: params.window, categories: ["sequestrant", "collector_pad", "ph_decreaser"] });
+  // Every metal treatment bounds the tests kept; only those in the window form courses.
+  const everyApplied = await treatmentRows({ scope }, { categories: COURSE_CATEGORIES });
+  const applied = everyApplied.filter((t) => inWindow(t.appliedAt, params.window));
   const courses = buildCourses(applied);
   const treatedPools = [...new Set(courses.map((c) => Number(c.poolId)))];
-  const tests = await testsNearTreatments(scope, treatedPools);
+  const read = await waterTestReadings({ scope }, { poolIds: treatedPools, with: { ph: true }, where: or(anyMetalMeasured(), isNotNull(waterTests.ph)) });
+  const tests = testsNearTreatments(read, everyApplied);
   const outcomes = courseOutcomes(courses, tests, params.metal, { thresholds: params.thresholds });
   const summaries = summariseOutcomes(outcomes, params.arm);
 
