@@ -1,7 +1,8 @@
-import { Form, NavLink, Outlet } from "react-router";
+import { Form, Link, NavLink, Outlet, useLocation } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { ErrorPanel } from "~/components/error-panel";
 import { PatinaMark } from "~/components/patina-mark";
+import { currentNavTarget } from "~/lib/nav";
 import { type Area, ROLE_LABELS, roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/app-layout";
 
@@ -66,6 +67,8 @@ export async function loader({ request }: Route.LoaderArgs) {
 
 export default function AppLayout({ loaderData }: Route.ComponentProps) {
   const { userName, role, companyName, nav } = loaderData;
+  const { pathname } = useLocation();
+  const current = currentNavTarget(pathname, nav.flatMap((group) => group.items.map((item) => item.to)));
   return (
     <div className="min-h-dvh">
       <header className="border-b border-line bg-white">
@@ -103,16 +106,14 @@ export default function AppLayout({ loaderData }: Route.ComponentProps) {
                   {group.label}
                 </span>
                 {group.items.map((item) => (
-                  <NavLink
+                  <Link
                     key={item.to}
                     to={item.to}
-                    end={item.to === "/" || item.to === "/sources"}
-                    className={({ isActive }) =>
-                      `rounded-lg px-3 py-2 text-sm font-medium whitespace-nowrap ${isActive ? "bg-verdigris-100 text-verdigris-900" : "text-muted hover:bg-verdigris-50 hover:text-ink"}`
-                    }
+                    aria-current={item.to === current ? "page" : undefined}
+                    className={`rounded-lg px-3 py-2 text-sm font-medium whitespace-nowrap ${item.to === current ? "bg-verdigris-100 text-verdigris-900" : "text-muted hover:bg-verdigris-50 hover:text-ink"}`}
                   >
                     {item.label}
-                  </NavLink>
+                  </Link>
                 ))}
               </div>
             ))}
