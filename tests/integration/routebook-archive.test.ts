@@ -2,6 +2,7 @@ import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { fillSources, pools, routes } from "~/.server/db/schema";
+import { type ArchivableOption, pickerOptions } from "~/lib/archived";
 import * as poolEdit from "~/routes/pool-edit";
 import * as poolList from "~/routes/pools";
 import * as routeEdit from "~/routes/route-edit";
@@ -108,6 +109,17 @@ describe("archiving a route", () => {
     expect(outcome.status).toBe(400);
     expect(fieldErrors(outcome).routeId).toBe('Route: "Spare loop" is archived; restore it on its page or choose another route.');
     expect((await db().select().from(pools).where(eq(pools.id, poolOnEveryDay)))[0]?.routeId).toBe(everyDay);
+  });
+
+  it("leaves the archived route out of the pool form's route picker, except on the pool already on it", async () => {
+    const pickerOf = async (poolId: number) => {
+      const page = (await callRoute(poolEdit.loader, requestAs(manager, `/pools/${poolId}/edit`), { poolId: String(poolId) })).body as {
+        routes: ArchivableOption[];
+      };
+      return pickerOptions(page.routes, poolId === poolOnSpare ? spareRoute : everyDay).map((o) => o.label);
+    };
+    expect(await pickerOf(poolOnEveryDay)).toEqual(["Daily loop"]);
+    expect(await pickerOf(poolOnSpare)).toEqual(["Daily loop", "Spare loop (archived)"]);
   });
 
   it("lets a pool already on an archived route be saved as it is", async () => {
