@@ -84,6 +84,17 @@ describe("treatment courses and outcomes", () => {
     expect(of("p5", "S1")).toMatchObject({ ineligible: null, timeToClear: { days: 0, cleared: false, censoredBy: "end-of-data" } });
   });
 
+  it("acid given first belongs to the course but is no product or category arm of its own", () => {
+    // p7: acid then sequestrant the next day, one course "A1 + S1"; baseline 0.5 at the visit.
+    const withAcid = [treat("p7", day(0), "A1", "ph-decreaser", 5), treat("p7", day(1), "S1", "sequestrant")];
+    const acidTests = [test("p7", day(0) - 3_600_000, cu(0.5), 7.9), test("p7", day(6), cu(0.2))];
+    const acidOutcomes = courseOutcomes(buildCourses(withAcid), acidTests, "copper");
+    expect(acidOutcomes.map((o) => o.course.combination)).toEqual(["A1 + S1"]);
+    expect(summariseOutcomes(acidOutcomes, "product").map((a) => a.arm)).toEqual(["S1"]);
+    expect(summariseOutcomes(acidOutcomes, "category").map((a) => a.arm)).toEqual(["sequestrant"]);
+    expect(summariseOutcomes(acidOutcomes, "combination").map((a) => a.arm)).toEqual(["A1 + S1"]);
+  });
+
   it("summaries by product, combination and pH band", () => {
     const byProduct = summariseOutcomes(outcomes, "product");
     const s1 = byProduct.find((a) => a.arm === "S1")!;

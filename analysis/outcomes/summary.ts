@@ -6,17 +6,19 @@ import { DEFAULT_OUTCOME_RULES, type CourseOutcome, type PhStratum } from "./tre
 
 /**
  * How courses are put into arms. "product" and "category" count a course
- * under every product or category it used; "combination" puts it under
- * exactly one arm, its full set of products (e.g. "pad-A + seq-B").
+ * under every metal product or category it used (acid given first to bring
+ * the pH down is part of the course, not a metal treatment, so it is no arm
+ * of its own); "combination" puts it under exactly one arm, its full set of
+ * products including any acid (e.g. "pad-A + seq-B").
  */
 export type ArmDimension = "product" | "category" | "combination" | "category-combination";
 
 export function armsOf(outcome: CourseOutcome, dimension: ArmDimension): string[] {
   switch (dimension) {
     case "product":
-      return outcome.course.productIds;
+      return [...new Set(outcome.course.treatments.filter((t) => t.category !== "ph-decreaser").map((t) => t.productId))].sort();
     case "category":
-      return outcome.course.categories;
+      return outcome.course.categories.filter((c) => c !== "ph-decreaser");
     case "combination":
       return [outcome.course.combination];
     case "category-combination":
@@ -85,7 +87,11 @@ export function summariseOutcomes(
   const arms = new Map<string, CourseOutcome[]>();
   for (const o of outcomes) {
     if (o.ineligible !== null) continue;
-    for (const arm of armsOf(o, dimension)) arms.set(arm, [...(arms.get(arm) ?? []), o]);
+    for (const arm of armsOf(o, dimension)) {
+      const list = arms.get(arm);
+      if (list) list.push(o);
+      else arms.set(arm, [o]);
+    }
   }
   return [...arms.entries()]
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
@@ -141,7 +147,9 @@ export function escalationDue(outcomes: readonly CourseOutcome[], minCoursesWith
   for (const o of outcomes) {
     // A course still inside its follow-up at the end of the data has not failed yet.
     if (o.ineligible !== null || o.timeToClear.censoredBy === "end-of-data") continue;
-    byPool.set(o.course.poolId, [...(byPool.get(o.course.poolId) ?? []), o]);
+    const list = byPool.get(o.course.poolId);
+    if (list) list.push(o);
+    else byPool.set(o.course.poolId, [o]);
   }
   const hints: EscalationHint[] = [];
   for (const [poolId, list] of byPool) {
