@@ -1,6 +1,6 @@
 import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
 import { METALS, metalStatus, type MetalThresholds } from "@analysis/metals/reading";
-import { METAL_LABELS } from "./metals";
+import { METAL_LABELS, type StoredMetals } from "./metals";
 import { DEFAULT_ANALYTE_RANGES, judgeAnalyte, type RangedAnalyte } from "./ranges";
 
 /** The columns of a stored water test that the judgements read. */
@@ -14,13 +14,7 @@ export type StoredTest = {
   salt: number | null;
   tds: number | null;
   temperatureC: number | null;
-  copper: number | null;
-  copperBelowDetection: boolean;
-  iron: number | null;
-  ironBelowDetection: boolean;
-  manganese: number | null;
-  manganeseBelowDetection: boolean;
-};
+} & StoredMetals;
 
 /** Factor-table saturation index of a stored test, or null when an input is missing. */
 export function testSaturationIndex(test: StoredTest): number | null {

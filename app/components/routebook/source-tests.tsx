@@ -3,18 +3,9 @@ import { FormProblem, SubmitButton, TextField } from "~/components/form-controls
 import { ReadingTable } from "~/components/reading-table";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { formatMgL } from "~/lib/format";
+import type { StoredMetals } from "~/lib/metals";
 
-type SourceTest = {
-  id: number;
-  sampledOn: string;
-  copper: number | null;
-  copperBelowDetection: boolean;
-  iron: number | null;
-  ironBelowDetection: boolean;
-  manganese: number | null;
-  manganeseBelowDetection: boolean;
-  note: string | null;
-};
+type SourceTest = StoredMetals & { id: number; sampledOn: string; note: string | null };
 
 export function SourceTestTable({ tests }: { tests: SourceTest[] }) {
   if (tests.length === 0) return <p className="text-muted">No tests of this water yet. A lab or kit test of the fill water shows whether it brings metals in.</p>;
