@@ -120,6 +120,8 @@ export const waterTests = mysqlTable(
     unique("water_tests_pool_time").on(t.poolId, t.sampledAt),
     unique("water_tests_submission").on(t.companyId, t.submissionKey),
     index("water_tests_company_time_idx").on(t.companyId, t.sampledAt),
+    // Analytics read a company's readings in pool-and-time order without a sort.
+    index("water_tests_company_pool_time_idx").on(t.companyId, t.poolId, t.sampledAt),
     index("water_tests_batch_idx").on(t.importBatchId),
   ],
 );

@@ -1,0 +1,1 @@
+CREATE INDEX `water_tests_company_pool_time_idx` ON `water_tests` (`company_id`,`pool_id`,`sampled_at`);
