@@ -1,5 +1,7 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { closeDatabase } from "~/.server/db/client";
+import { eq } from "drizzle-orm";
+import { closeDatabase, db } from "~/.server/db/client";
+import { routes } from "~/.server/db/schema";
 import * as apiPool from "~/routes/api/pool";
 import * as apiSummary from "~/routes/api/summary";
 import * as home from "~/routes/home";
@@ -25,12 +27,15 @@ let otherOwner: FixtureMember;
 let poolOnOwnRoute: number;
 let poolOnOtherRoute: number;
 let poolOfOtherCompany: number;
+let tuesdayRouteId: number;
 
 beforeAll(async () => {
   const companyId = await createCompany();
   const monday = await createRouteWithPool(companyId, "Monday loop", "G-1", "1");
   poolOnOwnRoute = monday.poolId;
-  poolOnOtherRoute = (await createRouteWithPool(companyId, "Tuesday loop", "G-2", "2")).poolId;
+  const tuesday = await createRouteWithPool(companyId, "Tuesday loop", "G-2", "2");
+  poolOnOtherRoute = tuesday.poolId;
+  tuesdayRouteId = tuesday.routeId;
   // Pool G-1: copper 0.40 opens a case (>= 0.3), 0.20 is not below 0.1, so it stays open.
   await addTest(companyId, poolOnOwnRoute, "2026-01-05T09:00:00Z", { copper: 0.4, ph: 7.4 });
   await addTest(companyId, poolOnOwnRoute, "2026-01-12T09:00:00Z", { copper: 0.2, ph: 7.5 });
@@ -174,5 +179,18 @@ describe("API parameters", () => {
     const outcome = await callRoute(apiPool.loader, requestAs(owner, "/api/pools/abc"), { poolId: "abc" });
     expect(outcome.status).toBe(400);
     expect(outcome.body).toMatchObject({ error: { code: "invalid_parameter", field: "poolId" } });
+  });
+});
+
+describe("the home page's route count", () => {
+  it("counts routes in use only: archiving the Tuesday loop leaves the owner one route", async () => {
+    const before = await callRoute(apiSummary.loader, requestAs(owner, "/api/summary"));
+    expect(before.body).toMatchObject({ routes: 2 });
+    await db().update(routes).set({ active: false }).where(eq(routes.id, tuesdayRouteId));
+    const after = await callRoute(apiSummary.loader, requestAs(owner, "/api/summary"));
+    expect(after.body).toMatchObject({ routes: 1 });
+    // The technician works the Monday loop only.
+    const technicians = await callRoute(apiSummary.loader, requestAs(technician, "/api/summary"));
+    expect(technicians.body).toMatchObject({ routes: 1 });
   });
 });

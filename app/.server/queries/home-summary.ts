@@ -1,4 +1,4 @@
-import { and, count, eq, max, sql } from "drizzle-orm";
+import { and, count, eq, inArray, max, sql } from "drizzle-orm";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../db/client";
 import { pools, routes, waterTests } from "../db/schema";
@@ -100,10 +100,18 @@ export async function homeSummary(scope: Scope, thresholds: MetalThresholds, now
   const since = new Date(now.getTime() - 30 * 86_400_000);
   const inScope = poolsInScope(scope);
   const [poolCount] = await db().select({ n: count() }).from(pools).where(and(inScope, eq(pools.active, true)));
-  const routeCount =
+  // Routes in use: archived ones keep their history but are no longer worked.
+  const routesInScope =
     scope.routeIds === null
-      ? ((await db().select({ n: count() }).from(routes).where(eq(routes.companyId, scope.companyId)))[0]?.n ?? 0)
-      : scope.routeIds.length;
+      ? undefined
+      : scope.routeIds.length === 0
+        ? sql`false`
+        : inArray(routes.id, scope.routeIds);
+  const [routeRow] = await db()
+    .select({ n: count() })
+    .from(routes)
+    .where(and(eq(routes.companyId, scope.companyId), eq(routes.active, true), routesInScope));
+  const routeCount = routeRow?.n ?? 0;
   const [testFigures] = await db()
     .select({
       tests: count(),
