@@ -1,15 +1,15 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
 import type { RecurringReadings } from "~/.server/queries/analytics/recurring";
-import { analyticsKey, fetchAnalytics, sameParams, type AnalyticsSearch } from "./analytics-fetch";
+import { analyticsKey, fetchAnalytics, type AnalyticsSearch } from "./analytics-fetch";
 
 const PATH = "/api/analytics/recurring";
 
-/** /api/analytics/recurring?include=readings, keyed by its parameters; the loader's answer is used while they are unchanged. */
-export function useRecurringReadings(params: AnalyticsSearch, initial: { params: AnalyticsSearch; data: RecurringReadings }) {
+/** /api/analytics/recurring?include=readings, keyed by its parameters; asked only while `enabled`. */
+export function useRecurringReadings(params: AnalyticsSearch, enabled: boolean) {
   return useQuery({
     queryKey: analyticsKey(PATH, { ...params, include: "readings" }),
     queryFn: () => fetchAnalytics<RecurringReadings>(PATH, { ...params, include: "readings" }),
-    initialData: sameParams(params, initial.params) ? initial.data : undefined,
+    enabled,
     placeholderData: keepPreviousData,
   });
 }

@@ -9,9 +9,11 @@ import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/compone
 import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
 import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
+import { sameParams } from "~/hooks/analytics-fetch";
 import { useRecurringReadings } from "~/hooks/use-recurring-readings";
 import { recurringQuery } from "~/lib/analytics/params";
-import { expandReadings, findRecurring } from "~/lib/analytics/recurring";
+import { decodeReadingColumns, decodeTreatmentColumns } from "~/lib/analytics/reading-columns";
+import { findRecurring } from "~/lib/analytics/recurring";
 import { formatCount } from "~/lib/format";
 import { METAL_LABELS } from "~/lib/metals";
 import type { Route } from "./+types/analytics-recurring";
@@ -23,8 +25,10 @@ const PAGE = 12;
 
 export async function loader({ request }: Route.LoaderArgs) {
   const { scope, query, window, companyThresholds } = await readAnalyticsRequest(request, "recurring", recurringQuery, "page");
-  // The page starts from the company's levels; the member moves them in the browser.
-  const data = await recurringReadings(scope, { window, thresholds: companyThresholds, metal: query.metal ?? null });
+  // The first paint draws only the first pools listed at the company's levels, so only their readings
+  // come with it (and the counts of the whole list); the hook fetches the readings of every pool that
+  // could recur once the levels or filters move or more pools are asked for.
+  const data = await recurringReadings(scope, { window, thresholds: companyThresholds, metal: query.metal ?? null }, { firstListed: PAGE });
   const search = new URL(request.url).searchParams;
   return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), company: companyThresholds, data };
 }
@@ -99,12 +103,12 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
   const companyElevated = useMemo(() => Object.fromEntries(METALS.map((m) => [m, company[m].elevated])) as Record<Metal, number>, [company]);
   const [levels, setLevels] = useState<MetalThresholds>(company);
   const [floor, setFloor] = useState(companyElevated);
-  const query = useRecurringReadings(
-    { ...params, ...floorParams(floor, company) },
-    { params: { ...loaderData.params, ...floorParams(companyElevated, company) }, data: loaderData.data },
-  );
-  const data = query.data ?? loaderData.data;
   const [shown, setShown] = useState(PAGE);
+  const moved = METALS.some((m) => levels[m].elevated !== company[m].elevated || levels[m].clear !== company[m].clear);
+  // The loader's answer holds the first page of pools at the company's levels: enough until something moves.
+  const loaderView = !moved && shown <= PAGE && sameParams(params, loaderData.params);
+  const query = useRecurringReadings({ ...params, ...floorParams(floor, company) }, !loaderView);
+  const data = loaderView ? loaderData.data : (query.data ?? loaderData.data);
 
   // A lower elevated level needs the readings of pools that only reach it: ask once the typing settles.
   useEffect(() => {
@@ -114,12 +118,18 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
     return () => clearTimeout(timer);
   }, [levels, floor]);
 
-  const readings = useMemo(() => expandReadings(data.readings), [data.readings]);
+  const readings = useMemo(() => decodeReadingColumns(data.readings, data.metals), [data.readings, data.metals]);
+  const treatments = useMemo(() => decodeTreatmentColumns(data.products, data.treatments), [data.products, data.treatments]);
   const names = useMemo(() => new Map(data.pools.map((p) => [p.poolId, p])), [data.pools]);
   const findings = useMemo(
     () => findRecurring(readings, names, { thresholds: levels, metals: data.metals, ...data.rules }),
     [readings, names, levels, data.metals, data.rules],
   );
+  // A first page counts the whole list at the company's levels; a full answer is counted here.
+  const counts =
+    data.firstListed && !moved
+      ? data.firstListed
+      : { recurringPools: findings.recurringPools, chronicPools: findings.chronicPools, listedPools: findings.pools.length };
   const readingsByPool = useMemo(() => {
     const map = new Map<number, MetalTest[]>();
     for (const r of readings) {
@@ -150,9 +160,9 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
       ) : null}
 
       <dl className="grid grid-cols-3 gap-3">
-        <Stat label="Recurring pools" value={formatCount(findings.recurringPools)} tone={findings.recurringPools > 0 ? "alert" : "calm"} />
-        <Stat label="Chronic pools" value={formatCount(findings.chronicPools)} tone={findings.chronicPools > 0 ? "alert" : "calm"} />
-        <Stat label="Pools listed" value={formatCount(findings.pools.length)} />
+        <Stat label="Recurring pools" value={formatCount(counts.recurringPools)} tone={counts.recurringPools > 0 ? "alert" : "calm"} />
+        <Stat label="Chronic pools" value={formatCount(counts.chronicPools)} tone={counts.chronicPools > 0 ? "alert" : "calm"} />
+        <Stat label="Pools listed" value={formatCount(counts.listedPools)} />
       </dl>
 
       {findings.pools.length === 0 ? (
@@ -167,7 +177,7 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
               <RecurringPoolChart
                 pool={pool}
                 readings={readingsByPool.get(pool.poolId) ?? []}
-                treatments={data.treatments.filter((t) => t.poolId === pool.poolId)}
+                treatments={treatments.filter((t) => t.poolId === pool.poolId)}
                 thresholds={levels}
                 metals={data.metals}
               />
@@ -183,9 +193,9 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
           ))}
         </ol>
       )}
-      {findings.pools.length > shown ? (
+      {counts.listedPools > shown ? (
         <button type="button" onClick={() => setShown((n) => n + PAGE)} className="rounded-lg border border-line bg-white px-4 py-2 font-medium">
-          Show {Math.min(PAGE, findings.pools.length - shown)} more pools
+          Show {Math.min(PAGE, counts.listedPools - shown)} more pools
         </button>
       ) : null}
     </div>

@@ -10,6 +10,7 @@ import * as seriesApi from "~/routes/api/analytics/pool-series";
 import * as sourcesApi from "~/routes/api/analytics/sources";
 import * as summaryApi from "~/routes/api/analytics/summary";
 import * as trendApi from "~/routes/api/analytics/trend";
+import * as recurringPage from "~/routes/analytics-recurring";
 import * as poolPage from "~/routes/pool";
 import {
   addTest,
@@ -267,20 +268,69 @@ describe("GET /api/analytics/recurring", () => {
     expect(longer.body.recurringPools).toBe(1);
   });
 
-  it("sends readings of every pool that could have an episode at the levels asked or stricter", async () => {
+  it("sends readings of every pool that could have an episode at the levels asked or stricter, as per-pool columns", async () => {
     // Candidates: any reading at or above the elevated level (iron 0.2, copper 0.3):
     // P1 (0.40), P2 (0.35), P3 (0.25), P5 (copper 0.50); P4 never exceeds 0.05.
     const { body } = await get(recurringApi.loader, owner, "/api/analytics/recurring?include=readings");
     expect(body.pools.map((p: Body) => p.poolId).sort()).toEqual([P.P1, P.P2, P.P3, P.P5].sort());
-    // Metal readings: P1 6 + P2 4 + P3 3 + P5 2 = 15, as [pool, ms, Cu, Cu<, Fe, Fe<, Mn, Mn<].
-    expect(body.readings).toHaveLength(15);
-    expect(body.readings[0]).toEqual([P.P1, Date.parse("2025-01-01T10:00:00Z"), null, 0, 0.05, 0, null, 0]);
-    expect(body.treatments).toHaveLength(3);
     expect(body.lowestElevated.iron).toBe(0.2);
+    expect(body.firstListed).toBeNull();
+    const day = 86_400_000;
+    const byPool = new Map(body.readings.map((r: Body) => [r.poolId, r]));
+    // P1: 01-01 -> 03-01 is 31 + 28 = 59 days; 03-01 -> 03-08 -> 03-15 are 7 days each;
+    // 03-15 -> 06-01 is 17 (to 04-01) + 30 + 31 = 78 days; 06-01 -> 12-31 is 30 + 31 + 31 + 30 + 31 + 30 (to 12-01) + 30 = 213 days.
+    // Iron in thousandths of mg/L; copper and manganese are never measured, so never reach 0.3 / 0.05: left out.
+    expect(byPool.get(P.P1)).toEqual({
+      poolId: P.P1,
+      start: Date.parse("2025-01-01T10:00:00Z"),
+      gapsMs: [59 * day, 7 * day, 7 * day, 78 * day, 213 * day],
+      iron: [50, 400, 150, 50, 300, 50],
+    });
+    // P5: only its two copper tests carry a metal (the pH-only visits are not metal readings); 02-01 -> 02-15 = 14 days.
+    expect(byPool.get(P.P5)).toEqual({ poolId: P.P5, start: Date.parse("2025-02-01T10:00:00Z"), gapsMs: [14 * day], copper: [500, 50] });
+    // Metal readings: P1 6 + P2 4 + P3 3 + P5 2 = 15 rows, each once.
+    expect(body.readings.reduce((n: number, r: Body) => n + r.gapsMs.length + 1, 0)).toBe(15);
+    // Treatments: Seq A at P1 on 03-01, Seq A then Pad B at P2 on 03-08 (same minute: gap 0), times in whole minutes.
+    expect(body.products).toEqual([
+      { productName: "Seq A", category: "sequestrant" },
+      { productName: "Pad B", category: "metal-collector-pad" },
+    ]);
+    expect(body.treatments).toEqual([
+      { poolId: P.P1, startMinute: Date.parse("2025-03-01T10:00:00Z") / 60_000, gapsMinutes: [], product: [0] },
+      { poolId: P.P2, startMinute: Date.parse("2025-03-08T10:00:00Z") / 60_000, gapsMinutes: [0], product: [0, 1] },
+    ]);
     // Iron elevated at 0.3: P3's 0.25 no longer reaches it; P1 6 + P2 4 + P5 2 = 12 readings.
     const stricter = await get(recurringApi.loader, owner, "/api/analytics/recurring?include=readings&ironElevated=0.3");
     expect(stricter.body.pools.map((p: Body) => p.poolId).sort()).toEqual([P.P1, P.P2, P.P5].sort());
-    expect(stricter.body.readings).toHaveLength(12);
+    expect(stricter.body.readings.reduce((n: number, r: Body) => n + r.gapsMs.length + 1, 0)).toBe(12);
+  });
+
+  it("leaves out a metal a pool never reaches at the lowest elevated level asked, keeping every reading's time", async () => {
+    // Iron elevated 0.36 (and clear 0.1): only P1 (0.40) reaches it; copper 0.3 is still reached by P5 (0.50).
+    // P2 (0.35) and P3 (0.25) are no longer candidates.
+    const { body } = await get(recurringApi.loader, owner, "/api/analytics/recurring?include=readings&ironElevated=0.36");
+    expect(body.readings.map((r: Body) => r.poolId).sort()).toEqual([P.P1, P.P5].sort());
+    // Copper elevated 0.6: P5's 0.50 does not reach it, no pool reaches copper; iron 0.2 keeps P1, P2, P3.
+    const copperHigh = await get(recurringApi.loader, owner, "/api/analytics/recurring?include=readings&copperElevated=0.6");
+    expect(copperHigh.body.readings.map((r: Body) => r.poolId).sort()).toEqual([P.P1, P.P2, P.P3].sort());
+    expect(copperHigh.body.readings.every((r: Body) => !("copper" in r))).toBe(true);
+  });
+
+  it("gives the page's first paint only the first pools listed at the company's levels, with the counts of the whole list", async () => {
+    // Listed at the default levels: P1 (recurring, chronic) and P3 (chronic); P2 and P5 have one 14-day episode each.
+    const { status, body } = await get(recurringPage.loader, analyst, "/recurring");
+    expect(status).toBe(200);
+    expect(body.data.firstListed).toEqual({ recurringPools: 1, chronicPools: 2, listedPools: 2 });
+    expect(body.data.readings.map((r: Body) => r.poolId)).toEqual([P.P1, P.P3]);
+    // P3: 01-01 -> 03-20 is 31 + 28 + 19 = 78 days; 03-20 -> 12-31 is 12 (to 04-01) + 244 (April to November) + 30 = 286 days.
+    expect(body.data.readings[1]).toEqual({
+      poolId: P.P3,
+      start: Date.parse("2025-01-01T10:00:00Z"),
+      gapsMs: [78 * 86_400_000, 286 * 86_400_000],
+      iron: [50, 250, 150],
+    });
+    // Only P1's treatment: P2 is not listed.
+    expect(body.data.treatments.map((t: Body) => t.poolId)).toEqual([P.P1]);
   });
 });
 

@@ -74,31 +74,3 @@ export function findRecurring(
   };
 }
 
-
-/** A metal reading row in a compact form for the wire: [poolId, epoch ms, Cu, Cu "<", Fe, Fe "<", Mn, Mn "<"]. */
-export type CompactReading = [number, number, number | null, 0 | 1, number | null, 0 | 1, number | null, 0 | 1];
-
-export function compactReading(t: MetalTest): CompactReading {
-  return [
-    Number(t.poolId),
-    t.takenAt,
-    t.copper?.value ?? null,
-    t.copper?.belowDetection ? 1 : 0,
-    t.iron?.value ?? null,
-    t.iron?.belowDetection ? 1 : 0,
-    t.manganese?.value ?? null,
-    t.manganese?.belowDetection ? 1 : 0,
-  ];
-}
-
-export function expandReadings(rows: readonly CompactReading[]): MetalTest[] {
-  const reading = (value: number | null, below: 0 | 1) => (value === null ? null : { value, belowDetection: below === 1 });
-  return rows.map((r, i) => ({
-    id: String(i),
-    poolId: String(r[0]),
-    takenAt: r[1],
-    copper: reading(r[2], r[3]),
-    iron: reading(r[4], r[5]),
-    manganese: reading(r[6], r[7]),
-  }));
-}

@@ -5,7 +5,14 @@ import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { poolsInScope } from "../scope";
-import { compactReading, findRecurring, type CompactReading, type RecurringFindings } from "~/lib/analytics/recurring";
+import {
+  encodeReadingColumns,
+  encodeTreatmentColumns,
+  type ReadingColumns,
+  type TreatmentColumns,
+  type TreatmentProduct,
+} from "~/lib/analytics/reading-columns";
+import { findRecurring, type RecurringFindings } from "~/lib/analytics/recurring";
 import { metalReadings, treatmentRows } from "../metal-readings";
 import { poolProfiles } from "./rows";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
@@ -58,12 +65,19 @@ export type RecurringReadings = {
   thresholds: MetalThresholds;
   /** The elevated levels the readings were chosen for: any pool with an episode at these levels or stricter ones is here. */
   lowestElevated: Record<Metal, number>;
+  /**
+   * Null for the full answer. Otherwise only the first pools listed at `thresholds` are here (enough to draw
+   * their charts, not to move the levels or list more), with the counts of the whole list.
+   */
+  firstListed: { recurringPools: number; chronicPools: number; listedPools: number } | null;
   rules: { recurrenceWindowDays: number; chronicAfterDays: number };
   metals: Metal[];
   pools: Array<{ poolId: number; street: string; customerName: string; routeName: string | null; fillSourceName: string | null }>;
-  /** [poolId, epoch ms, copper, copper "<", iron, iron "<", manganese, manganese "<"], ordered by pool and time. */
-  readings: CompactReading[];
-  treatments: Array<{ poolId: number; appliedAt: string; productName: string; category: string }>;
+  /** Each pool's readings as columns, a metal left out where it never reaches `lowestElevated` (see ReadingColumns). */
+  readings: ReadingColumns[];
+  /** Products given, referred to by index from `treatments`. */
+  products: TreatmentProduct[];
+  treatments: TreatmentColumns[];
 };
 
 /**
@@ -72,20 +86,38 @@ export type RecurringReadings = {
  * at those levels or stricter ones, whatever the clear level. The browser
  * reruns the episode analysis on them as the levels move, and asks again only
  * when an elevated level goes below these.
+ *
+ * With `firstListed`, only the first that many pools listed (recurring or
+ * chronic) at the request's own levels are kept: episodes are found pool by
+ * pool, so their findings are unchanged. That is what a first paint at the
+ * company's levels draws.
  */
-export async function recurringReadings(scope: Scope, params: RecurringParams): Promise<RecurringReadings> {
+export async function recurringReadings(scope: Scope, params: RecurringParams, options: { firstListed?: number } = {}): Promise<RecurringReadings> {
   const metals = params.metal ? [params.metal] : [...METALS];
+  const rules = rulesOf(params);
   const lowestElevated = Object.fromEntries(METALS.map((m) => [m, params.thresholds[m].elevated])) as Record<Metal, number>;
   const candidates = await poolsReaching(scope, params.window, metals, (metal) => lowestElevated[metal]);
-  const [readings, book, treated] = await Promise.all([
-    metalReadings({ scope }, { window: params.window, metals, poolIds: candidates }),
-    poolProfiles(scope, { poolIds: candidates }),
-    treatmentRows({ scope }, { window: params.window, poolIds: candidates }),
+  let readings = await metalReadings({ scope }, { window: params.window, metals, poolIds: candidates });
+  let poolIds = candidates;
+  let firstListed: RecurringReadings["firstListed"] = null;
+  if (options.firstListed !== undefined) {
+    const findings = findRecurring(readings, new Map(), { thresholds: params.thresholds, metals, ...rules });
+    firstListed = { recurringPools: findings.recurringPools, chronicPools: findings.chronicPools, listedPools: findings.pools.length };
+    poolIds = findings.pools.slice(0, options.firstListed).map((p) => p.poolId);
+    const keep = new Set(poolIds.map(String));
+    readings = readings.filter((r) => keep.has(r.poolId));
+    poolIds.sort((a, b) => a - b);
+  }
+  const [book, treated] = await Promise.all([
+    poolProfiles(scope, { poolIds }),
+    treatmentRows({ scope }, { window: params.window, poolIds }),
   ]);
+  const treatedColumns = encodeTreatmentColumns(treated);
   return {
     thresholds: params.thresholds,
     lowestElevated,
-    rules: rulesOf(params),
+    firstListed,
+    rules,
     metals,
     pools: [...book.labels.values()].map((l) => ({
       poolId: l.poolId,
@@ -94,12 +126,8 @@ export async function recurringReadings(scope: Scope, params: RecurringParams): 
       routeName: l.routeName,
       fillSourceName: l.fillSourceName,
     })),
-    readings: readings.map(compactReading),
-    treatments: treated.map((t) => ({
-      poolId: Number(t.poolId),
-      appliedAt: new Date(t.appliedAt).toISOString(),
-      productName: t.productName,
-      category: t.category,
-    })),
+    readings: encodeReadingColumns(readings, metals, lowestElevated),
+    products: treatedColumns.products,
+    treatments: treatedColumns.pools,
   };
 }
