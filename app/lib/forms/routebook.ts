@@ -17,23 +17,17 @@ import {
   requiredDate,
   requiredText,
 } from "./fields";
+import { DOSE_BASES, EQUIPMENT_KINDS, EXCHANGER_METALS, PRODUCT_CATEGORIES, SANITISERS, SOURCE_KINDS, SURFACES } from "../stored-values";
 
-// Stored enum values, repeated here because the schema module is server-only.
-export const SOURCE_KINDS = ["municipal", "private_well", "shared_well", "trucked", "other"] as const;
-export const SURFACES = ["plaster", "pebble", "quartz", "vinyl", "fibreglass", "tile"] as const;
-export const SANITISERS = ["chlorine", "salt_generator", "mineral_assist", "other"] as const;
-export const EQUIPMENT_KINDS = ["heater", "heat_pump", "salt_cell", "pump", "filter", "ioniser", "other"] as const;
-export const EXCHANGER_METALS = ["copper", "cupronickel", "titanium", "none", "unknown"] as const;
-export const PRODUCT_CATEGORIES = [
-  "sequestrant",
-  "collector_pad",
-  "ph_decreaser",
-  "copper_algaecide",
-  "other_algaecide",
-  "chlorine",
-  "other",
-] as const;
-export const DOSE_BASES = ["per_10k_gal", "per_10_m3"] as const;
+export {
+  DOSE_BASES,
+  EQUIPMENT_KINDS,
+  EXCHANGER_METALS,
+  PRODUCT_CATEGORIES,
+  SANITISERS,
+  SOURCE_KINDS,
+  SURFACES,
+} from "../stored-values";
 export const POOL_SHAPES = ["rectangle", "round", "oval", "kidney"] as const;
 
 export type Parsed<T> = { ok: true; value: T } | { ok: false; fieldErrors: FieldErrors };

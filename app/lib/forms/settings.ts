@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { type FieldErrors, fieldErrorsOf, requiredChoice, requiredNumber } from "./fields";
 import type { Parsed } from "./routebook";
+import { UNIT_SYSTEMS } from "../stored-values";
 
 const METAL_NAMES = ["copper", "iron", "manganese"] as const;
 const METAL_LABEL = { copper: "Copper", iron: "Iron", manganese: "Manganese" } as const;
@@ -26,7 +27,7 @@ const settingsFields = {
   manganeseClear: clearLevel("Manganese clear"),
   balanceLow: requiredNumber({ label: "Balanced from", min: -2, max: 0 }),
   balanceHigh: requiredNumber({ label: "Balanced up to", min: 0, max: 2 }),
-  unitSystem: requiredChoice("Units", ["us", "metric"]),
+  unitSystem: requiredChoice("Units", UNIT_SYSTEMS),
   timeZone: z
     .string({ error: "Time zone: choose one." })
     .trim()

@@ -1,6 +1,7 @@
 import { fahrenheitToCelsius } from "@analysis/units/convert";
 import { parseMetalReading, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { type FieldErrors, parseBoundedNumber } from "./fields";
+import { HARDNESS_ENDPOINTS, PAD_TINTS, STAIN_COLOURS, STAIN_STATES } from "../stored-values";
 
 /** Analytes typed as plain numbers, with the hard bounds of accepted input (canonical units). */
 export const NUMERIC_ANALYTES = [
@@ -87,10 +88,8 @@ export function hasMetalReading(readings: VisitReadings): boolean {
 // ---------------------------------------------------------------------------
 // The whole visit form
 
-export const HARDNESS_ENDPOINTS = ["clean", "blurred"] as const;
-export const STAIN_STATES = ["none", "new", "existing"] as const;
-export const STAIN_COLOURS = ["blue_green", "red_brown", "black_brown", "other"] as const;
-export const PAD_TINTS = ["none", "tinted", "not_fitted"] as const;
+
+export { HARDNESS_ENDPOINTS, PAD_TINTS, STAIN_COLOURS, STAIN_STATES };
 
 export type TreatmentLine = { productId: number; amount: number; unit: string | null };
 

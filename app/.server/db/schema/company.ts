@@ -11,13 +11,14 @@ import {
   unique,
   varchar,
 } from "drizzle-orm/mysql-core";
+import { ROLE_NAMES } from "../../../lib/roles";
+import { UNIT_SYSTEMS, type UnitSystem } from "../../../lib/stored-values";
 import { user } from "./auth";
 
-export const ROLES = ["owner", "manager", "technician", "analyst"] as const;
+export const ROLES = ROLE_NAMES;
 export type Role = (typeof ROLES)[number];
 
-export const UNIT_SYSTEMS = ["us", "metric"] as const;
-export type UnitSystem = (typeof UNIT_SYSTEMS)[number];
+export { UNIT_SYSTEMS, type UnitSystem };
 
 /** Per-company overrides of the analysis defaults; absent keys use the defaults. */
 export type CompanySettings = {

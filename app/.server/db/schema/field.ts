@@ -16,20 +16,16 @@ import { user } from "./auth";
 import { companies } from "./company";
 import { pools } from "./routebook";
 
-export const PRODUCT_CATEGORIES = [
-  "sequestrant",
-  "collector_pad",
-  "ph_decreaser",
-  "copper_algaecide",
-  "other_algaecide",
-  "chlorine",
-  "other",
-] as const;
-export const DOSE_BASES = ["per_10k_gal", "per_10_m3"] as const;
-export const HARDNESS_ENDPOINTS = ["clean", "blurred"] as const;
-export const STAIN_STATES = ["none", "new", "existing"] as const;
-export const STAIN_COLOURS = ["blue_green", "red_brown", "black_brown", "other"] as const;
-export const PAD_TINTS = ["none", "tinted", "not_fitted"] as const;
+import {
+  DOSE_BASES,
+  HARDNESS_ENDPOINTS,
+  PAD_TINTS,
+  PRODUCT_CATEGORIES,
+  STAIN_COLOURS,
+  STAIN_STATES,
+} from "../../../lib/stored-values";
+
+export { DOSE_BASES, HARDNESS_ENDPOINTS, PAD_TINTS, PRODUCT_CATEGORIES, STAIN_COLOURS, STAIN_STATES };
 export const IMPORT_STATUSES = ["committed", "undone"] as const;
 
 const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);

@@ -14,11 +14,9 @@ import {
 } from "drizzle-orm/mysql-core";
 import { companies, routes } from "./company";
 
-export const SOURCE_KINDS = ["municipal", "private_well", "shared_well", "trucked", "other"] as const;
-export const SURFACES = ["plaster", "pebble", "quartz", "vinyl", "fibreglass", "tile"] as const;
-export const SANITISERS = ["chlorine", "salt_generator", "mineral_assist", "other"] as const;
-export const EQUIPMENT_KINDS = ["heater", "heat_pump", "salt_cell", "pump", "filter", "ioniser", "other"] as const;
-export const EXCHANGER_METALS = ["copper", "cupronickel", "titanium", "none", "unknown"] as const;
+import { EQUIPMENT_KINDS, EXCHANGER_METALS, SANITISERS, SOURCE_KINDS, SURFACES } from "../../../lib/stored-values";
+
+export { EQUIPMENT_KINDS, EXCHANGER_METALS, SANITISERS, SOURCE_KINDS, SURFACES };
 
 const metal = (name: string) => decimal(name, { precision: 6, scale: 3, mode: "number" });
 const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
