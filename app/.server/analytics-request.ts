@@ -5,13 +5,14 @@ import type { MetalThresholds } from "@analysis/metals/reading";
 import type { Area } from "~/lib/roles";
 import { parseQuery, thresholdProblem, withOverrides, type ThresholdOverrides } from "~/lib/analytics/params";
 import { apiError, requireApiMember, requireMember, type Scope } from "./guard";
-import { companyAnalyticsSettings, narrowToRoute, resolveWindow, type AnalyticsWindow } from "./queries/analytics/window";
+import { companyPreferences } from "./company-settings";
+import { narrowToRoute, resolveWindow, type TimeWindow } from "./queries/analytics/tenant-and-window";
 
 export type AnalyticsRequest<T> = {
   /** The member's scope, narrowed to the requested route when one was given. */
   scope: Scope;
   query: T;
-  window: AnalyticsWindow;
+  window: TimeWindow;
   thresholds: MetalThresholds;
   /** The company's own levels, before the request's overrides. */
   companyThresholds: MetalThresholds;
@@ -39,7 +40,7 @@ export async function readAnalyticsRequest<S extends z.ZodType>(
   const parsed = parseQuery(new URL(request.url).searchParams, schema);
   if (!parsed.ok) refuse(mode, parsed.field, parsed.message);
   const query = parsed.data as z.output<S> & { from?: string; to?: string; route?: number };
-  const settings = await companyAnalyticsSettings(member.companyId);
+  const settings = await companyPreferences(member);
   const thresholds = withOverrides(settings.thresholds, query as ThresholdOverrides);
   const problem = thresholdProblem(thresholds);
   if (problem) refuse(mode, problem.field, problem.message);

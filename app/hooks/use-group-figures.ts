@@ -1,5 +1,5 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { GroupFigures } from "~/.server/queries/analytics/groups";
+import type { GroupFigures } from "~/.server/queries/analytics/group-figures";
 import { analyticsKey, fetchAnalytics, sameParams, type AnalyticsSearch } from "./analytics-fetch";
 
 const PATH = "/api/analytics/groups";

@@ -1,5 +1,5 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { RecurringReadings } from "~/.server/queries/analytics/recurring";
+import type { RecurringReadings } from "~/.server/queries/analytics/recurring-pools";
 import { analyticsKey, fetchAnalytics, type AnalyticsSearch } from "./analytics-fetch";
 
 const PATH = "/api/analytics/recurring";

@@ -1,5 +1,5 @@
 import { keepPreviousData, useQuery } from "@tanstack/react-query";
-import type { RouteBookSummary } from "~/.server/queries/analytics/summary";
+import type { RouteBookSummary } from "~/.server/queries/analytics/route-book-summary";
 import { analyticsKey, fetchAnalytics, sameParams, type AnalyticsSearch } from "./analytics-fetch";
 
 const PATH = "/api/analytics/summary";

@@ -4,7 +4,7 @@ import type { ShouldRevalidateFunctionArgs } from "react-router";
 import type { MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
-import { recurringReadings } from "~/.server/queries/analytics/recurring";
+import { recurringReadings } from "~/.server/queries/analytics/recurring-pools";
 import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
 import { ErrorPanel } from "~/components/error-panel";

@@ -2,7 +2,7 @@ import { useSearchParams } from "react-router";
 import type { ShouldRevalidateFunctionArgs } from "react-router";
 import { GROUPING_KEYS, type GroupingKey } from "@analysis/stats/groups";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
-import { groupFigures } from "~/.server/queries/analytics/groups";
+import { groupFigures } from "~/.server/queries/analytics/group-figures";
 import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { GroupRateChart } from "~/components/analytics/group-chart";
 import { ErrorPanel } from "~/components/error-panel";

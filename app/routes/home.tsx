@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { METALS } from "@analysis/metals/reading";
-import { companyMetalThresholds } from "~/.server/company-settings";
+import { companyPreferences } from "~/.server/company-settings";
 import { requireMember } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/queries/home-summary";
 import { metalMarks } from "~/.server/queries/visit-metal-marks";
@@ -23,7 +23,7 @@ const GREETING: Record<string, string> = {
 export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "home");
   const now = new Date();
-  const thresholds = await companyMetalThresholds(scope.companyId);
+  const thresholds = (await companyPreferences(scope)).thresholds;
   const weekday = isoWeekdayIn(now, scope.timeZone);
   const [summary, stops] = await Promise.all([
     homeSummary(scope, thresholds, now),

@@ -1,6 +1,6 @@
 import { data, redirect } from "react-router";
 import { requireMember } from "~/.server/guard";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { poolForEdit } from "~/.server/queries/routebook-pools";
 import { routeOptions } from "~/.server/queries/routebook-routes";
 import { sourceOptions } from "~/.server/queries/routebook-sources";

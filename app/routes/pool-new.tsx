@@ -1,6 +1,6 @@
 import { redirect } from "react-router";
 import { requireMember } from "~/.server/guard";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { routeOptions } from "~/.server/queries/routebook-routes";
 import { sourceOptions } from "~/.server/queries/routebook-sources";
 import { refusedAnswer } from "~/.server/services/result";

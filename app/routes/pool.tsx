@@ -2,7 +2,7 @@ import { Link } from "react-router";
 import type { Metal } from "@analysis/metals/reading";
 import { METALS } from "@analysis/metals/reading";
 import { requireMember } from "~/.server/guard";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { poolMetalPanel } from "~/.server/queries/analytics/pool-evidence";
 import { poolPage } from "~/.server/queries/routebook-pool-page";
 import { CautionNote } from "~/components/caution-note";

@@ -1,5 +1,5 @@
 import { requireMember } from "~/.server/guard";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/queries/routebook-pools";
 import { routeOptions } from "~/.server/queries/routebook-routes";
 import { sourceOptions } from "~/.server/queries/routebook-sources";

@@ -1,8 +1,7 @@
 import { Form, useNavigation } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { requireMember } from "~/.server/guard";
-import { companySettingsRow } from "~/.server/queries/company";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { updateCompanySettings } from "~/.server/services/company-settings";
 import { refusedAnswer } from "~/.server/services/result";
 import { ErrorPanel } from "~/components/error-panel";
@@ -16,10 +15,10 @@ export const meta: Route.MetaFunction = () => [{ title: "Settings · Patina" }];
 
 export async function loader({ request }: Route.LoaderArgs) {
   const scope = await requireMember(request, "settings");
-  const [company, prefs] = await Promise.all([companySettingsRow(scope), companyPreferences(scope)]);
+  const prefs = await companyPreferences(scope);
   return {
-    name: company.name,
-    town: company.town,
+    name: prefs.name,
+    town: prefs.town,
     prefs,
     timeZones: ["UTC", ...Intl.supportedValuesOf("timeZone")],
   };

@@ -1,6 +1,6 @@
 import { Link } from "react-router";
 import { requireMember } from "~/.server/guard";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { sourceDetail } from "~/.server/queries/routebook-sources";
 import { refusedAnswer } from "~/.server/services/result";
 import { addSourceTest } from "~/.server/services/routebook-sources";

@@ -1,7 +1,7 @@
 import { data, redirect, type ShouldRevalidateFunctionArgs } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { activeProducts } from "~/.server/queries/routebook-products";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { visitPool } from "~/.server/queries/visit";
 import type { ServiceRefusal } from "~/.server/services/result";
 import { logVisit } from "~/.server/services/visit";

@@ -1,7 +1,7 @@
 import { Form, Link } from "react-router";
 import { requireMember } from "~/.server/guard";
 import { stopsForWeekday } from "~/.server/queries/home-summary";
-import { companyPreferences } from "~/.server/queries/routebook-company";
+import { companyPreferences } from "~/.server/company-settings";
 import { searchPools } from "~/.server/queries/routebook-pools";
 import { type MetalMark, metalMarks } from "~/.server/queries/visit-metal-marks";
 import { PageHeader } from "~/components/data-table";

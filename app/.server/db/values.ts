@@ -8,3 +8,8 @@ export function utcDate(value: unknown): Date | null {
   const text = String(value);
   return new Date(text.includes("T") ? text : `${text.replace(" ", "T")}Z`);
 }
+
+/** A stored calendar date ("YYYY-MM-DD") as the epoch milliseconds of its UTC midnight. */
+export function dayToMs(day: string | null): number | null {
+  return day ? Date.parse(`${day}T00:00:00Z`) : null;
+}

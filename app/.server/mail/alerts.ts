@@ -3,11 +3,12 @@ import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode } from
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
 import { DEFAULT_SHARED_SOURCE_RULES, sharedSourceAlerts } from "@analysis/metals/shared-source";
-import { metalThresholdsFrom } from "../company-settings";
+import { companySettings } from "../company-settings";
 import { db } from "../db/client";
-import { alertEvents, ALERT_KINDS, companies, fillSources, mailPreferences, memberships, pools, routes, user } from "../db/schema";
+import { alertEvents, ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
 import { serverEnv } from "../env";
 import { waterTestReadings } from "../queries/metal-readings";
+import { poolLabels } from "../queries/analytics/pool-profiles";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
 import { enqueueMail } from "./outbox";
 import type { RenderedMail } from "./templates";
@@ -37,15 +38,8 @@ type AlertEvent = {
 export type RecordedAlert = { kind: AlertKind; dedupeKey: string; recipients: string[] };
 
 async function companyFor(companyId: number): Promise<Company | null> {
-  const [row] = await db().select().from(companies).where(eq(companies.id, companyId));
-  if (!row) return null;
-  return {
-    id: row.id,
-    name: row.name,
-    timeZone: row.timeZone,
-    thresholds: metalThresholdsFrom(row.settings),
-    alertOwners: row.settings?.alertOwners === true,
-  };
+  const settings = await companySettings(companyId);
+  return settings && { id: companyId, name: settings.name, timeZone: settings.timeZone, thresholds: settings.thresholds, alertOwners: settings.alertOwners };
 }
 
 /** The managers, and the owners when the company asks for it, who have not turned alerts off. */
@@ -58,23 +52,6 @@ async function alertRecipients(company: Company) {
     .leftJoin(mailPreferences, eq(mailPreferences.membershipId, memberships.id))
     .where(and(eq(memberships.companyId, company.id), inArray(memberships.role, roles)));
   return rows.filter((r) => r.alerts !== false);
-}
-
-async function poolLabels(companyId: number, poolIds: readonly number[]): Promise<Map<number, PoolLabel & { fillSourceId: number | null; active: boolean }>> {
-  if (poolIds.length === 0) return new Map();
-  const rows = await db()
-    .select({
-      poolId: pools.id,
-      customerName: pools.customerName,
-      street: pools.street,
-      routeName: routes.name,
-      fillSourceId: pools.fillSourceId,
-      active: pools.active,
-    })
-    .from(pools)
-    .leftJoin(routes, eq(routes.id, pools.routeId))
-    .where(and(eq(pools.companyId, companyId), inArray(pools.id, [...poolIds])));
-  return new Map(rows.map((r) => [r.poolId, r]));
 }
 
 /** Stores each event once (UNIQUE company + key) and, only for a new event, queues one mail per recipient. */
@@ -162,10 +139,10 @@ function poolEvents(company: Company, label: PoolLabel, episodes: readonly Episo
 }
 
 async function poolAlerts(company: Company, poolId: number, now: number): Promise<AlertEvent[]> {
-  const labels = await poolLabels(company.id, [poolId]);
+  const labels = await poolLabels({ companyId: company.id }, { poolIds: [poolId] });
   const label = labels.get(poolId);
   if (!label) return [];
-  const tests = (await waterTestReadings({ companyId: company.id }, { poolIds: [poolId] })).filter((t) => t.takenAt <= now);
+  const tests = await waterTestReadings({ companyId: company.id }, { poolIds: [poolId], window: { from: null, to: new Date(now) } });
   const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
   const valueAt = new Map<string, number>();
   for (const t of tests) {
@@ -191,7 +168,7 @@ async function sourceAlerts(company: Company, fillSourceId: number, now: number)
     .select({ n: count() })
     .from(pools)
     .where(and(eq(pools.companyId, company.id), eq(pools.fillSourceId, fillSourceId), eq(pools.active, true)));
-  const tests = (await waterTestReadings({ companyId: company.id }, { poolIds: onSource.map((p) => p.id) })).filter((t) => t.takenAt <= now);
+  const tests = await waterTestReadings({ companyId: company.id }, { poolIds: onSource.map((p) => p.id), window: { from: null, to: new Date(now) } });
   const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
   const profiles: PoolProfile[] = onSource.map((p) => ({ poolId: String(p.id), fillSourceId: String(fillSourceId) }));
   const alerts = sharedSourceAlerts(history.episodes, profiles, {
@@ -200,7 +177,7 @@ async function sourceAlerts(company: Company, fillSourceId: number, now: number)
   const since = now - ALERT_LOOKBACK_DAYS * DAY_MS;
   const recent = alerts.filter((a) => a.lastOpeningAt >= since);
   if (recent.length === 0) return [];
-  const labels = await poolLabels(company.id, [...new Set(recent.flatMap((a) => a.poolIds.map(Number)))]);
+  const labels = await poolLabels({ companyId: company.id }, { poolIds: [...new Set(recent.flatMap((a) => a.poolIds.map(Number)))] });
   const common = { baseUrl: serverEnv().PATINA_URL, companyName: company.name, timeZone: company.timeZone };
   return recent.map((alert) => {
     const poolsInWave = alert.poolIds.map((id) => labels.get(Number(id))).filter((p): p is NonNullable<typeof p> => Boolean(p));
@@ -250,7 +227,7 @@ async function recordAlertsForPools(companyId: number, poolIds: readonly number[
   const unique = [...new Set(poolIds)];
   const events: AlertEvent[] = [];
   for (const poolId of unique) events.push(...(await poolAlerts(company, poolId, now)));
-  const labels = await poolLabels(companyId, unique);
+  const labels = await poolLabels({ companyId }, { poolIds: unique });
   const sources = new Set([...labels.values()].map((p) => p.fillSourceId).filter((id): id is number => id !== null));
   for (const sourceId of sources) events.push(...(await sourceAlerts(company, sourceId, now)));
   return recordEvents(company, events);

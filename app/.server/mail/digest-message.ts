@@ -4,7 +4,7 @@ import { formatDate } from "~/lib/format";
 import { METAL_LABELS } from "~/lib/metals";
 import { absoluteUrl, renderMail, type RenderedMail } from "./templates";
 
-type PoolName = { id: number; customerName: string; street: string };
+type PoolName = { customerName: string; street: string };
 
 export type WeeklyDigest = {
   companyName: string;

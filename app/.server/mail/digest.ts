@@ -3,17 +3,16 @@ import { format } from "date-fns";
 import { and, eq, inArray } from "drizzle-orm";
 import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/episodes";
 import type { Metal } from "@analysis/metals/reading";
-import type { PoolProfile } from "@analysis/metals/route-book";
 import { buildCourses, courseOutcomes } from "@analysis/outcomes/treatments";
 import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
 import { METALS } from "@analysis/metals/reading";
-import { metalThresholdsFrom } from "../company-settings";
+import { companySettings } from "../company-settings";
 import { db } from "../db/client";
 import { companies, mailOutbox, memberships, user } from "../db/schema";
 import { serverEnv } from "../env";
-import { SANITISER, SOURCE_KIND } from "../queries/analytics/rows";
+import { poolProfiles, type PoolLabel } from "../queries/analytics/pool-profiles";
+import { isWithin } from "../queries/analytics/tenant-and-window";
 import { treatmentRows, waterTestReadings } from "../queries/metal-readings";
-import { poolsWithPlaces } from "../queries/routebook-pools";
 import { digestMail, type WeeklyDigest } from "./digest-message";
 import { enqueueMail } from "./outbox";
 import { preferencesFor } from "./preferences";
@@ -21,7 +20,7 @@ import { nudgeMailWorker } from "./worker";
 
 const WEEK_MS = 7 * DAY_MS;
 
-/** Groupings the digest can judge from the route book alone (heater age and exchanger metal need equipment rows). */
+/** Groupings the digest reports; heater age and exchanger metal need observed time split at equipment dates, which the risk page does. */
 const DIGEST_GROUPINGS: Array<{ key: GroupingKey; label: string }> = [
   { key: "fill-source", label: "Fill source" },
   { key: "fill-source-kind", label: "Kind of fill source" },
@@ -30,40 +29,6 @@ const DIGEST_GROUPINGS: Array<{ key: GroupingKey; label: string }> = [
   { key: "surface", label: "Surface" },
   { key: "sanitiser", label: "Sanitiser" },
 ];
-
-type CompanyPool = {
-  id: number;
-  customerName: string;
-  street: string;
-  routeName: string | null;
-  sourceName: string | null;
-  profile: PoolProfile;
-};
-
-async function companyPools(companyId: number): Promise<Map<number, CompanyPool>> {
-  const rows = await poolsWithPlaces({ companyId });
-  return new Map(
-    rows.map((r) => [
-      r.id,
-      {
-        id: r.id,
-        customerName: r.customerName,
-        street: r.street,
-        routeName: r.routeName,
-        sourceName: r.fillSourceName,
-        profile: {
-          poolId: String(r.id),
-          fillSourceId: r.fillSourceId === null ? null : String(r.fillSourceId),
-          fillSourceKind: r.fillSourceKind === null ? null : SOURCE_KIND[r.fillSourceKind],
-          neighbourhood: r.neighbourhood,
-          routeId: r.routeId === null ? null : String(r.routeId),
-          surface: r.surface,
-          sanitiser: r.sanitiser === null ? null : SANITISER[r.sanitiser],
-        },
-      },
-    ]),
-  );
-}
 
 function becameRecurring(episodes: readonly Episode[]): Array<{ episode: Episode; previous: Episode }> {
   const found: Array<{ episode: Episode; previous: Episode }> = [];
@@ -88,17 +53,18 @@ function becameRecurring(episodes: readonly Episode[]): Array<{ episode: Episode
  * rest of the route book, and treatments whose follow-up came in this week.
  */
 export async function weeklyDigestFor(companyId: number, now: Date): Promise<WeeklyDigest | null> {
-  const [company] = await db().select().from(companies).where(eq(companies.id, companyId));
+  const company = await companySettings(companyId);
   if (!company) return null;
-  const thresholds = metalThresholdsFrom(company.settings);
+  const { thresholds } = company;
   const weekStart = now.getTime() - WEEK_MS;
+  const week = { from: new Date(weekStart), to: now };
   const [book, tests, applied] = await Promise.all([
-    companyPools(companyId),
+    poolProfiles({ companyId }),
     waterTestReadings({ companyId }, { window: { from: null, to: now }, with: { ph: true } }),
     treatmentRows({ companyId }, { window: { from: new Date(now.getTime() - 45 * DAY_MS), to: now } }),
   ]);
   const history = analyseMetalHistory(tests, { thresholds });
-  const poolOf = (id: string) => book.get(Number(id));
+  const poolOf = (id: string): PoolLabel | undefined => book.labels.get(Number(id));
 
   const openCases = history.episodes
     .filter((e) => e.censored)
@@ -113,18 +79,18 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
     .filter((c) => c.pool);
 
   const newRecurring = becameRecurring(history.episodes)
-    .filter(({ episode }) => episode.openedAt >= weekStart && episode.openedAt <= now.getTime())
+    .filter(({ episode }) => isWithin(episode.openedAt, week))
     .map(({ episode, previous }) => ({ pool: poolOf(episode.poolId)!, metal: episode.metal, openedAt: episode.openedAt, previousOpenedAt: previous.openedAt }))
     .filter((r) => r.pool);
 
-  const profiles = [...book.values()].map((p) => p.profile);
+  const labels = [...book.labels.values()];
   const groupName = (key: GroupingKey, group: string): string => {
-    if (key === "fill-source") return [...book.values()].find((p) => p.profile.fillSourceId === group)?.sourceName ?? group;
-    if (key === "route") return [...book.values()].find((p) => p.profile.routeId === group)?.routeName ?? group;
+    if (key === "fill-source") return labels.find((p) => String(p.fillSourceId) === group)?.fillSourceName ?? group;
+    if (key === "route") return labels.find((p) => String(p.routeId) === group)?.routeName ?? group;
     return group.replaceAll("-", " ");
   };
   const riskyGroups = DIGEST_GROUPINGS.flatMap(({ key, label }) =>
-    groupComparison(profiles, tests, history.episodes, key)
+    groupComparison(book.profiles, tests, history.episodes, key)
       .filter((g) => g.risky)
       .map((g) => ({
         grouping: label,
@@ -138,7 +104,7 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
 
   const courses = buildCourses(applied);
   const productName = new Map(applied.map((t) => [String(t.productId), t.productName]));
-  const inWeek = (at: number | null | undefined) => typeof at === "number" && at >= weekStart && at <= now.getTime();
+  const inWeek = (at: number | null | undefined) => typeof at === "number" && isWithin(at, week);
   const treatmentResults = METALS.flatMap((metal: Metal) =>
     courseOutcomes(courses, tests, metal, { thresholds })
       .filter((o) => o.ineligible === null && (inWeek(o.firstFollowUp?.takenAt) || inWeek(o.clearedAt)))

@@ -1,20 +1,10 @@
-import { and, asc, eq, gte, inArray, isNotNull, lte, or, sql, type SQL } from "drizzle-orm";
+import { and, asc, eq, inArray, isNotNull, or, sql, type SQL } from "drizzle-orm";
 import type { HardnessEndpoint, MetalTest } from "@analysis/metals/episodes";
 import type { OutcomeTest, ProductCategory, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { db, pool } from "../db/client";
 import { PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
-
-/**
- * Whose rows are read: a member's Scope (company and, for technicians, their
- * routes' pools), or a whole company for mail sent outside any request.
- */
-export type Tenant = { scope: Scope } | { companyId: number };
-
-/** Instants bounding the rows read; null = open-ended. */
-export type TimeWindow = { from: Date | null; to: Date | null };
+import { tenantCondition, testsInScope, withinWindow, type Tenant, type TimeWindow } from "./analytics/tenant-and-window";
 
 export const PRODUCT_CATEGORY: Record<(typeof PRODUCT_CATEGORIES)[number], ProductCategory> = {
   sequestrant: "sequestrant",
@@ -34,20 +24,6 @@ export function metalReading(value: number | null, belowDetection: boolean): Met
 /** Tests with at least one of these metals measured. */
 export function anyMetalMeasured(metals: readonly Metal[] = METALS): SQL {
   return or(...metals.map((metal) => isNotNull(waterTests[metal])))!;
-}
-
-export function withinWindow(column: typeof waterTests.sampledAt | typeof treatments.appliedAt, window: TimeWindow | undefined): SQL[] {
-  const conditions: SQL[] = [];
-  if (window?.from) conditions.push(gte(column, window.from));
-  if (window?.to) conditions.push(lte(column, window.to));
-  return conditions;
-}
-
-/** The company condition, and with a Scope the pool condition too (the caller joins pools). */
-function tenantCondition(tenant: Tenant, companyColumn: typeof waterTests.companyId | typeof treatments.companyId): SQL {
-  return "scope" in tenant
-    ? and(poolsInScope(tenant.scope), eq(companyColumn, tenant.scope.companyId))!
-    : eq(companyColumn, tenant.companyId);
 }
 
 export type WaterTestQuery = {
@@ -88,9 +64,8 @@ export async function waterTestReadings(tenant: Tenant, query: WaterTestQuery = 
   const built = ("scope" in tenant ? select.innerJoin(pools, eq(pools.id, waterTests.poolId)) : select)
     .where(
       and(
-        tenantCondition(tenant, waterTests.companyId),
+        testsInScope(tenant, query.window),
         query.poolIds ? inArray(waterTests.poolId, [...query.poolIds]) : undefined,
-        ...withinWindow(waterTests.sampledAt, query.window),
         query.where,
       ),
     )
@@ -167,7 +142,7 @@ export async function treatmentRows(
     .where(
       and(
         tenantCondition(tenant, treatments.companyId),
-        ...withinWindow(treatments.appliedAt, query.window),
+        withinWindow(treatments.appliedAt, query.window),
         query.poolIds ? inArray(treatments.poolId, [...query.poolIds]) : undefined,
         query.categories ? inArray(products.category, [...query.categories]) : undefined,
       ),

@@ -6,7 +6,6 @@ import { utcDate } from "../db/values";
 import { equipment, fillSources, pools, routes } from "../db/schema";
 import type { Scope } from "../guard";
 import { listOrder, withTotal } from "./list-page";
-import type { Tenant } from "./metal-readings";
 import { poolsInScope } from "./scope";
 
 export const POOL_SORTS = ["account", "customer", "street", "neighbourhood", "route", "volume", "lastTest"] as const;
@@ -110,30 +109,4 @@ export async function searchPools(scope: Scope, q: string, limit = 20) {
     )
     .orderBy(asc(pools.street))
     .limit(limit);
-}
-
-/**
- * Every pool with its route and fill source, for a member's Scope or, for
- * mail sent outside any request, a whole company.
- */
-export async function poolsWithPlaces(tenant: Tenant) {
-  return db()
-    .select({
-      id: pools.id,
-      customerName: pools.customerName,
-      street: pools.street,
-      neighbourhood: pools.neighbourhood,
-      surface: pools.surface,
-      sanitiser: pools.sanitiser,
-      routeId: pools.routeId,
-      routeName: routes.name,
-      fillSourceId: pools.fillSourceId,
-      fillSourceName: fillSources.name,
-      fillSourceKind: fillSources.kind,
-    })
-    .from(pools)
-    .leftJoin(routes, eq(routes.id, pools.routeId))
-    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-    .where("scope" in tenant ? poolsInScope(tenant.scope) : eq(pools.companyId, tenant.companyId))
-    .orderBy(asc(pools.id));
 }

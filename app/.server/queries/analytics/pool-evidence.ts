@@ -6,9 +6,12 @@ import { episodeJson, isoInstant, type EpisodeJson } from "~/lib/analytics/json"
 import type { Scope } from "../../guard";
 import { poolBalance, poolInScope } from "./pool-series";
 import { metalReadings, treatmentRows } from "../metal-readings";
-import { dayToMs, poolProfiles, sourceTestRows } from "./rows";
+import { dayToMs } from "../../db/values";
+import { companyPreferences } from "../../company-settings";
+import { sourceTestRows } from "./fill-water-tests";
+import { poolProfiles } from "./pool-profiles";
 import { sharedSourceAlertList } from "./shared-source-alerts";
-import { companyAnalyticsSettings, type AnalyticsParams } from "./window";
+import { ALL_TIME, type AnalyticsParams } from "./tenant-and-window";
 import { formatDate } from "~/lib/format";
 
 export type EpisodeEvidence = EpisodeJson & { evidence: Array<{ kind: Evidence["kind"]; reason: string; at: string | null }> };
@@ -35,10 +38,10 @@ export async function poolEvidence(
   if (!(await poolInScope(scope, poolId))) return null;
   const [readings, book, treated, balance] = await Promise.all([
     metalReadings({ scope }, { window: params.window, poolIds: [poolId] }),
-    poolProfiles(scope, { poolIds: [poolId] }),
+    poolProfiles({ scope }, { poolIds: [poolId] }),
     // Algaecide evidence looks back before the window's first episode.
     treatmentRows({ scope }, { window: { from: null, to: params.window.to }, poolIds: [poolId] }),
-    poolBalance(scope.companyId, poolId, { from: null, to: params.window.to }),
+    poolBalance(scope, poolId, { from: null, to: params.window.to }),
   ]);
   const pool = book.profiles[0]!;
   const sourceId = book.labels.get(poolId)?.fillSourceId ?? null;
@@ -96,11 +99,11 @@ export async function poolEvidence(
  * band, the whole history, dates in the company's time zone.
  */
 export async function poolMetalPanel(scope: Scope, poolId: number): Promise<PoolEvidence | null> {
-  const settings = await companyAnalyticsSettings(scope.companyId);
+  const settings = await companyPreferences(scope);
   return poolEvidence(
     scope,
     poolId,
-    { window: { from: null, to: null }, thresholds: settings.thresholds, metal: null, balanceBand: settings.balanceBand },
+    { window: ALL_TIME, thresholds: settings.thresholds, metal: null, balanceBand: settings.balanceBand },
     (ms) => formatDate(new Date(ms), scope.timeZone),
   );
 }

@@ -1,4 +1,4 @@
-import { and, asc, eq, gte, isNotNull, lte, or, type SQL } from "drizzle-orm";
+import { and, asc, eq, isNotNull } from "drizzle-orm";
 import { saturationIndex } from "@analysis/chemistry/saturation";
 import { analyseMetalHistory } from "@analysis/metals/episodes";
 import { METALS, type Metal } from "@analysis/metals/reading";
@@ -7,9 +7,8 @@ import type { SeriesAnalyte } from "~/lib/analytics/params";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
 import { metalReadings, treatmentRows } from "../metal-readings";
-import type { AnalyticsParams, AnalyticsWindow } from "./window";
+import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
 export const ANALYTE_UNITS: Record<SeriesAnalyte, string> = {
   copper: "mg/L",
@@ -41,15 +40,8 @@ export type PoolSeries = {
 };
 
 export async function poolInScope(scope: Scope, poolId: number): Promise<boolean> {
-  const [row] = await db().select({ id: pools.id }).from(pools).where(and(poolsInScope(scope), eq(pools.id, poolId)));
+  const [row] = await db().select({ id: pools.id }).from(pools).where(and(tenantCondition({ scope }), eq(pools.id, poolId)));
   return Boolean(row);
-}
-
-function inWindow(window: AnalyticsWindow): SQL[] {
-  const conditions: SQL[] = [];
-  if (window.from) conditions.push(gte(waterTests.sampledAt, window.from));
-  if (window.to) conditions.push(lte(waterTests.sampledAt, window.to));
-  return conditions;
 }
 
 const isMetal = (analyte: SeriesAnalyte): analyte is Metal => (METALS as readonly string[]).includes(analyte);
@@ -65,19 +57,19 @@ const BALANCE_COLUMNS = {
 };
 
 /** Saturation index of one pool's tests that carry what it needs, oldest first. */
-export async function poolBalance(companyId: number, poolId: number, window: AnalyticsWindow) {
+export async function poolBalance(scope: Scope, poolId: number, window: TimeWindow) {
   const rows = await db()
     .select({ sampledAt: waterTests.sampledAt, ...BALANCE_COLUMNS })
     .from(waterTests)
+    .innerJoin(pools, eq(pools.id, waterTests.poolId))
     .where(
       and(
-        eq(waterTests.companyId, companyId),
+        testsInScope({ scope }, window),
         eq(waterTests.poolId, poolId),
         isNotNull(waterTests.ph),
         isNotNull(waterTests.temperatureC),
         isNotNull(waterTests.calciumHardness),
         isNotNull(waterTests.totalAlkalinity),
-        ...inWindow(window),
       ),
     )
     .orderBy(asc(waterTests.sampledAt));
@@ -97,7 +89,7 @@ export async function poolSeries(scope: Scope, poolId: number, analyte: SeriesAn
     const readings = await metalReadings({ scope }, { window: params.window, metals: [analyte], poolIds: [poolId] });
     points = readings.map((r) => ({ at: new Date(r.takenAt).toISOString(), value: r[analyte]!.value, belowDetection: r[analyte]!.belowDetection }));
   } else if (analyte === "saturationIndex") {
-    points = (await poolBalance(scope.companyId, poolId, params.window)).map((p) => ({
+    points = (await poolBalance(scope, poolId, params.window)).map((p) => ({
       at: new Date(p.takenAt).toISOString(),
       value: p.saturationIndex,
       belowDetection: false,
@@ -107,7 +99,8 @@ export async function poolSeries(scope: Scope, poolId: number, analyte: SeriesAn
     const rows = await db()
       .select({ sampledAt: waterTests.sampledAt, value: column })
       .from(waterTests)
-      .where(and(eq(waterTests.companyId, scope.companyId), eq(waterTests.poolId, poolId), isNotNull(column), ...inWindow(params.window)))
+      .innerJoin(pools, eq(pools.id, waterTests.poolId))
+      .where(and(testsInScope({ scope }, params.window), eq(waterTests.poolId, poolId), isNotNull(column)))
       .orderBy(asc(waterTests.sampledAt));
     points = rows.map((r) => ({ at: r.sampledAt.toISOString(), value: Number(r.value), belowDetection: false }));
   }

@@ -6,10 +6,9 @@ import { isoInstant } from "~/lib/analytics/json";
 import { db } from "../../db/client";
 import { fillSources, pools } from "../../db/schema";
 import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
 import { metalReadings } from "../metal-readings";
-import { poolProfiles } from "./rows";
-import type { AnalyticsParams } from "./window";
+import { poolProfiles } from "./pool-profiles";
+import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
 
 export type SourceAlert = {
   fillSourceId: number;
@@ -70,7 +69,7 @@ export async function sourceAlertsWithReadings(
     .from(pools)
     .where(
       and(
-        poolsInScope(scope),
+        tenantCondition({ scope }),
         isNotNull(pools.fillSourceId),
         params.sourceIds ? inArray(pools.fillSourceId, [...params.sourceIds]) : undefined,
       ),
@@ -78,12 +77,12 @@ export async function sourceAlertsWithReadings(
   const sourceIds = visibleSources.map((s) => s.id!).filter((id) => id !== null);
   if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0, readings: [] };
 
-  const companyScope: Scope = { ...scope, routeIds: null };
+  const companyWide = { companyId: scope.companyId };
   const [sourcePools, sources, active] = await Promise.all([
     db()
       .select({ id: pools.id })
       .from(pools)
-      .where(and(eq(pools.companyId, scope.companyId), inArray(pools.fillSourceId, sourceIds))),
+      .where(and(tenantCondition(companyWide), inArray(pools.fillSourceId, sourceIds))),
     db()
       .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
       .from(fillSources)
@@ -91,15 +90,15 @@ export async function sourceAlertsWithReadings(
     db()
       .select({ sourceId: pools.fillSourceId, n: count() })
       .from(pools)
-      .where(and(eq(pools.companyId, scope.companyId), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
+      .where(and(tenantCondition(companyWide), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
       .groupBy(pools.fillSourceId),
   ]);
   const poolIds = sourcePools.map((p) => p.id);
   const metals = params.metal ? [params.metal] : METALS;
   const [readings, book, visible] = await Promise.all([
-    metalReadings({ scope: companyScope }, { window: params.window, metals: params.metal ? metalsToRead : METALS, poolIds }),
-    poolProfiles(companyScope, { poolIds }),
-    db().select({ id: pools.id, street: pools.street }).from(pools).where(and(poolsInScope(scope), inArray(pools.id, poolIds))),
+    metalReadings(companyWide, { window: params.window, metals: params.metal ? metalsToRead : METALS, poolIds }),
+    poolProfiles(companyWide, { poolIds }),
+    db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, poolIds))),
   ]);
   const alertReadings = params.metal && metalsToRead.some((m) => m !== params.metal) ? onlyMetal(readings, params.metal) : readings;
   const history = analyseMetalHistory(alertReadings, { thresholds: params.thresholds, metals });

@@ -2,12 +2,11 @@ import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
 import type { MetalTest } from "@analysis/metals/episodes";
 import { METALS, metalStatus, type Metal, type MetalReading, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
-import { fillSources, pools } from "../../db/schema";
+import { fillSources, pools, routes } from "../../db/schema";
 import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
 import { sourceAlertsWithReadings, type SourceAlert } from "./shared-source-alerts";
-import { sourceTestRows } from "./rows";
-import type { AnalyticsParams } from "./window";
+import { sourceTestRows } from "./fill-water-tests";
+import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
 
 export type PoolMetalState = "open" | "clear" | "not-tested";
 
@@ -87,7 +86,7 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
   const scopedPools = await db()
     .select({ id: pools.id, street: pools.street, fillSourceId: pools.fillSourceId, routeId: pools.routeId })
     .from(pools)
-    .where(and(poolsInScope(scope), eq(pools.active, true)))
+    .where(and(tenantCondition({ scope }), eq(pools.active, true)))
     .orderBy(asc(pools.street));
   const technician = scope.routeIds !== null;
   const ownSourceIds = [...new Set(scopedPools.map((p) => p.fillSourceId).filter((id): id is number => id !== null))];
@@ -110,14 +109,14 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
     db()
       .select({ sourceId: pools.fillSourceId, n: count() })
       .from(pools)
-      .where(and(eq(pools.companyId, scope.companyId), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
+      .where(and(tenantCondition({ companyId: scope.companyId }), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
       .groupBy(pools.fillSourceId),
     sourceTestRows(scope.companyId, sourceIds),
     sourceAlertsWithReadings(scope, params, METALS),
-    db().execute(sql`SELECT id, name FROM routes WHERE company_id = ${scope.companyId}`) as unknown as Promise<[Array<{ id: number; name: string }>]>,
+    db().select({ id: routes.id, name: routes.name }).from(routes).where(eq(routes.companyId, scope.companyId)),
   ]);
   const states = poolMetalStates(alerts.readings, new Set(onSources.map((p) => p.id)), params.thresholds);
-  const routeName = new Map(routeNames[0].map((r) => [Number(r.id), String(r.name)]));
+  const routeName = new Map(routeNames.map((r) => [r.id, r.name]));
   const activeBySource = new Map(active.map((a) => [a.sourceId, a.n]));
   let flaggedPoolsInScope = 0;
   const report = sources.map((s) => {

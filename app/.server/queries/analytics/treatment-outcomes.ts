@@ -8,11 +8,10 @@ import { isoInstant, jsonInterval, type JsonInterval } from "~/lib/analytics/jso
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
 import { anyMetalMeasured, treatmentRows, waterTestReadings } from "../metal-readings";
-import type { AnalyticsWindow } from "./window";
+import { tenantCondition, isWithin, type TimeWindow } from "./tenant-and-window";
 
-export type OutcomeParams = { window: AnalyticsWindow; thresholds: MetalThresholds; metal: Metal; arm: ArmDimension };
+export type OutcomeParams = { window: TimeWindow; thresholds: MetalThresholds; metal: Metal; arm: ArmDimension };
 
 export type CurvePoint = { day: number; stillElevated: number; lower: number; upper: number; atRisk: number; cleared: number; censored: number };
 
@@ -84,9 +83,6 @@ const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
 
 const COURSE_CATEGORIES = ["sequestrant", "collector_pad", "ph_decreaser"] as const;
 
-const inWindow = (at: number, window: AnalyticsWindow) =>
-  (!window.from || at >= window.from.getTime()) && (!window.to || at <= window.to.getTime());
-
 /**
  * Keeps the tests taken from the baseline look-back before to the end of the
  * recurrence check after any metal treatment of their pool. Tests and
@@ -128,7 +124,7 @@ export function testsNearTreatments(tests: readonly OutcomeTest[], applied: Read
 export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
   // Every metal treatment bounds the tests kept; only those in the window form courses.
   const everyApplied = await treatmentRows({ scope }, { categories: COURSE_CATEGORIES });
-  const applied = everyApplied.filter((t) => inWindow(t.appliedAt, params.window));
+  const applied = everyApplied.filter((t) => isWithin(t.appliedAt, params.window));
   const courses = buildCourses(applied);
   const treatedPools = [...new Set(courses.map((c) => Number(c.poolId)))];
   const read = await waterTestReadings({ scope }, { poolIds: treatedPools, with: { ph: true }, where: or(anyMetalMeasured(), isNotNull(waterTests.ph)) });
@@ -152,7 +148,7 @@ export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Pr
   const hints = escalationDue(outcomes);
   const streets = hints.length
     ? new Map(
-        (await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(poolsInScope(scope), inArray(pools.id, hints.map((h) => Number(h.poolId)))))).map(
+        (await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, hints.map((h) => Number(h.poolId)))))).map(
           (p) => [p.id, p.street],
         ),
       )

@@ -1,6 +1,6 @@
 import type { GroupingKey } from "@analysis/stats/groups";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
-import { groupFigures } from "~/.server/queries/analytics/groups";
+import { groupFigures } from "~/.server/queries/analytics/group-figures";
 import { groupsQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/groups";
 

@@ -1,5 +1,5 @@
 import { readAnalyticsRequest } from "~/.server/analytics-request";
-import { recurringPools, recurringReadings } from "~/.server/queries/analytics/recurring";
+import { recurringPools, recurringReadings } from "~/.server/queries/analytics/recurring-pools";
 import { recurringQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/recurring";
 

@@ -1,5 +1,5 @@
 import { readAnalyticsRequest } from "~/.server/analytics-request";
-import { routeBookSummary } from "~/.server/queries/analytics/summary";
+import { routeBookSummary } from "~/.server/queries/analytics/route-book-summary";
 import { summaryQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/summary";
 

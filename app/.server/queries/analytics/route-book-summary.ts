@@ -1,14 +1,13 @@
-import { and, count, countDistinct, eq, gte, isNotNull, lte, or, sql, type SQL } from "drizzle-orm";
+import { and, count, countDistinct, eq, isNotNull, or, sql } from "drizzle-orm";
 import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
 import type { Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
-import { loadMetalDataset, type MetalDataset } from "./dataset";
-import { computeRiskyGroups, type RiskyGroup } from "./groups";
-import type { AnalyticsParams, AnalyticsWindow } from "./window";
+import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
+import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
+import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
 export type BalanceShare = { pools: number; share: number | null };
 
@@ -32,13 +31,6 @@ export type RouteBookSummary = {
   };
 };
 
-function windowOn(column: typeof waterTests.sampledAt, window: AnalyticsWindow): SQL[] {
-  const conditions: SQL[] = [];
-  if (window.from) conditions.push(gte(column, window.from));
-  if (window.to) conditions.push(lte(column, window.to));
-  return conditions;
-}
-
 const balanceInputsPresent = and(
   isNotNull(waterTests.ph),
   isNotNull(waterTests.temperatureC),
@@ -51,7 +43,7 @@ const balanceInputsPresent = and(
  * tests, how many with a metal, and when the latest test carrying all four
  * balance inputs was taken.
  */
-function poolTestFigures(scope: Scope, window: AnalyticsWindow) {
+function poolTestFigures(scope: Scope, window: TimeWindow) {
   return db()
     .select({
       poolId: waterTests.poolId,
@@ -61,7 +53,7 @@ function poolTestFigures(scope: Scope, window: AnalyticsWindow) {
     })
     .from(waterTests)
     .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), ...windowOn(waterTests.sampledAt, window)))
+    .where(testsInScope({ scope }, window))
     .groupBy(waterTests.poolId);
 }
 
@@ -73,7 +65,7 @@ async function poolCounts(scope: Scope) {
       sources: countDistinct(pools.fillSourceId),
     })
     .from(pools)
-    .where(poolsInScope(scope));
+    .where(tenantCondition({ scope }));
   return { activePools: row?.active ?? 0, routes: row?.routes ?? 0, fillSources: row?.sources ?? 0 };
 }
 

@@ -4,7 +4,6 @@ import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/readi
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
 import {
   encodeReadingColumns,
   encodeTreatmentColumns,
@@ -14,8 +13,8 @@ import {
 } from "~/lib/analytics/reading-columns";
 import { findRecurring, type RecurringFindings } from "~/lib/analytics/recurring";
 import { metalReadings, treatmentRows } from "../metal-readings";
-import { poolProfiles } from "./rows";
-import type { AnalyticsParams, AnalyticsWindow } from "./window";
+import { poolProfiles } from "./pool-profiles";
+import { testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
 export type RecurringParams = AnalyticsParams & { recurrenceWindowDays?: number; chronicAfterDays?: number };
 
@@ -24,7 +23,7 @@ export type RecurringParams = AnalyticsParams & { recurrenceWindowDays?: number;
  * the only pools that can have an episode when the elevated level is not
  * below the floor. Grouped in MariaDB, so readings are then read only for them.
  */
-async function poolsReaching(scope: Scope, window: AnalyticsWindow, metals: readonly Metal[], floor: (metal: Metal) => number): Promise<number[]> {
+async function poolsReaching(scope: Scope, window: TimeWindow, metals: readonly Metal[], floor: (metal: Metal) => number): Promise<number[]> {
   const reaches: SQL[] = metals.map(
     (metal) => sql`(${waterTests[metal]} >= ${floor(metal)} AND ${waterTests[`${metal}BelowDetection`]} = 0)`,
   );
@@ -34,11 +33,8 @@ async function poolsReaching(scope: Scope, window: AnalyticsWindow, metals: read
     .innerJoin(pools, eq(pools.id, waterTests.poolId))
     .where(
       and(
-        poolsInScope(scope),
-        eq(waterTests.companyId, scope.companyId),
+        testsInScope({ scope }, window),
         or(...reaches),
-        window.from ? sql`${waterTests.sampledAt} >= ${window.from}` : undefined,
-        window.to ? sql`${waterTests.sampledAt} <= ${window.to}` : undefined,
       ),
     );
   return rows.map((r) => r.poolId).sort((a, b) => a - b);
@@ -56,7 +52,7 @@ export async function recurringPools(scope: Scope, params: RecurringParams): Pro
   const candidates = await poolsReaching(scope, params.window, metals, (metal) => params.thresholds[metal].elevated);
   const [readings, book] = await Promise.all([
     metalReadings({ scope }, { window: params.window, metals, poolIds: candidates }),
-    poolProfiles(scope, { poolIds: candidates }),
+    poolProfiles({ scope }, { poolIds: candidates }),
   ]);
   return findRecurring(readings, book.labels, { thresholds: params.thresholds, metals, ...rulesOf(params) });
 }
@@ -109,7 +105,7 @@ export async function recurringReadings(scope: Scope, params: RecurringParams, o
     poolIds.sort((a, b) => a - b);
   }
   const [book, treated] = await Promise.all([
-    poolProfiles(scope, { poolIds }),
+    poolProfiles({ scope }, { poolIds }),
     treatmentRows({ scope }, { window: params.window, poolIds }),
   ]);
   const treatedColumns = encodeTreatmentColumns(treated);

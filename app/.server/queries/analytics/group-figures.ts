@@ -4,8 +4,8 @@ import { groupValueLabel } from "~/lib/analytics/labels";
 import { observationInstants } from "~/lib/analytics/observation-points";
 import type { Scope } from "../../guard";
 import { jsonInterval, type JsonInterval } from "~/lib/analytics/json";
-import { loadMetalDataset, type MetalDataset } from "./dataset";
-import type { AnalyticsParams } from "./window";
+import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
+import type { AnalyticsParams } from "./tenant-and-window";
 
 export type GroupFiguresParams = AnalyticsParams & { grouping: GroupingKey };
 

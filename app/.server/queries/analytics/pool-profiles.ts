@@ -1,0 +1,166 @@
+import { and, asc, eq, inArray } from "drizzle-orm";
+import type {
+  Equipment,
+  EquipmentKind,
+  ExchangerMetal,
+  FillSourceKind,
+  PoolProfile,
+  SanitiserSystem,
+} from "@analysis/metals/route-book";
+import { db } from "../../db/client";
+import { EQUIPMENT_KINDS, equipment, fillSources, pools, routes, SANITISERS, SOURCE_KINDS } from "../../db/schema";
+import { dayToMs } from "../../db/values";
+import { companyOf, tenantCondition, type Tenant } from "./tenant-and-window";
+
+// The stored enum values and the analysis core's names differ in spelling only.
+const SOURCE_KIND: Record<(typeof SOURCE_KINDS)[number], FillSourceKind> = {
+  municipal: "municipal",
+  private_well: "private-well",
+  shared_well: "shared-well",
+  trucked: "trucked",
+  other: "other",
+};
+const SANITISER: Record<(typeof SANITISERS)[number], SanitiserSystem> = {
+  chlorine: "chlorine",
+  salt_generator: "salt-chlorine-generator",
+  mineral_assist: "mineral-ioniser-assist",
+  other: "other",
+};
+const EQUIPMENT_KIND: Record<(typeof EQUIPMENT_KINDS)[number], EquipmentKind> = {
+  heater: "heater",
+  heat_pump: "heat-pump",
+  salt_cell: "salt-cell",
+  pump: "pump",
+  filter: "filter",
+  ioniser: "ioniser",
+  other: "other",
+};
+
+function exchangerMetal(stored: string | null): ExchangerMetal | null {
+  if (stored === null) return null;
+  return stored === "copper" || stored === "cupronickel" || stored === "titanium" ? stored : "none-unknown";
+}
+
+export type PoolLabel = {
+  poolId: number;
+  street: string;
+  customerName: string;
+  routeId: number | null;
+  routeName: string | null;
+  fillSourceId: number | null;
+  fillSourceName: string | null;
+  fillSourceKind: (typeof SOURCE_KINDS)[number] | null;
+  neighbourhood: string | null;
+  active: boolean;
+};
+
+export type RouteBookProfiles = {
+  profiles: PoolProfile[];
+  labels: Map<number, PoolLabel>;
+};
+
+const onlyPools = (poolIds: readonly number[] | undefined) => (poolIds ? inArray(pools.id, [...poolIds]) : undefined);
+
+/** The one read of pools with their route and fill source: names for pages and mail, and what the profile needs. */
+async function poolRows(tenant: Tenant, poolIds: readonly number[] | undefined) {
+  return db()
+    .select({
+      poolId: pools.id,
+      street: pools.street,
+      customerName: pools.customerName,
+      routeId: pools.routeId,
+      routeName: routes.name,
+      fillSourceId: pools.fillSourceId,
+      fillSourceName: fillSources.name,
+      fillSourceKind: fillSources.kind,
+      neighbourhood: pools.neighbourhood,
+      active: pools.active,
+      surface: pools.surface,
+      sanitiser: pools.sanitiser,
+    })
+    .from(pools)
+    .leftJoin(routes, eq(routes.id, pools.routeId))
+    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
+    .where(and(tenantCondition(tenant), onlyPools(poolIds)))
+    .orderBy(asc(pools.id));
+}
+
+const labelOf = (r: Awaited<ReturnType<typeof poolRows>>[number]): PoolLabel => ({
+  poolId: r.poolId,
+  street: r.street,
+  customerName: r.customerName,
+  routeId: r.routeId,
+  routeName: r.routeName,
+  fillSourceId: r.fillSourceId,
+  fillSourceName: r.fillSourceName,
+  fillSourceKind: r.fillSourceKind,
+  neighbourhood: r.neighbourhood,
+  active: r.active,
+});
+
+/** Each pool's street, customer, route and fill source, by pool id. */
+export async function poolLabels(tenant: Tenant, options: { poolIds?: readonly number[] } = {}): Promise<Map<number, PoolLabel>> {
+  if (options.poolIds && options.poolIds.length === 0) return new Map();
+  return new Map((await poolRows(tenant, options.poolIds)).map((r) => [r.poolId, labelOf(r)]));
+}
+
+/** Heaters, heat pumps and ionisers of the pools, with install and removal dates and exchanger metal. */
+async function fittedEquipment(tenant: Tenant, poolIds: readonly number[] | undefined): Promise<Map<number, Equipment[]>> {
+  const fitted = await db()
+    .select({
+      id: equipment.id,
+      poolId: equipment.poolId,
+      kind: equipment.kind,
+      exchangerMetal: equipment.exchangerMetal,
+      installedOn: equipment.installedOn,
+      removedOn: equipment.removedOn,
+    })
+    .from(equipment)
+    .innerJoin(pools, eq(pools.id, equipment.poolId))
+    .where(
+      and(
+        tenantCondition(tenant),
+        eq(equipment.companyId, companyOf(tenant)),
+        inArray(equipment.kind, ["heater", "heat_pump", "ioniser"]),
+        onlyPools(poolIds),
+      ),
+    );
+  const byPool = new Map<number, Equipment[]>();
+  for (const e of fitted) {
+    const list = byPool.get(e.poolId) ?? [];
+    list.push({
+      id: String(e.id),
+      kind: EQUIPMENT_KIND[e.kind],
+      exchangerMetal: exchangerMetal(e.exchangerMetal),
+      installedAt: dayToMs(e.installedOn),
+      removedAt: dayToMs(e.removedOn),
+    });
+    byPool.set(e.poolId, list);
+  }
+  return byPool;
+}
+
+/**
+ * What the analysis needs to know about each pool of the tenant: fill source
+ * and its kind, neighbourhood, route, surface, sanitiser, and the heaters and
+ * ionisers with their install and removal dates and exchanger metal.
+ */
+export async function poolProfiles(tenant: Tenant, options: { poolIds?: readonly number[] } = {}): Promise<RouteBookProfiles> {
+  if (options.poolIds && options.poolIds.length === 0) return { profiles: [], labels: new Map() };
+  const [rows, equipmentByPool] = await Promise.all([poolRows(tenant, options.poolIds), fittedEquipment(tenant, options.poolIds)]);
+  const labels = new Map<number, PoolLabel>();
+  const profiles = rows.map((r) => {
+    labels.set(r.poolId, labelOf(r));
+    return {
+      poolId: String(r.poolId),
+      fillSourceId: r.fillSourceId === null ? null : String(r.fillSourceId),
+      fillSourceKind: r.fillSourceKind === null ? null : SOURCE_KIND[r.fillSourceKind],
+      neighbourhood: r.neighbourhood,
+      routeId: r.routeId === null ? null : String(r.routeId),
+      surface: r.surface,
+      sanitiser: r.sanitiser === null ? null : SANITISER[r.sanitiser],
+      equipment: equipmentByPool.get(r.poolId) ?? [],
+    } satisfies PoolProfile;
+  });
+  return { profiles, labels };
+}
