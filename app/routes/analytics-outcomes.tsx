@@ -1,13 +1,12 @@
 import { useState } from "react";
 import { Link, useSearchParams } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { treatmentOutcomes } from "~/.server/queries/analytics/treatment-outcomes";
-import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { ReductionChart, TimeToClearChart, type ArmView } from "~/components/analytics/outcome-charts";
 import { CautionNote } from "~/components/caution-note";
 import { ErrorPanel } from "~/components/error-panel";
-import { useTreatmentOutcomes } from "~/hooks/use-treatment-outcomes";
+import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { ARM_LABELS } from "~/lib/analytics/labels";
 import { ARM_DIMENSIONS, outcomesQuery } from "~/lib/analytics/params";
 import { formatDate } from "~/lib/format";
@@ -23,21 +22,18 @@ type Stratum = keyof typeof STRATA;
 export async function loader({ request }: Route.LoaderArgs) {
   const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "outcomes", outcomesQuery, "page");
   const outcomes = await treatmentOutcomes(scope, { window, thresholds, metal: query.metal, arm: query.arm });
-  const search = new URL(request.url).searchParams;
-  return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), timeZone: scope.timeZone, outcomes };
+  return { search: loaderSearch(request, PARAMS), timeZone: scope.timeZone, outcomes };
 }
 
-export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
-  return onlyOnNewPath(args);
-}
+export const shouldRevalidate = onlyOnNewPath;
 
 const percent = (n: number | null) => (n === null ? "—" : `${n.toFixed(0)} %`);
 
 export default function Outcomes({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
   const [search, setSearch] = useSearchParams();
-  const query = useTreatmentOutcomes(params, { params: loaderData.params, data: loaderData.outcomes });
-  const outcomes = query.data ?? loaderData.outcomes;
+  const query = useSeededQuery(analyticsQueries.outcomes(params), { search: loaderData.search, data: loaderData.outcomes });
+  const outcomes = query.data;
   const [stratum, setStratum] = useState<Stratum>("all");
   const arms: ArmView[] = outcomes.arms
     .map((a) => (stratum === "all" ? a : { ...a.byPh[stratum], label: a.label }))

@@ -1,5 +1,4 @@
 import { Link } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { loadMetalDataset } from "~/.server/queries/analytics/metal-dataset";
@@ -7,12 +6,10 @@ import { metalTrend } from "~/.server/queries/analytics/metal-trend";
 import { sharedSourceAlertList } from "~/.server/queries/analytics/shared-source-alerts";
 import { routeBookSummary } from "~/.server/queries/analytics/route-book-summary";
 import { BalanceChart, MetalTrendChart, OpenEpisodesChart } from "~/components/analytics/overview-charts";
-import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
-import { useMetalTrend } from "~/hooks/use-metal-trend";
-import { useRouteBookSummary } from "~/hooks/use-route-book-summary";
-import { useSharedSourceAlerts } from "~/hooks/use-shared-source-alerts";
+import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { GROUPING_LABELS } from "~/lib/analytics/labels";
 import { summaryQuery } from "~/lib/analytics/params";
 import { formatCount, formatDate } from "~/lib/format";
@@ -25,7 +22,7 @@ const PARAMS = ["from", "to", "route"] as const;
 const RISKY_SHOWN = 8;
 
 export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds, balanceBand } = await readAnalyticsRequest(request, "overview", summaryQuery, "page");
+  const { scope, window, thresholds, balanceBand } = await readAnalyticsRequest(request, "overview", summaryQuery, "page");
   const params = { window, thresholds, metal: null, balanceBand };
   const dataset = await loadMetalDataset(scope, params);
   const [summary, trend, alerts] = await Promise.all([
@@ -33,23 +30,18 @@ export async function loader({ request }: Route.LoaderArgs) {
     metalTrend(scope, window, null),
     sharedSourceAlertList(scope, params),
   ]);
-  return { params: { from: query.from, to: query.to, route: query.route }, timeZone: scope.timeZone, summary, trend, alerts };
+  return { search: loaderSearch(request, PARAMS), timeZone: scope.timeZone, summary, trend, alerts };
 }
 
-export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
-  return onlyOnNewPath(args);
-}
+export const shouldRevalidate = onlyOnNewPath;
 
 export default function Overview({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
-  const initial = loaderData.params;
-  const summaryQuery = useRouteBookSummary(params, { params: initial, data: loaderData.summary });
-  const trendQuery = useMetalTrend(params, { params: initial, data: loaderData.trend });
-  const alertsQuery = useSharedSourceAlerts(params, { params: initial, data: loaderData.alerts });
-  const summary = summaryQuery.data ?? loaderData.summary;
-  const trend = trendQuery.data ?? loaderData.trend;
-  const alerts = alertsQuery.data ?? loaderData.alerts;
-  const { timeZone } = loaderData;
+  const { search, timeZone } = loaderData;
+  const summaryQuery = useSeededQuery(analyticsQueries.summary(params), { search, data: loaderData.summary });
+  const trendQuery = useSeededQuery(analyticsQueries.trend(params), { search, data: loaderData.trend });
+  const alertsQuery = useSeededQuery(analyticsQueries.alerts(params), { search, data: loaderData.alerts });
+  const [summary, trend, alerts] = [summaryQuery.data, trendQuery.data, alertsQuery.data];
   const openTotal = METALS.reduce((sum, m) => sum + summary.openEpisodes[m], 0);
 
   return (

@@ -1,17 +1,16 @@
+import { useQuery } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
 import { Link } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
 import type { MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { recurringReadings } from "~/.server/queries/analytics/recurring-pools";
-import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
 import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
-import { sameParams } from "~/hooks/analytics-fetch";
-import { useRecurringReadings } from "~/hooks/use-recurring-readings";
-import { recurringQuery } from "~/lib/analytics/params";
+import { analyticsQueries, loaderSearch, onlyOnNewPath } from "~/hooks/analytics-queries";
+import { recurringQuery, toSearch } from "~/lib/analytics/params";
 import { decodeReadingColumns, decodeTreatmentColumns } from "~/lib/analytics/reading-columns";
 import { findRecurring } from "~/lib/analytics/recurring";
 import { formatCount } from "~/lib/format";
@@ -29,13 +28,10 @@ export async function loader({ request }: Route.LoaderArgs) {
   // come with it (and the counts of the whole list); the hook fetches the readings of every pool that
   // could recur once the levels or filters move or more pools are asked for.
   const data = await recurringReadings(scope, { window, thresholds: companyThresholds, metal: query.metal ?? null }, { firstListed: PAGE });
-  const search = new URL(request.url).searchParams;
-  return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), company: companyThresholds, data };
+  return { search: loaderSearch(request, PARAMS), company: companyThresholds, data };
 }
 
-export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
-  return onlyOnNewPath(args);
-}
+export const shouldRevalidate = onlyOnNewPath;
 
 /**
  * The elevated levels the readings are fetched for, sent with the company's
@@ -106,8 +102,9 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
   const [shown, setShown] = useState(PAGE);
   const moved = METALS.some((m) => levels[m].elevated !== company[m].elevated || levels[m].clear !== company[m].clear);
   // The loader's answer holds the first page of pools at the company's levels: enough until something moves.
-  const loaderView = !moved && shown <= PAGE && sameParams(params, loaderData.params);
-  const query = useRecurringReadings({ ...params, ...floorParams(floor, company) }, !loaderView);
+  const loaderView = !moved && shown <= PAGE && toSearch(params) === loaderData.search;
+  const query = useQuery({ ...analyticsQueries.recurringReadings({ ...params, ...floorParams(floor, company) }), enabled: !loaderView });
+  // The loader's first page stays drawn until the full answer arrives.
   const data = loaderView ? loaderData.data : (query.data ?? loaderData.data);
 
   // A lower elevated level needs the readings of pools that only reach it: ask once the typing settles.

@@ -1,12 +1,11 @@
 import { useSearchParams } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
 import { GROUPING_KEYS, type GroupingKey } from "@analysis/stats/groups";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { groupFigures } from "~/.server/queries/analytics/group-figures";
-import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { GroupRateChart } from "~/components/analytics/group-chart";
 import { ErrorPanel } from "~/components/error-panel";
-import { useGroupFigures } from "~/hooks/use-group-figures";
+import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { GROUPING_LABELS } from "~/lib/analytics/labels";
 import { groupsQuery } from "~/lib/analytics/params";
 import { METAL_LABELS } from "~/lib/metals";
@@ -19,19 +18,16 @@ const PARAMS = ["from", "to", "route", "metal", "grouping"] as const;
 export async function loader({ request }: Route.LoaderArgs) {
   const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "risk", groupsQuery, "page");
   const figures = await groupFigures(scope, { window, thresholds, metal: query.metal ?? null, grouping: query.grouping as GroupingKey });
-  const search = new URL(request.url).searchParams;
-  return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), figures };
+  return { search: loaderSearch(request, PARAMS), figures };
 }
 
-export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
-  return onlyOnNewPath(args);
-}
+export const shouldRevalidate = onlyOnNewPath;
 
 export default function Risk({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
   const [search, setSearch] = useSearchParams();
-  const query = useGroupFigures(params, { params: loaderData.params, data: loaderData.figures });
-  const figures = query.data ?? loaderData.figures;
+  const query = useSeededQuery(analyticsQueries.groups(params), { search: loaderData.search, data: loaderData.figures });
+  const figures = query.data;
   const grouping = figures.grouping;
   const overallRate = figures.poolYears > 0 ? figures.openings / figures.poolYears : null;
   const risky = figures.groups.filter((g) => g.risky);

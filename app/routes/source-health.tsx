@@ -1,12 +1,11 @@
 import { Link } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { sourceHealth, type PoolMetalState } from "~/.server/queries/analytics/source-health";
-import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { SourceTestChart } from "~/components/analytics/source-test-chart";
 import { ErrorPanel } from "~/components/error-panel";
-import { useSourceHealth } from "~/hooks/use-source-health";
+import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { sourceHealthQuery } from "~/lib/analytics/params";
 import { formatDate } from "~/lib/format";
 import { SOURCE_KIND_LABELS, labelOf } from "~/lib/labels";
@@ -20,26 +19,23 @@ const PARAMS = ["from", "to", "route", "metal"] as const;
 export async function loader({ request }: Route.LoaderArgs) {
   const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "sources", sourceHealthQuery, "page");
   const report = await sourceHealth(scope, { window, thresholds, metal: query.metal ?? null });
-  const search = new URL(request.url).searchParams;
   return {
-    params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])),
+    search: loaderSearch(request, PARAMS),
     timeZone: scope.timeZone,
     technician: scope.role === "technician",
     report,
   };
 }
 
-export function shouldRevalidate(args: ShouldRevalidateFunctionArgs) {
-  return onlyOnNewPath(args);
-}
+export const shouldRevalidate = onlyOnNewPath;
 
 const STATE_WORDS: Record<PoolMetalState, string> = { open: "▲ episode open", clear: "● no open episode", "not-tested": "○ not tested" };
 const STATE_CLASS: Record<PoolMetalState, string> = { open: "text-alert font-medium", clear: "text-verdigris-700", "not-tested": "text-muted" };
 
 export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
-  const query = useSourceHealth(params, { params: loaderData.params, data: loaderData.report });
-  const report = query.data ?? loaderData.report;
+  const query = useSeededQuery(analyticsQueries.sources(params), { search: loaderData.search, data: loaderData.report });
+  const report = query.data;
   const { timeZone, technician } = loaderData;
   const flagged = report.sources.filter((s) => s.flagged);
 

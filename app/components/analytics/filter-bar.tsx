@@ -7,7 +7,7 @@ const fieldClass = "mt-1 block w-full rounded-lg border border-line bg-white px-
 
 /**
  * Date window (and metal) of an analytics page, kept in the URL so a view
- * can be bookmarked. With scripts on, the page's hooks refetch from the API;
+ * can be bookmarked. With scripts on, the page's queries refetch from the API;
  * without them, the form reloads the page through its loader.
  */
 export function FilterBar({ metal = false, anyMetal = true, children }: { metal?: boolean; anyMetal?: boolean; children?: ReactNode }) {
@@ -59,11 +59,6 @@ export function FilterBar({ metal = false, anyMetal = true, children }: { metal?
 export function useSearchObject(names: readonly string[]): Record<string, string | undefined> {
   const [search] = useSearchParams();
   return Object.fromEntries(names.map((n) => [n, search.get(n) ?? undefined]));
-}
-
-/** Analytics pages refilter through their hooks; the loader runs again only on a new path. */
-export function onlyOnNewPath({ currentUrl, nextUrl, defaultShouldRevalidate }: { currentUrl: URL; nextUrl: URL; defaultShouldRevalidate: boolean }) {
-  return currentUrl.pathname !== nextUrl.pathname ? defaultShouldRevalidate : false;
 }
 
 export function QueryState({ isFetching, error }: { isFetching: boolean; error: Error | null }) {
