@@ -8,6 +8,7 @@ import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { metalReadings, treatmentRows } from "../metal-readings";
+import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
 import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
 export const ANALYTE_UNITS: Record<SeriesAnalyte, string> = {
@@ -46,16 +47,6 @@ export async function poolInScope(scope: Scope, poolId: number): Promise<boolean
 
 const isMetal = (analyte: SeriesAnalyte): analyte is Metal => (METALS as readonly string[]).includes(analyte);
 
-const BALANCE_COLUMNS = {
-  ph: waterTests.ph,
-  temperatureC: waterTests.temperatureC,
-  calciumHardness: waterTests.calciumHardness,
-  totalAlkalinity: waterTests.totalAlkalinity,
-  cyanuricAcid: waterTests.cyanuricAcid,
-  tds: waterTests.tds,
-  salt: waterTests.salt,
-};
-
 /** Saturation index of one pool's tests that carry what it needs, oldest first. */
 export async function poolBalance(scope: Scope, poolId: number, window: TimeWindow) {
   const rows = await db()
@@ -66,10 +57,7 @@ export async function poolBalance(scope: Scope, poolId: number, window: TimeWind
       and(
         testsInScope({ scope }, window),
         eq(waterTests.poolId, poolId),
-        isNotNull(waterTests.ph),
-        isNotNull(waterTests.temperatureC),
-        isNotNull(waterTests.calciumHardness),
-        isNotNull(waterTests.totalAlkalinity),
+        balanceInputsPresent,
       ),
     )
     .orderBy(asc(waterTests.sampledAt));

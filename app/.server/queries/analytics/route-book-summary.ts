@@ -7,6 +7,7 @@ import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
+import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
 import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
 export type BalanceShare = { pools: number; share: number | null };
@@ -30,13 +31,6 @@ export type RouteBookSummary = {
     poolsWithoutBalanceTest: number;
   };
 };
-
-const balanceInputsPresent = and(
-  isNotNull(waterTests.ph),
-  isNotNull(waterTests.temperatureC),
-  isNotNull(waterTests.calciumHardness),
-  isNotNull(waterTests.totalAlkalinity),
-)!;
 
 /**
  * One pass over the window's tests, grouped by pool in MariaDB: how many
@@ -76,19 +70,11 @@ async function poolCounts(scope: Scope) {
 async function balanceTestsAt(scope: Scope, latest: ReadonlyArray<{ poolId: number; at: Date }>) {
   if (latest.length === 0) return [];
   return db()
-    .select({
-      ph: waterTests.ph,
-      temperatureC: waterTests.temperatureC,
-      calciumHardness: waterTests.calciumHardness,
-      totalAlkalinity: waterTests.totalAlkalinity,
-      cyanuricAcid: waterTests.cyanuricAcid,
-      tds: waterTests.tds,
-      salt: waterTests.salt,
-    })
+    .select(BALANCE_COLUMNS)
     .from(waterTests)
     .where(
       and(
-        eq(waterTests.companyId, scope.companyId),
+        tenantCondition({ companyId: scope.companyId }, waterTests.companyId),
         or(...latest.map((l) => and(eq(waterTests.poolId, l.poolId), eq(waterTests.sampledAt, l.at)))),
       ),
     );
