@@ -4,6 +4,7 @@ import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/ch
 import { metalStatus, type MetalThresholds } from "@analysis/metals/reading";
 import { CautionNote } from "~/components/caution-note";
 import { FormProblem } from "~/components/form-controls";
+import { parseDecimal } from "~/lib/decimal";
 import type { FieldErrors } from "~/lib/forms/fields";
 import {
   hasMetalReading,
@@ -329,7 +330,7 @@ export function VisitForm({
           const line = lines[i] ?? { productId: "", amount: "", unit: "" };
           const start = initial.lines[i] ?? { productId: "", amount: "", unit: "" };
           const product = productById.get(line.productId);
-          const amount = Number(line.amount.replace(",", "."));
+          const amount = parseDecimal(line.amount, { decimalComma: true }) ?? 0;
           const cost =
             product?.unitCost != null && product.doseUnit && line.unit.toLowerCase() === product.doseUnit.toLowerCase() && amount > 0
               ? amount * product.unitCost
