@@ -1,26 +1,17 @@
 import { type ChangeEvent, useEffect, useRef, useState } from "react";
 import { Form, useNavigation } from "react-router";
-import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
-import { metalStatus, type MetalThresholds } from "@analysis/metals/reading";
+import { classifyBalance, type BalanceBand } from "@analysis/chemistry/saturation";
+import type { MetalThresholds } from "@analysis/metals/reading";
 import { CautionNote } from "~/components/caution-note";
 import { FormProblem } from "~/components/form-controls";
-import { parseDecimal } from "~/lib/decimal";
 import type { FieldErrors } from "~/lib/forms/fields";
-import {
-  hasMetalReading,
-  NUMERIC_ANALYTES,
-  parseVisitReadings,
-  PH_WARNING,
-  TREATMENT_FIELDS,
-  type TypedVisit,
-  VISIT_METALS,
-} from "~/lib/forms/visit";
+import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
+import { liveVisit, type TypedLine } from "~/lib/forms/visit-live";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "~/lib/ranges";
 
 type Product = { id: number; name: string; category: string; doseUnit: string | null; unitCost: number | null };
-type Line = { productId: string; amount: string; unit: string };
-type Snapshot = { values: Record<string, string>; lines: Line[] };
+type Snapshot = { values: Record<string, string>; lines: TypedLine[] };
 
 export type VisitAnswer = { fieldErrors: FieldErrors; formError: string | null; values?: TypedVisit };
 
@@ -154,34 +145,14 @@ export function VisitForm({
   useEffect(() => setChanged(new Set()), [answer]);
 
   const { values, lines } = current;
-  const { readings, errors: liveErrors } = parseVisitReadings(values);
+  const { readings, errors: liveErrors, balance, warnings, askForMetals, acidGiven, phHigh, hasStain, costs } = liveVisit(
+    values,
+    lines,
+    products,
+    thresholds,
+  );
   const errorFor = (key: string): string | undefined => liveErrors[key] ?? (changed.has(key) ? undefined : answer?.fieldErrors[key]);
-
-  const balance = saturationIndex({
-    ph: readings.ph,
-    temperatureC: readings.temperatureC,
-    calciumHardness: readings.calciumHardness,
-    totalAlkalinity: readings.totalAlkalinity,
-    cyanuricAcid: readings.cyanuricAcid,
-    tds: readings.tds,
-    salt: readings.salt,
-  });
-
-  const warnings: string[] = [];
-  if (readings.ph !== undefined && (readings.ph < PH_WARNING.low || readings.ph > PH_WARNING.high)) {
-    warnings.push(`pH ${readings.ph} is outside ${PH_WARNING.low}–${PH_WARNING.high}: check the reading and the reagent.`);
-  }
-  for (const metal of VISIT_METALS) {
-    const reading = readings[metal.key];
-    if (reading && metalStatus(reading, thresholds[metal.key]) === "elevated") {
-      warnings.push(`${metal.label} ${reading.value} mg/L is at or above the elevated level (${thresholds[metal.key].elevated} mg/L).`);
-    }
-  }
-  const askForMetals = values.hardnessEndpoint === "blurred" && !hasMetalReading(readings);
   const productById = new Map(products.map((p) => [String(p.id), p]));
-  const acidGiven = lines.some((l) => productById.get(l.productId)?.category === "ph_decreaser");
-  const phHigh = readings.ph !== undefined && readings.ph > DEFAULT_ANALYTE_RANGES.ph.high;
-  const hasStain = values.stain === "new" || values.stain === "existing";
 
   const onChange = (event: ChangeEvent<HTMLFormElement>) => {
     const target = event.target as unknown as HTMLInputElement | HTMLSelectElement;
@@ -327,14 +298,8 @@ export function VisitForm({
       <section aria-labelledby="treatments" className="space-y-3">
         <h2 id="treatments" className="text-lg font-semibold">Treatments given</h2>
         {Array.from({ length: lineCount }, (_, i) => {
-          const line = lines[i] ?? { productId: "", amount: "", unit: "" };
           const start = initial.lines[i] ?? { productId: "", amount: "", unit: "" };
-          const product = productById.get(line.productId);
-          const amount = parseDecimal(line.amount, { decimalComma: true }) ?? 0;
-          const cost =
-            product?.unitCost != null && product.doseUnit && line.unit.toLowerCase() === product.doseUnit.toLowerCase() && amount > 0
-              ? amount * product.unitCost
-              : null;
+          const cost = costs[i] ?? null;
           const productError = errorFor(`treatments.${i}.product`);
           const amountError = errorFor(`treatments.${i}.amount`);
           const unitError = errorFor(`treatments.${i}.unit`);
