@@ -52,6 +52,11 @@ function readForm(form: HTMLFormElement): Snapshot {
   return snapshotOf(typed);
 }
 
+/** Ties an input to its error message: marked invalid, and described by the message's element. */
+function errorProps(message: string | undefined, id: string) {
+  return { "aria-invalid": Boolean(message), "aria-describedby": message ? id : undefined };
+}
+
 function FieldError({ id, message }: { id: string; message: string | undefined }) {
   return message ? (
     <span id={id} className="mt-1 block text-sm text-alert">
@@ -201,8 +206,7 @@ export function VisitForm({
           inputMode="decimal"
           autoComplete="off"
           defaultValue={initial.values[name] ?? ""}
-          aria-invalid={Boolean(error)}
-          aria-describedby={error ? `${name}-error` : undefined}
+          {...errorProps(error, `${name}-error`)}
           className={bigInput}
         />
         <FieldError id={`${name}-error`} message={error} />
@@ -288,8 +292,7 @@ export function VisitForm({
             maxLength={2000}
             defaultValue={initial.values.note ?? ""}
             className={bigInput}
-            aria-invalid={Boolean(errorFor("note"))}
-            aria-describedby={errorFor("note") ? "note-error" : undefined}
+            {...errorProps(errorFor("note"), "note-error")}
           />
           <FieldError id="note-error" message={errorFor("note")} />
         </label>
@@ -312,8 +315,7 @@ export function VisitForm({
                   data-line={i}
                   defaultValue={start.productId}
                   className={bigInput}
-                  aria-invalid={Boolean(productError)}
-                  aria-describedby={productError ? `treatment-${i}-product-error` : undefined}
+                  {...errorProps(productError, `treatment-${i}-product-error`)}
                 >
                   <option value="">None</option>
                   {products.map((p) => (
@@ -333,8 +335,7 @@ export function VisitForm({
                   autoComplete="off"
                   defaultValue={start.amount}
                   className={bigInput}
-                  aria-invalid={Boolean(amountError)}
-                  aria-describedby={amountError ? `treatment-${i}-amount-error` : undefined}
+                  {...errorProps(amountError, `treatment-${i}-amount-error`)}
                 />
               </label>
               <label className="block">
@@ -345,8 +346,7 @@ export function VisitForm({
                   defaultValue={start.unit}
                   maxLength={16}
                   className={bigInput}
-                  aria-invalid={Boolean(unitError)}
-                  aria-describedby={unitError ? `treatment-${i}-unit-error` : undefined}
+                  {...errorProps(unitError, `treatment-${i}-unit-error`)}
                 />
               </label>
               <span className="col-span-2">
