@@ -5,6 +5,7 @@ import { account, session, user, verification } from "./db/schema";
 import { serverEnv } from "./env";
 import { enqueuePasswordResetMail, RESET_LINK_MINUTES } from "./mail/password-reset";
 import { ensureMailWorker } from "./mail/worker";
+import { processSingleton } from "./process-singleton";
 
 function trustedOrigins(baseUrl: string): string[] {
   const url = new URL(baseUrl);
@@ -54,9 +55,6 @@ function createAuth() {
 
 export type Auth = ReturnType<typeof createAuth>;
 
-const holder = globalThis as typeof globalThis & { __patinaAuth?: Auth };
-
 export function auth(): Auth {
-  holder.__patinaAuth ??= createAuth();
-  return holder.__patinaAuth;
+  return processSingleton("auth", createAuth);
 }

@@ -1,8 +1,9 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_EMAIL_DOMAIN, DEMO_USERS, type DemoUserKey } from "../../drizzle/seed/names";
+import type { DemoUserKey } from "../../drizzle/seed/names";
 import { launchBrowser } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
+import { signInAs } from "../fixtures/sign-in";
 
 let browser: Browser;
 
@@ -24,17 +25,10 @@ async function signedIn(key: DemoUserKey, path: string): Promise<Page> {
     await open.goto(`${BROWSER_TEST_URL}${path}`);
     return open;
   }
-  const member = DEMO_USERS.find((u) => u.key === key)!;
   const context = await browser.newContext({ viewport: { width: 1200, height: 900 } });
   const page = await context.newPage();
   pages.set(key, page);
-  await page.goto(`${BROWSER_TEST_URL}/sign-in?next=${encodeURIComponent(path)}`);
-  await page.getByLabel("E-mail").fill(`${member.email}@${DEMO_EMAIL_DOMAIN}`);
-  await page.getByLabel("Password").fill(member.password);
-  await page.getByRole("button", { name: "Sign in" }).click();
-  await page.waitForURL((url) => url.pathname !== "/sign-in", { timeout: 10_000 }).catch(async () => {
-    throw new Error(`sign-in as ${key} stayed on the form: ${await page.locator("main").innerText()}`);
-  });
+  await signInAs(page, key, path);
   expect(new URL(page.url()).pathname).toBe(path.split("?")[0]);
   return page;
 }

@@ -1,9 +1,9 @@
 import { fileURLToPath } from "node:url";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
+import { DEMO_USERS } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
-import { BROWSER_TEST_URL } from "../fixtures/server";
+import { signInAs } from "../fixtures/sign-in";
 
 let browser: Browser;
 
@@ -19,10 +19,7 @@ describe("an analyst imports an old log", () => {
   it("uploads a file, changes one column's meaning and imports it", async () => {
     const context = await phoneContext(browser);
     const page = await context.newPage();
-    await page.goto(`${BROWSER_TEST_URL}/sign-in`);
-    await page.getByLabel("E-mail").fill(`analyst@${DEMO_EMAIL_DOMAIN}`);
-    await page.getByLabel("Password").fill("analyst-demo-2026");
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await signInAs(page, "analyst");
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Imports" }).click();
     await page.getByRole("link", { name: "Upload a log" }).click();
 

@@ -4,9 +4,9 @@ import path from "node:path";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { type MailSink, readStoredMail, startMailSink } from "~/.server/mail/sink";
-import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
+import { signInAs } from "../fixtures/sign-in";
 
 // The built server sends to PATINA_SMTP_URL (inherited from this run). This file
 // listens there itself unless a sink started by the test script already does;
@@ -35,17 +35,12 @@ afterAll(async () => {
   }
 });
 
-const owner = DEMO_USERS.find((u) => u.role === "owner")!;
-
 describe("an invitation sent from the team page", () => {
   it("is mailed, and its link signs the new member up in the owner's company with the chosen role", async () => {
     const invitee = `e2e-${Date.now()}@fixture.example`;
     const ownerContext = await phoneContext(browser);
     const page = await ownerContext.newPage();
-    await page.goto(`${BROWSER_TEST_URL}/sign-in?next=/team`);
-    await page.getByLabel("E-mail").fill(`${owner.email}@${DEMO_EMAIL_DOMAIN}`);
-    await page.getByLabel("Password").fill(owner.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await signInAs(page, "owner", "/team");
     await page.getByRole("heading", { level: 2, name: "Invite someone" }).waitFor();
 
     const form = page.locator("section", { has: page.getByRole("heading", { name: "Invite someone" }) });

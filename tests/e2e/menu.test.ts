@@ -1,8 +1,8 @@
 import type { Browser, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
+import { signInAs } from "../fixtures/sign-in";
 
 let browser: Browser;
 
@@ -21,13 +21,9 @@ async function currentEntries(page: Page): Promise<string[]> {
 
 describe("the main menu", () => {
   it("marks Fill sources on the list and on a source's page, and Source health only on its own page", async () => {
-    const owner = DEMO_USERS.find((member) => member.role === "owner")!;
     const context = await phoneContext(browser);
     const page = await context.newPage();
-    await page.goto(`${BROWSER_TEST_URL}/sign-in`);
-    await page.getByLabel("E-mail").fill(`${owner.email}@${DEMO_EMAIL_DOMAIN}`);
-    await page.getByLabel("Password").fill(owner.password);
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await signInAs(page, "owner");
     await expect.poll(() => new URL(page.url()).pathname).toBe("/");
     await expect.poll(() => currentEntries(page)).toEqual(["Home"]);
 

@@ -1,8 +1,9 @@
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
+import { DEMO_USERS } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
+import { demoEmail, demoMember, submitSignIn } from "../fixtures/sign-in";
 
 let browser: Browser;
 
@@ -35,9 +36,7 @@ describe("each demo member signs in on a phone and sees their home page", () => 
 
       await page.goto(`${BROWSER_TEST_URL}/`);
       await expect.poll(() => new URL(page.url()).pathname).toBe("/sign-in");
-      await page.getByLabel("E-mail").fill(`${member.email}@${DEMO_EMAIL_DOMAIN}`);
-      await page.getByLabel("Password").fill(member.password);
-      await page.getByRole("button", { name: "Sign in" }).click();
+      await submitSignIn(page, demoEmail(member), member.password);
 
       await page.getByRole("heading", { level: 1, name: HOME_HEADINGS[member.role] }).waitFor();
       // Real figures from the database, not placeholders.
@@ -57,9 +56,7 @@ describe("each demo member signs in on a phone and sees their home page", () => 
     const context = await phoneContext(browser);
     const page = await context.newPage();
     await page.goto(`${BROWSER_TEST_URL}/sign-in`);
-    await page.getByLabel("E-mail").fill(`owner@${DEMO_EMAIL_DOMAIN}`);
-    await page.getByLabel("Password").fill("not-the-password");
-    await page.getByRole("button", { name: "Sign in" }).click();
+    await submitSignIn(page, demoEmail(demoMember("owner")), "not-the-password");
     await page.getByRole("alert").waitFor();
     expect(await page.getByRole("alert").innerText()).toContain("do not match");
     await context.close();

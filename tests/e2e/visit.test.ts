@@ -1,8 +1,8 @@
 import type { Browser, BrowserContext, Page } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { DEMO_EMAIL_DOMAIN } from "../../drizzle/seed/names";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
+import { signInAs } from "../fixtures/sign-in";
 
 let browser: Browser;
 
@@ -18,11 +18,7 @@ describe("a technician logs a visit on a phone", () => {
   it("saves readings and a treatment, and sees them on the pool page", async () => {
     const context = await phoneContext(browser);
     const page = await context.newPage();
-    await page.goto(`${BROWSER_TEST_URL}/sign-in?next=/pools`);
-    await page.getByLabel("E-mail").fill(`tech@${DEMO_EMAIL_DOMAIN}`);
-    await page.getByLabel("Password").fill("tech-demo-2026");
-    await page.getByRole("button", { name: "Sign in" }).click();
-    await page.getByRole("heading", { level: 1, name: "Pools" }).waitFor();
+    await signInAsTechnician(page);
 
     // The first pool of the technician's own list, then its visit form.
     const firstPool = page.getByRole("table", { name: "Pools" }).locator("tbody a").first();
@@ -62,10 +58,7 @@ describe("a technician logs a visit on a phone", () => {
 });
 
 async function signInAsTechnician(page: Page) {
-  await page.goto(`${BROWSER_TEST_URL}/sign-in?next=/pools`);
-  await page.getByLabel("E-mail").fill(`tech@${DEMO_EMAIL_DOMAIN}`);
-  await page.getByLabel("Password").fill("tech-demo-2026");
-  await page.getByRole("button", { name: "Sign in" }).click();
+  await signInAs(page, "tech1", "/pools");
   await page.getByRole("heading", { level: 1, name: "Pools" }).waitFor();
 }
 

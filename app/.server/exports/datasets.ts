@@ -3,7 +3,7 @@ import { db } from "../db/client";
 import { fillSources, pools, products, routes, treatments, waterTests } from "../db/schema";
 import type { Scope } from "../guard";
 import { poolsInScope } from "../queries/scope";
-import { type CsvCell, csvLine } from "./csv";
+import { type CsvCell, csvLine, csvLines } from "~/lib/csv";
 
 export const DATASETS = {
   "water-tests": "Water tests",
@@ -142,7 +142,7 @@ export function exportStream(scope: Scope, dataset: Dataset): ReadableStream<Uin
           return;
         }
         const next = await page(afterId, PAGE_SIZE);
-        if (next.rows.length > 0) controller.enqueue(encoder.encode(next.rows.map(csvLine).join("")));
+        if (next.rows.length > 0) controller.enqueue(encoder.encode(csvLines(next.rows)));
         if (next.lastId === null || next.rows.length < PAGE_SIZE) controller.close();
         else afterId = next.lastId;
       } catch (error) {

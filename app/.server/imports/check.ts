@@ -6,7 +6,7 @@ import { importBatches, importMappings, importUploads, user } from "../db/schema
 import type { Scope } from "../guard";
 import { planImport, type PlanSummary } from "./plan";
 import { findUpload, reportProgress, uploadSample } from "./uploads";
-import { toCsv } from "../exports/csv";
+import { toCsv } from "~/lib/csv";
 
 export type CheckResult = { ok: true; summary: PlanSummary } | { ok: false; status: 404 | 409; message: string };
 

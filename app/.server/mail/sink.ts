@@ -1,6 +1,7 @@
 import { randomUUID } from "node:crypto";
 import { mkdir, readdir, readFile, writeFile } from "node:fs/promises";
 import path from "node:path";
+import { simpleParser } from "mailparser";
 import { SMTPServer } from "smtp-server";
 
 /**
@@ -41,14 +42,18 @@ export async function startMailSink(options: { port: number; storeDir: string; h
       stream.on("data", (chunk: Buffer) => chunks.push(chunk));
       stream.on("error", callback);
       stream.on("end", () => {
-        const raw = Buffer.concat(chunks).toString("utf8");
+        const raw = Buffer.concat(chunks);
         const envelopeTo = session.envelope.rcptTo.map((r) => r.address);
         const from = session.envelope.mailFrom ? session.envelope.mailFrom.address : "";
-        const stored = { ...parseMessage(raw), id: mailId(), receivedAt: new Date().toISOString(), from, to: envelopeTo };
-        Promise.all([
-          writeFile(path.join(storeDir, `${stored.id}.eml`), raw),
-          writeFile(path.join(storeDir, `${stored.id}.json`), `${JSON.stringify(stored, null, 2)}\n`),
-        ]).then(() => callback(), callback);
+        parseMessage(raw)
+          .then((parsed) => {
+            const stored = { ...parsed, id: mailId(), receivedAt: new Date().toISOString(), from, to: envelopeTo };
+            return Promise.all([
+              writeFile(path.join(storeDir, `${stored.id}.eml`), raw),
+              writeFile(path.join(storeDir, `${stored.id}.json`), `${JSON.stringify(stored, null, 2)}\n`),
+            ]);
+          })
+          .then(() => callback(), callback);
       });
     },
   });
@@ -84,73 +89,13 @@ export async function readStoredMail(storeDir: string): Promise<StoredMail[]> {
   return Promise.all(files.map(async (n) => JSON.parse(await readFile(path.join(storeDir, n), "utf8")) as StoredMail));
 }
 
-type Part = { headers: Map<string, string>; body: string };
-
-function splitHeaders(raw: string): Part {
-  const normalised = raw.replace(/\r\n/g, "\n");
-  const end = normalised.indexOf("\n\n");
-  const head = end === -1 ? normalised : normalised.slice(0, end);
-  const body = end === -1 ? "" : normalised.slice(end + 2);
-  const headers = new Map<string, string>();
-  for (const line of head.replace(/\n[ \t]+/g, " ").split("\n")) {
-    const colon = line.indexOf(":");
-    if (colon > 0) headers.set(line.slice(0, colon).trim().toLowerCase(), line.slice(colon + 1).trim());
-  }
-  return { headers, body };
-}
-
-function decodeBody(body: string, encoding: string | undefined): string {
-  switch ((encoding ?? "7bit").toLowerCase()) {
-    case "base64":
-      return Buffer.from(body.replace(/\s+/g, ""), "base64").toString("utf8");
-    case "quoted-printable":
-      return Buffer.from(
-        body.replace(/=\n/g, "").replace(/=([0-9A-Fa-f]{2})/g, (_, hex: string) => String.fromCharCode(parseInt(hex, 16))),
-        "latin1",
-      ).toString("utf8");
-    default:
-      return body;
-  }
-}
-
-/** RFC 2047 encoded words, as nodemailer writes non-ASCII subjects. */
-function decodeWords(value: string): string {
-  return value
-    .replace(/\?=\s+=\?/g, "?==?")
-    .replace(/=\?([^?]+)\?([BbQq])\?([^?]*)\?=/g, (_, _charset: string, kind: string, text: string) =>
-      kind.toUpperCase() === "B"
-        ? Buffer.from(text, "base64").toString("utf8")
-        : Buffer.from(
-            text.replace(/_/g, " ").replace(/=([0-9A-Fa-f]{2})/g, (__, hex: string) => String.fromCharCode(parseInt(hex, 16))),
-            "latin1",
-          ).toString("utf8"),
-    );
-}
-
-function collectParts(part: Part, into: { text: string; html: string }) {
-  const type = part.headers.get("content-type") ?? "text/plain";
-  const boundary = /boundary="?([^";]+)"?/i.exec(type)?.[1];
-  if (type.toLowerCase().startsWith("multipart/") && boundary) {
-    const sections = part.body.split(`--${boundary}`).slice(1);
-    for (const section of sections) {
-      if (section.startsWith("--")) break;
-      collectParts(splitHeaders(section.replace(/^\n/, "")), into);
-    }
-    return;
-  }
-  const decoded = decodeBody(part.body, part.headers.get("content-transfer-encoding"));
-  if (type.toLowerCase().startsWith("text/html")) into.html ||= decoded;
-  else if (type.toLowerCase().startsWith("text/plain")) into.text ||= decoded;
-}
-
-export function parseMessage(raw: string): Pick<StoredMail, "subject" | "messageId" | "text" | "html"> {
-  const top = splitHeaders(raw);
-  const parts = { text: "", html: "" };
-  collectParts(top, parts);
+/** Subject, message id and the text and HTML parts, decoded by mailparser. */
+export async function parseMessage(raw: string | Buffer): Promise<Pick<StoredMail, "subject" | "messageId" | "text" | "html">> {
+  const mail = await simpleParser(raw, { skipHtmlToText: true, skipTextToHtml: true, skipTextLinks: true, skipImageLinks: true });
   return {
-    subject: decodeWords(top.headers.get("subject") ?? ""),
-    messageId: top.headers.get("message-id") ?? null,
-    text: parts.text.replace(/\n$/, ""),
-    html: parts.html,
+    subject: mail.subject ?? "",
+    messageId: mail.messageId ?? null,
+    text: (mail.text ?? "").replace(/\r?\n$/, ""),
+    html: typeof mail.html === "string" ? mail.html : "",
   };
 }

@@ -51,7 +51,7 @@ describe("mail templates", () => {
 });
 
 describe("the sink's message reader", () => {
-  it("decodes quoted-printable and base64 parts and encoded subjects", () => {
+  it("decodes quoted-printable and base64 parts and encoded subjects", async () => {
     const raw = [
       "Subject: =?UTF-8?Q?Gr=C3=BC=C3=9Fe?=",
       "Message-ID: <m1@patina.example>",
@@ -71,7 +71,7 @@ describe("the sink's message reader", () => {
       "--b1--",
       "",
     ].join("\r\n");
-    expect(parseMessage(raw)).toEqual({
+    expect(await parseMessage(raw)).toEqual({
       subject: "Grüße",
       messageId: "<m1@patina.example>",
       text: "Link: http://localhost:3000/invite/abc=def and a long line that was wrapped",

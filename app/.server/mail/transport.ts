@@ -1,6 +1,7 @@
 import nodemailer, { type Transporter } from "nodemailer";
 import type SMTPTransport from "nodemailer/lib/smtp-transport";
 import { serverEnv } from "../env";
+import { processSingleton } from "../process-singleton";
 
 export type OutgoingMessage = {
   to: string;
@@ -11,25 +12,21 @@ export type OutgoingMessage = {
   messageId?: string;
 };
 
-const holder = globalThis as typeof globalThis & { __patinaMailTransport?: { url: string; transport: Transporter } };
-
-/** The one way out for e-mail: SMTP to the URL in PATINA_SMTP_URL. */
+/**
+ * The one way out for e-mail: SMTP to the URL in PATINA_SMTP_URL, one
+ * transport per URL. No pooling: each send opens its own connection (so an
+ * unused transport holds none), and a server that went away and came back is
+ * simply reached again on the next attempt.
+ */
 export function mailTransport(url = serverEnv().PATINA_SMTP_URL): Transporter {
-  if (holder.__patinaMailTransport?.url !== url) {
-    holder.__patinaMailTransport?.transport.close();
-    holder.__patinaMailTransport = {
+  return processSingleton(`mail transport ${url}`, () =>
+    nodemailer.createTransport({
       url,
-      // No pooling: each send opens its own connection, so a server that went
-      // away and came back is simply reached again on the next attempt.
-      transport: nodemailer.createTransport({
-        url,
-        connectionTimeout: 10_000,
-        greetingTimeout: 10_000,
-        socketTimeout: 20_000,
-      } satisfies SMTPTransport.Options),
-    };
-  }
-  return holder.__patinaMailTransport.transport;
+      connectionTimeout: 10_000,
+      greetingTimeout: 10_000,
+      socketTimeout: 20_000,
+    } satisfies SMTPTransport.Options),
+  );
 }
 
 export async function sendMail(message: OutgoingMessage): Promise<void> {

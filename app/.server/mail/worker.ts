@@ -1,11 +1,12 @@
 import { serverEnv } from "../env";
+import { existingProcessSingleton, processSingleton } from "../process-singleton";
 import { deliverDueMail } from "./outbox";
 
 const INTERVAL_MS = 15_000;
 const DIGEST_CHECK_MS = 60 * 60_000;
 
 type WorkerState = { timer: NodeJS.Timeout; digestTimer: NodeJS.Timeout; running: boolean; again: boolean };
-const holder = globalThis as typeof globalThis & { __patinaMailWorker?: WorkerState };
+const WORKER = "mail worker";
 
 function drain(state: WorkerState) {
   if (state.running) {
@@ -37,7 +38,7 @@ function queueDueDigests() {
  * never runs inside a request. Tests call deliverDueMail() themselves.
  */
 export function ensureMailWorker(): void {
-  if (holder.__patinaMailWorker || serverEnv().NODE_ENV === "test") return;
+  if (existingProcessSingleton(WORKER) || serverEnv().NODE_ENV === "test") return;
   const state: WorkerState = {
     timer: setInterval(() => drain(state), INTERVAL_MS),
     digestTimer: setInterval(queueDueDigests, DIGEST_CHECK_MS),
@@ -48,11 +49,11 @@ export function ensureMailWorker(): void {
   state.timer.unref();
   state.digestTimer.unref();
   setTimeout(queueDueDigests, 30_000).unref();
-  holder.__patinaMailWorker = state;
+  processSingleton(WORKER, () => state);
 }
 
 /** Asks the sender to look at the outbox now rather than at its next tick. */
 export function nudgeMailWorker(): void {
-  const state = holder.__patinaMailWorker;
+  const state = existingProcessSingleton<WorkerState>(WORKER);
   if (state) setImmediate(() => drain(state));
 }

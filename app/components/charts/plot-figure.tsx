@@ -1,6 +1,6 @@
 import type { PlotOptions } from "@observablehq/plot";
-import Papa from "papaparse";
 import { type ReactNode, useEffect, useRef, useState } from "react";
+import { displayTableCsv } from "~/lib/csv";
 
 export type TableColumn<Row> = { label: string; value: (row: Row) => string };
 
@@ -126,7 +126,10 @@ export function PlotFigure<Row>({
 }
 
 function downloadCsv<Row>(fileName: string, columns: ReadonlyArray<TableColumn<Row>>, rows: readonly Row[]) {
-  const csv = Papa.unparse({ fields: columns.map((c) => c.label), data: rows.map((row) => columns.map((c) => c.value(row))) });
+  const csv = displayTableCsv(
+    columns.map((c) => c.label),
+    rows.map((row) => columns.map((c) => c.value(row))),
+  );
   const url = URL.createObjectURL(new Blob([csv], { type: "text/csv;charset=utf-8" }));
   const link = Object.assign(document.createElement("a"), { href: url, download: fileName });
   link.click();

@@ -1,25 +1,17 @@
 import { type ChangeEvent, useEffect, useRef, useState } from "react";
 import { Form, useNavigation } from "react-router";
-import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
-import { metalStatus, type MetalThresholds } from "@analysis/metals/reading";
+import { classifyBalance, type BalanceBand } from "@analysis/chemistry/saturation";
+import type { MetalThresholds } from "@analysis/metals/reading";
 import { CautionNote } from "~/components/caution-note";
 import { FormProblem } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
-import {
-  hasMetalReading,
-  NUMERIC_ANALYTES,
-  parseVisitReadings,
-  PH_WARNING,
-  TREATMENT_FIELDS,
-  type TypedVisit,
-  VISIT_METALS,
-} from "~/lib/forms/visit";
+import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
+import { liveVisit, type TypedLine } from "~/lib/forms/visit-live";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "~/lib/ranges";
 
 type Product = { id: number; name: string; category: string; doseUnit: string | null; unitCost: number | null };
-type Line = { productId: string; amount: string; unit: string };
-type Snapshot = { values: Record<string, string>; lines: Line[] };
+type Snapshot = { values: Record<string, string>; lines: TypedLine[] };
 
 export type VisitAnswer = { fieldErrors: FieldErrors; formError: string | null; values?: TypedVisit };
 
@@ -58,6 +50,11 @@ function readForm(form: HTMLFormElement): Snapshot {
     typed[name] = (TREATMENT_FIELDS as readonly string[]).includes(name) ? all : (all.at(-1) ?? "");
   }
   return snapshotOf(typed);
+}
+
+/** Ties an input to its error message: marked invalid, and described by the message's element. */
+function errorProps(message: string | undefined, id: string) {
+  return { "aria-invalid": Boolean(message), "aria-describedby": message ? id : undefined };
 }
 
 function FieldError({ id, message }: { id: string; message: string | undefined }) {
@@ -153,34 +150,14 @@ export function VisitForm({
   useEffect(() => setChanged(new Set()), [answer]);
 
   const { values, lines } = current;
-  const { readings, errors: liveErrors } = parseVisitReadings(values);
+  const { readings, errors: liveErrors, balance, warnings, askForMetals, acidGiven, phHigh, hasStain, costs } = liveVisit(
+    values,
+    lines,
+    products,
+    thresholds,
+  );
   const errorFor = (key: string): string | undefined => liveErrors[key] ?? (changed.has(key) ? undefined : answer?.fieldErrors[key]);
-
-  const balance = saturationIndex({
-    ph: readings.ph,
-    temperatureC: readings.temperatureC,
-    calciumHardness: readings.calciumHardness,
-    totalAlkalinity: readings.totalAlkalinity,
-    cyanuricAcid: readings.cyanuricAcid,
-    tds: readings.tds,
-    salt: readings.salt,
-  });
-
-  const warnings: string[] = [];
-  if (readings.ph !== undefined && (readings.ph < PH_WARNING.low || readings.ph > PH_WARNING.high)) {
-    warnings.push(`pH ${readings.ph} is outside ${PH_WARNING.low}–${PH_WARNING.high}: check the reading and the reagent.`);
-  }
-  for (const metal of VISIT_METALS) {
-    const reading = readings[metal.key];
-    if (reading && metalStatus(reading, thresholds[metal.key]) === "elevated") {
-      warnings.push(`${metal.label} ${reading.value} mg/L is at or above the elevated level (${thresholds[metal.key].elevated} mg/L).`);
-    }
-  }
-  const askForMetals = values.hardnessEndpoint === "blurred" && !hasMetalReading(readings);
   const productById = new Map(products.map((p) => [String(p.id), p]));
-  const acidGiven = lines.some((l) => productById.get(l.productId)?.category === "ph_decreaser");
-  const phHigh = readings.ph !== undefined && readings.ph > DEFAULT_ANALYTE_RANGES.ph.high;
-  const hasStain = values.stain === "new" || values.stain === "existing";
 
   const onChange = (event: ChangeEvent<HTMLFormElement>) => {
     const target = event.target as unknown as HTMLInputElement | HTMLSelectElement;
@@ -229,8 +206,7 @@ export function VisitForm({
           inputMode="decimal"
           autoComplete="off"
           defaultValue={initial.values[name] ?? ""}
-          aria-invalid={Boolean(error)}
-          aria-describedby={error ? `${name}-error` : undefined}
+          {...errorProps(error, `${name}-error`)}
           className={bigInput}
         />
         <FieldError id={`${name}-error`} message={error} />
@@ -316,8 +292,7 @@ export function VisitForm({
             maxLength={2000}
             defaultValue={initial.values.note ?? ""}
             className={bigInput}
-            aria-invalid={Boolean(errorFor("note"))}
-            aria-describedby={errorFor("note") ? "note-error" : undefined}
+            {...errorProps(errorFor("note"), "note-error")}
           />
           <FieldError id="note-error" message={errorFor("note")} />
         </label>
@@ -326,14 +301,8 @@ export function VisitForm({
       <section aria-labelledby="treatments" className="space-y-3">
         <h2 id="treatments" className="text-lg font-semibold">Treatments given</h2>
         {Array.from({ length: lineCount }, (_, i) => {
-          const line = lines[i] ?? { productId: "", amount: "", unit: "" };
           const start = initial.lines[i] ?? { productId: "", amount: "", unit: "" };
-          const product = productById.get(line.productId);
-          const amount = Number(line.amount.replace(",", "."));
-          const cost =
-            product?.unitCost != null && product.doseUnit && line.unit.toLowerCase() === product.doseUnit.toLowerCase() && amount > 0
-              ? amount * product.unitCost
-              : null;
+          const cost = costs[i] ?? null;
           const productError = errorFor(`treatments.${i}.product`);
           const amountError = errorFor(`treatments.${i}.amount`);
           const unitError = errorFor(`treatments.${i}.unit`);
@@ -346,8 +315,7 @@ export function VisitForm({
                   data-line={i}
                   defaultValue={start.productId}
                   className={bigInput}
-                  aria-invalid={Boolean(productError)}
-                  aria-describedby={productError ? `treatment-${i}-product-error` : undefined}
+                  {...errorProps(productError, `treatment-${i}-product-error`)}
                 >
                   <option value="">None</option>
                   {products.map((p) => (
@@ -367,8 +335,7 @@ export function VisitForm({
                   autoComplete="off"
                   defaultValue={start.amount}
                   className={bigInput}
-                  aria-invalid={Boolean(amountError)}
-                  aria-describedby={amountError ? `treatment-${i}-amount-error` : undefined}
+                  {...errorProps(amountError, `treatment-${i}-amount-error`)}
                 />
               </label>
               <label className="block">
@@ -379,8 +346,7 @@ export function VisitForm({
                   defaultValue={start.unit}
                   maxLength={16}
                   className={bigInput}
-                  aria-invalid={Boolean(unitError)}
-                  aria-describedby={unitError ? `treatment-${i}-unit-error` : undefined}
+                  {...errorProps(unitError, `treatment-${i}-unit-error`)}
                 />
               </label>
               <span className="col-span-2">

@@ -1,4 +1,5 @@
 import { z as zod } from "zod";
+import { parseDecimal } from "../decimal";
 
 /** Field name -> first message, as the forms show them beside each input. */
 export type FieldErrors = Record<string, string>;
@@ -45,9 +46,8 @@ function withUnit(value: number, unit?: string) {
 export function parseBoundedNumber(raw: unknown, rule: NumberRule): NumberParse {
   const text = typeof raw === "string" ? raw.trim() : raw == null ? "" : String(raw);
   if (text === "") return { ok: true, value: null };
-  const normalised = text.replace(",", ".");
-  const value = /^[-+]?(\d+\.?\d*|\.\d+)$/.test(normalised) ? Number(normalised) : Number.NaN;
-  if (!Number.isFinite(value)) return { ok: false, message: `${rule.label}: "${text}" is not a number.` };
+  const value = parseDecimal(text, { decimalComma: true, negative: true });
+  if (value === null) return { ok: false, message: `${rule.label}: "${text}" is not a number.` };
   if (rule.integer && !Number.isInteger(value)) {
     return { ok: false, message: `${rule.label}: ${text} must be a whole number.` };
   }

@@ -1,5 +1,6 @@
-import { parseMetalReading } from "@analysis/metals/reading";
+import { parseMetalReading } from "../metal-reading";
 import { fahrenheitToCelsius, microgramsPerLitreToMilligramsPerLitre } from "@analysis/units/convert";
+import { parseDecimal } from "../decimal";
 import type { ColumnUnit } from "./fields";
 
 /** Cells that mean "not measured". */
@@ -16,23 +17,13 @@ export type NumberStyle = {
 
 export type CellNumber = { ok: true; value: number } | { ok: false; reason: string };
 
-const PLAIN = /^[+]?(\d+(\.\d*)?|\.\d+)$/;
-const DOT_THOUSANDS_COMMA_DECIMAL = /^\d{1,3}(\.\d{3})+(,\d+)?$/;
-const COMMA_THOUSANDS = /^\d{1,3}(,\d{3})+(\.\d+)?$/;
-const COMMA_DECIMAL = /^(\d+(,\d*)?|,\d+)$/;
-
 /** Reads a number as written in a spreadsheet, without guessing: anything unclear is refused. */
 export function readNumber(text: string, style: NumberStyle): CellNumber {
   const cell = text.trim().replace(/\s+/g, "");
-  if (PLAIN.test(cell)) return { ok: true, value: Number(cell) };
-  if (style.decimalComma) {
-    if (COMMA_DECIMAL.test(cell)) return { ok: true, value: Number(cell.replace(",", ".")) };
-    if (DOT_THOUSANDS_COMMA_DECIMAL.test(cell)) return { ok: true, value: Number(cell.replaceAll(".", "").replace(",", ".")) };
-  } else if (COMMA_THOUSANDS.test(cell)) {
-    return { ok: true, value: Number(cell.replaceAll(",", "")) };
-  }
+  const value = parseDecimal(cell, { decimalComma: style.decimalComma, groups: true });
+  if (value !== null) return { ok: true, value };
   if (/^-\d/.test(cell)) return { ok: false, reason: "is negative" };
-  if (!style.decimalComma && COMMA_DECIMAL.test(cell)) {
+  if (!style.decimalComma && parseDecimal(cell, { decimalComma: true }) !== null) {
     return { ok: false, reason: "is written with a decimal comma, which a comma-separated file cannot tell from a column break; write it with a point" };
   }
   return { ok: false, reason: "is not a number" };
