@@ -10,6 +10,7 @@ import { proposeMapping, type SavedMapping, savedMappingFits } from "~/lib/impor
 import { db } from "../db/client";
 import { companies, importMappings, importUploads } from "../db/schema";
 import type { Scope } from "../guard";
+import { releaseDeadClaims } from "./claims";
 import { importConfig } from "./config";
 import {
   type Delimiter,
@@ -133,12 +134,18 @@ async function proposeForCompany(scope: Scope, headers: string[]): Promise<Colum
   });
 }
 
+/** The upload, with a dead commit claim already released (so it reads "stopped, nothing stored"). */
 export async function findUpload(scope: Scope, uploadId: string): Promise<UploadRow | null> {
-  const [row] = await db()
-    .select()
-    .from(importUploads)
-    .where(and(eq(importUploads.id, uploadId), eq(importUploads.companyId, scope.companyId)));
-  return row ?? null;
+  const read = async () => {
+    const [row] = await db()
+      .select()
+      .from(importUploads)
+      .where(and(eq(importUploads.id, uploadId), eq(importUploads.companyId, scope.companyId)));
+    return row ?? null;
+  };
+  const row = await read();
+  if (row?.phase !== "committing") return row;
+  return (await releaseDeadClaims({ companyId: scope.companyId, uploadId })) > 0 ? read() : row;
 }
 
 export function uploadEncoding(upload: UploadRow): Encoding {
@@ -158,6 +165,7 @@ export async function uploadSample(upload: UploadRow, rows = 5) {
 }
 
 export async function uploadsInProgress(scope: Scope) {
+  await releaseDeadClaims({ companyId: scope.companyId });
   return db()
     .select({
       id: importUploads.id,
