@@ -227,7 +227,7 @@ async function insertBatch(
 async function createPools(connection: PoolConnection, scope: Scope, plan: ImportPlan): Promise<Map<string, number>> {
   const ids = new Map<string, number>();
   for (const unknown of plan.unknownPools.filter((p) => p.create)) {
-    const code = unknown.accountCode ? accountKey(unknown.accountCode) : `IMP-${unknown.firstRow}-${Date.now().toString(36)}`.slice(0, 40);
+    const code = unknown.accountCode ? (accountKey(unknown.accountCode) ?? unknown.accountCode) : `IMP-${unknown.firstRow}-${Date.now().toString(36)}`.slice(0, 40);
     const [result] = await connection.query<ResultSetHeader>(
       "INSERT INTO pools (company_id, account_code, customer_name, street) VALUES (?, ?, ?, ?)",
       [scope.companyId, code, unknown.customerName ?? "Not given in the imported file", unknown.address ?? "Not given in the imported file"],
