@@ -5,6 +5,19 @@ import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import type { EntryContext, RouterContextProvider } from "react-router";
 import { ServerRouter } from "react-router";
+import { releaseDeadClaims } from "./.server/imports/claims";
+
+// On start, commits left by a process of this host that is gone (or by any
+// process, past the claim timeout) are marked stopped, so they can be committed again.
+const started = globalThis as typeof globalThis & { __patinaClaimsReleased?: boolean };
+if (!started.__patinaClaimsReleased) {
+  started.__patinaClaimsReleased = true;
+  releaseDeadClaims()
+    .then((released) => {
+      if (released > 0) console.log(`[patina] ${released} interrupted import(s) marked stopped; nothing of them was stored`);
+    })
+    .catch((error: unknown) => console.error("[patina] could not release interrupted imports:", error));
+}
 
 export const streamTimeout = 5_000;
 

@@ -8,6 +8,7 @@ import { importBatches, importUploads, waterTests, treatments } from "../db/sche
 import type { Scope } from "../guard";
 import { type ImportPlan, planImport, type PlanSummary } from "./plan";
 import { PlannedRows } from "./planned-rows";
+import { type Claim, claimForCommit, endClaim, finishClaimSql } from "./claims";
 import { findUpload, reportProgress } from "./uploads";
 import { afterWaterTestsSaved } from "../mail/alerts";
 
@@ -82,20 +83,38 @@ export async function commitUpload(scope: Scope, uploadId: string, hooks: Commit
   if (upload.phase === "discarded") return { ok: false, status: 409, message: "This upload was set aside; upload the file again." };
   const options = readImportOptions(upload.options);
   if (!options) return { ok: false, status: 422, message: "The column choices for this file are not valid; choose them again." };
-  if (!(await claimForCommit(upload.id))) {
-    return { ok: false, status: 409, message: "This file is being imported right now." };
+  const claim = await claimForCommit(upload.id);
+  if (!claim) return { ok: false, status: 409, message: "This file is being imported right now." };
+  try {
+    return await commitClaimed(scope, upload, options, claim, hooks);
+  } finally {
+    claim.stop();
   }
+}
 
+class ClaimLost extends Error {
+  constructor() {
+    super("another commit took this upload over after this one went quiet");
+  }
+}
+
+async function commitClaimed(
+  scope: Scope,
+  upload: NonNullable<Awaited<ReturnType<typeof findUpload>>>,
+  options: NonNullable<ReturnType<typeof readImportOptions>>,
+  claim: Claim,
+  hooks: CommitHooks,
+): Promise<CommitResult> {
   let planned: Awaited<ReturnType<typeof planImport>>;
   try {
     planned = await planImport(scope, upload, options, "committing");
   } catch (error) {
-    await reportProgress(upload.id, { phase: "failed", error: `Nothing was stored: ${String(error)}` });
+    await endClaim(claim, { phase: "failed", error: `Nothing was stored: ${String(error)}` }).catch(() => undefined);
     throw error;
   }
   const { plan, summary } = planned;
   if ((plan.dateOrder.kind === "ambiguous" || plan.dateOrder.kind === "conflicting") && !options.dateOrder) {
-    await reportProgress(upload.id, { phase: "checked" });
+    await endClaim(claim, { phase: "checked", error: null });
     return { ok: false, status: 422, message: `Choose the date order first: ${plan.dateOrder.reason}.` };
   }
   const total = plan.testsToAdd + plan.treatmentsToAdd;
@@ -162,10 +181,13 @@ export async function commitUpload(scope: Scope, uploadId: string, hooks: Commit
       await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
     }
 
-    await connection.query(
-      "UPDATE import_uploads SET phase = 'committed', rows_done = ?, import_batch_id = ?, summary = ?, error = NULL, updated_at = CURRENT_TIMESTAMP(3) WHERE id = ?",
-      [stored, batchId, JSON.stringify(summary), upload.id],
+    // Fenced by the claim token: a commit taken over after going quiet rolls back here.
+    const finish = finishClaimSql(claim);
+    const [done] = await connection.query<ResultSetHeader>(
+      `UPDATE import_uploads SET phase = 'committed', rows_done = ?, import_batch_id = ?, summary = ?, error = NULL, ${finish.set}, updated_at = CURRENT_TIMESTAMP(3) WHERE ${finish.where}`,
+      [stored, batchId, JSON.stringify(summary), ...finish.values],
     );
+    if (done.affectedRows !== 1) throw new ClaimLost();
     await connection.commit();
     // Alerts look only at recent events, so years of history mail nobody.
     void afterWaterTestsSaved(scope.companyId, [...new Set(Array.from(tests, poolIdOf))]);
@@ -173,31 +195,18 @@ export async function commitUpload(scope: Scope, uploadId: string, hooks: Commit
   } catch (error) {
     broken = true;
     await connection.rollback().catch(() => undefined);
-    await reportProgress(upload.id, {
-      phase: "failed",
-      rowsDone: 0,
-      error: `Nothing was stored: ${error instanceof Error ? error.message : String(error)}`,
-    }).catch(() => undefined);
+    if (!(error instanceof ClaimLost)) {
+      await endClaim(claim, {
+        phase: "failed",
+        error: `Nothing was stored: ${error instanceof Error ? error.message : String(error)}`,
+      }).catch(() => undefined);
+    }
     throw error;
   } finally {
     // A connection that failed half-way may be dead or mid-transaction: never hand it back.
     if (broken) connection.destroy();
     else connection.release();
   }
-}
-
-/**
- * Only one commit per upload at a time. A commit that has said nothing for ten
- * minutes belongs to a stopped server, so it may be taken over (its
- * transaction was rolled back when its connection closed).
- */
-async function claimForCommit(uploadId: string): Promise<boolean> {
-  const [result] = await connectionPool().query<ResultSetHeader>(
-    `UPDATE import_uploads SET phase = 'committing', rows_done = 0, error = NULL, updated_at = CURRENT_TIMESTAMP(3)
-     WHERE id = ? AND (phase NOT IN ('committing', 'committed', 'discarded') OR (phase = 'committing' AND updated_at < NOW(3) - INTERVAL 10 MINUTE))`,
-    [uploadId],
-  );
-  return result.affectedRows === 1;
 }
 
 async function insertBatch(
@@ -218,7 +227,7 @@ async function insertBatch(
 async function createPools(connection: PoolConnection, scope: Scope, plan: ImportPlan): Promise<Map<string, number>> {
   const ids = new Map<string, number>();
   for (const unknown of plan.unknownPools.filter((p) => p.create)) {
-    const code = unknown.accountCode ? accountKey(unknown.accountCode) : `IMP-${unknown.firstRow}-${Date.now().toString(36)}`.slice(0, 40);
+    const code = unknown.accountCode ? (accountKey(unknown.accountCode) ?? unknown.accountCode) : `IMP-${unknown.firstRow}-${Date.now().toString(36)}`.slice(0, 40);
     const [result] = await connection.query<ResultSetHeader>(
       "INSERT INTO pools (company_id, account_code, customer_name, street) VALUES (?, ?, ?, ?)",
       [scope.companyId, code, unknown.customerName ?? "Not given in the imported file", unknown.address ?? "Not given in the imported file"],

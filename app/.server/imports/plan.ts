@@ -88,7 +88,11 @@ export async function planImport(
     .select({ id: pools.id, accountCode: pools.accountCode, street: pools.street })
     .from(pools)
     .where(poolsInScope(scope));
-  const byCode = new Map(poolRows.map((p) => [accountKey(p.accountCode), p.id]));
+  const byCode = new Map<string, number>();
+  for (const p of poolRows) {
+    const key = accountKey(p.accountCode);
+    if (key !== null && !byCode.has(key)) byCode.set(key, p.id);
+  }
   const byAddress = new Map<string, number>();
   for (const p of poolRows) if (!byAddress.has(addressKey(p.street))) byAddress.set(addressKey(p.street), p.id);
   const productRows = await db()
@@ -119,7 +123,7 @@ export async function planImport(
     const record = result.record;
     if (record.test?.ph !== undefined && (record.test.ph < 6 || record.test.ph > 9)) pHWarnings++;
     let pool =
-      (record.accountCode ? byCode.get(accountKey(record.accountCode)) : undefined) ??
+      (record.accountCode ? byCode.get(record.accountCode) : undefined) ??
       (record.address ? byAddress.get(addressKey(record.address)) : undefined);
     if (pool === undefined) {
       const key = unknownPoolKey(record.accountCode, record.address);

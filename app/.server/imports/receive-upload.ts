@@ -7,7 +7,7 @@ import {
 } from "@remix-run/form-data-parser";
 import type { Scope } from "../guard";
 import { importConfig } from "./config";
-import { registerUpload, removeStoredFile, type StoredFile, UploadTooLarge, writeUploadFile } from "./uploads";
+import { registerUpload, removeStoredFile, type StoredFile, UploadRefused, UploadTooLarge, writeUploadFile } from "./uploads";
 
 /** Room for the multipart envelope (boundaries, part headers) around the file. */
 export const FORM_MARGIN_BYTES = 64 * 1024;
@@ -54,7 +54,12 @@ export async function receiveUpload(scope: Scope, request: Request): Promise<Rec
     if (file) await removeStoredFile(file);
     return { ok: false, status: 400, message: "Choose a CSV file to upload; the form arrived without one or with an empty file." };
   }
-  return { ok: true, uploadId: await registerUpload(scope, fileName, file) };
+  try {
+    return { ok: true, uploadId: await registerUpload(scope, fileName, file) };
+  } catch (error) {
+    if (error instanceof UploadRefused) return { ok: false, status: 400, message: error.message };
+    throw error;
+  }
 }
 
 async function* pieces(stream: ReadableStream<Uint8Array>): AsyncGenerator<Uint8Array> {

@@ -10,7 +10,8 @@ import { proposeMapping, type SavedMapping, savedMappingFits } from "~/lib/impor
 import { db } from "../db/client";
 import { companies, importMappings, importUploads } from "../db/schema";
 import type { Scope } from "../guard";
-import { importConfig } from "./config";
+import { releaseDeadClaims } from "./claims";
+import { importConfig, MAX_COLUMNS, MAX_HEADER_LENGTH } from "./config";
 import {
   type Delimiter,
   detectDelimiter,
@@ -25,6 +26,41 @@ import {
 export type UploadRow = typeof importUploads.$inferSelect;
 
 export class UploadTooLarge extends Error {}
+
+/** A file refused at upload for its shape; the message says what to change. */
+export class UploadRefused extends Error {}
+
+/** Bytes of the file's start that must hold its whole header row: 200 headers of 200 characters fit well within. */
+const HEADER_WINDOW_BYTES = 256 * 1024;
+
+/**
+ * Refuses a header row wider or longer than a log can be, from the file's
+ * start only, before anything reads the whole file.
+ */
+function checkHeaderRow(start: string, delimiter: Delimiter, byteSize: number) {
+  const { headers, rows } = parseTable(start, delimiter, 2);
+  const cut = byteSize > HEADER_WINDOW_BYTES && rows.length === 0;
+  if (headers.length > MAX_COLUMNS) {
+    throw new UploadRefused(
+      `The header row has ${cut ? "more than " : ""}${headers.length.toLocaleString("en")} columns (column ${MAX_COLUMNS + 1} is "${shortHeader(headers[MAX_COLUMNS]!)}"); a log may have at most ${MAX_COLUMNS}. Remove the columns you do not need and upload it again.`,
+    );
+  }
+  const long = headers.findIndex((h) => h.length > MAX_HEADER_LENGTH);
+  if (long >= 0) {
+    throw new UploadRefused(
+      `The header of column ${long + 1} in the header row is ${headers[long]!.length.toLocaleString("en")} characters long ("${shortHeader(headers[long]!)}"); headers may be at most ${MAX_HEADER_LENGTH}. Is the first row really a header?`,
+    );
+  }
+  if (cut) {
+    throw new UploadRefused(
+      `The header row does not end within the first ${HEADER_WINDOW_BYTES / 1024} KB of the file (column ${headers.length} is still going), so it is not a log's header. Check that the file is a CSV with one header row.`,
+    );
+  }
+}
+
+function shortHeader(header: string): string {
+  return header.length > 40 ? `${header.slice(0, 40)}…` : header;
+}
 
 /** A file written into the upload folder, with what was learnt while writing it. */
 export type StoredFile = { id: string; storedAs: string; byteSize: number; sha256: string; encoding: Encoding };
@@ -79,7 +115,9 @@ async function textStart(path: string, encoding: Encoding, bytes: number): Promi
 export async function registerUpload(scope: Scope, fileName: string, file: StoredFile): Promise<string> {
   try {
     const path = storedPath(file);
-    const delimiter = detectDelimiter(await textStart(path, file.encoding, 64 * 1024));
+    const start = await textStart(path, file.encoding, HEADER_WINDOW_BYTES);
+    const delimiter = detectDelimiter(start.slice(0, 64 * 1024));
+    checkHeaderRow(start, delimiter, file.byteSize);
     let rowsTotal = 0;
     const { headers } = await parseStoredFile(path, file.encoding, delimiter, () => {
       rowsTotal++;
@@ -133,12 +171,18 @@ async function proposeForCompany(scope: Scope, headers: string[]): Promise<Colum
   });
 }
 
+/** The upload, with a dead commit claim already released (so it reads "stopped, nothing stored"). */
 export async function findUpload(scope: Scope, uploadId: string): Promise<UploadRow | null> {
-  const [row] = await db()
-    .select()
-    .from(importUploads)
-    .where(and(eq(importUploads.id, uploadId), eq(importUploads.companyId, scope.companyId)));
-  return row ?? null;
+  const read = async () => {
+    const [row] = await db()
+      .select()
+      .from(importUploads)
+      .where(and(eq(importUploads.id, uploadId), eq(importUploads.companyId, scope.companyId)));
+    return row ?? null;
+  };
+  const row = await read();
+  if (row?.phase !== "committing") return row;
+  return (await releaseDeadClaims({ companyId: scope.companyId, uploadId })) > 0 ? read() : row;
 }
 
 export function uploadEncoding(upload: UploadRow): Encoding {
@@ -158,6 +202,7 @@ export async function uploadSample(upload: UploadRow, rows = 5) {
 }
 
 export async function uploadsInProgress(scope: Scope) {
+  await releaseDeadClaims({ companyId: scope.companyId });
   return db()
     .select({
       id: importUploads.id,

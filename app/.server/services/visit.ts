@@ -1,10 +1,11 @@
+import { setTimeout as sleep } from "node:timers/promises";
 import { and, eq, inArray } from "drizzle-orm";
 import type { VisitInput } from "~/lib/forms/visit";
 import { db } from "../db/client";
 import { pools, products, treatments, waterTests } from "../db/schema";
 import type { Scope } from "../guard";
 import { poolsInScope } from "../queries/scope";
-import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
+import { invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
 import { afterWaterTestsSaved } from "../mail/alerts";
 
 export type VisitSaved = { testId: number; poolId: number; repeated: boolean };
@@ -57,66 +58,90 @@ export async function logVisit(scope: Scope, poolId: number, input: VisitInput, 
     lines.push({ productId: line.productId, amount: line.amount, unit, cost: treatmentCost(line.amount, unit, product) });
   }
 
+  for (let attempt = 1; ; attempt++) {
+    try {
+      const testId = await storeVisit(scope, poolId, input, lines, now);
+      // Alerts are worked out after the commit and never hold up or undo the save.
+      void afterWaterTestsSaved(scope.companyId, [poolId]);
+      return { ok: true, testId, poolId, repeated: false };
+    } catch (error) {
+      // Twin submits running at the same moment: whichever stored first is the answer.
+      if (isDuplicateKey(error) || isLockConflict(error)) {
+        const stored = await alreadyStored(scope, input.submissionKey);
+        if (stored) return stored;
+      }
+      if (isLockConflict(error) && attempt < MAX_ATTEMPTS) {
+        await sleep(10 * attempt + Math.random() * 20 * attempt);
+        continue;
+      }
+      throw error;
+    }
+  }
+}
+
+const MAX_ATTEMPTS = 5;
+
+/** MariaDB chose this transaction as a deadlock victim, or it waited too long for a lock: safe to run again. */
+function isLockConflict(error: unknown): boolean {
+  for (let e: unknown = error; e; e = (e as { cause?: unknown }).cause) {
+    const code = (e as { code?: string }).code;
+    if (code === "ER_LOCK_DEADLOCK" || code === "ER_LOCK_WAIT_TIMEOUT") return true;
+  }
+  return false;
+}
+
+async function storeVisit(
+  scope: Scope,
+  poolId: number,
+  input: VisitInput,
+  lines: Array<{ productId: number; amount: number; unit: string; cost: number | null }>,
+  now: Date,
+): Promise<number> {
   const r = input.readings;
-  try {
-    const testId = await db().transaction(async (tx) => {
-      const [test] = await tx
-        .insert(waterTests)
-        .values({
+  return db().transaction(async (tx) => {
+    const [test] = await tx
+      .insert(waterTests)
+      .values({
+        companyId: scope.companyId,
+        poolId,
+        sampledAt: now,
+        technicianId: scope.userId,
+        freeChlorine: r.freeChlorine ?? null,
+        combinedChlorine: r.combinedChlorine ?? null,
+        ph: r.ph ?? null,
+        totalAlkalinity: r.totalAlkalinity ?? null,
+        calciumHardness: r.calciumHardness ?? null,
+        cyanuricAcid: r.cyanuricAcid ?? null,
+        salt: r.salt ?? null,
+        tds: r.tds ?? null,
+        temperatureC: r.temperatureC ?? null,
+        copper: r.copper?.value ?? null,
+        copperBelowDetection: r.copper?.belowDetection ?? false,
+        iron: r.iron?.value ?? null,
+        ironBelowDetection: r.iron?.belowDetection ?? false,
+        manganese: r.manganese?.value ?? null,
+        manganeseBelowDetection: r.manganese?.belowDetection ?? false,
+        hardnessEndpoint: input.hardnessEndpoint,
+        stain: input.stain,
+        stainColour: input.stainColour,
+        padTint: input.padTint,
+        note: input.note,
+        submissionKey: input.submissionKey,
+      })
+      .$returningId();
+    const id = test!.id;
+    if (lines.length > 0) {
+      await tx.insert(treatments).values(
+        lines.map((line) => ({
           companyId: scope.companyId,
           poolId,
-          sampledAt: now,
-          technicianId: scope.userId,
-          freeChlorine: r.freeChlorine ?? null,
-          combinedChlorine: r.combinedChlorine ?? null,
-          ph: r.ph ?? null,
-          totalAlkalinity: r.totalAlkalinity ?? null,
-          calciumHardness: r.calciumHardness ?? null,
-          cyanuricAcid: r.cyanuricAcid ?? null,
-          salt: r.salt ?? null,
-          tds: r.tds ?? null,
-          temperatureC: r.temperatureC ?? null,
-          copper: r.copper?.value ?? null,
-          copperBelowDetection: r.copper?.belowDetection ?? false,
-          iron: r.iron?.value ?? null,
-          ironBelowDetection: r.iron?.belowDetection ?? false,
-          manganese: r.manganese?.value ?? null,
-          manganeseBelowDetection: r.manganese?.belowDetection ?? false,
-          hardnessEndpoint: input.hardnessEndpoint,
-          stain: input.stain,
-          stainColour: input.stainColour,
-          padTint: input.padTint,
-          note: input.note,
-          submissionKey: input.submissionKey,
-        })
-        .$returningId();
-      const id = test!.id;
-      if (lines.length > 0) {
-        await tx.insert(treatments).values(
-          lines.map((line) => ({
-            companyId: scope.companyId,
-            poolId,
-            appliedAt: now,
-            appliedBy: scope.userId,
-            waterTestId: id,
-            ...line,
-          })),
-        );
-      }
-      return id;
-    });
-    // Alerts are worked out after the commit and never hold up or undo the save.
-    void afterWaterTestsSaved(scope.companyId, [poolId]);
-    return { ok: true, testId, poolId, repeated: false };
-  } catch (error) {
-    // A twin submit running at the same moment can trip either unique key first.
-    if (isDuplicateKey(error)) {
-      const stored = await alreadyStored(scope, input.submissionKey);
-      if (stored) return stored;
+          appliedAt: now,
+          appliedBy: scope.userId,
+          waterTestId: id,
+          ...line,
+        })),
+      );
     }
-    if (isDuplicateKey(error, "water_tests_pool_time")) {
-      return conflict("form", "A test of this pool is already stored for this very moment; wait a second and save again.");
-    }
-    throw error;
-  }
+    return id;
+  });
 }

@@ -16,9 +16,12 @@ export type CheckForm =
 export function readCheckForm(form: FormData, columnCount: number): CheckForm {
   const intent = intentSchema.safeParse(form.get("intent"));
   if (!intent.success) return { ok: false, field: "intent", message: intent.error.issues[0]!.message };
+  // One pass over the form: FormData.get scans every entry, so a get per column would be quadratic.
+  const values = new Map<string, FormDataEntryValue>();
+  for (const [name, value] of form.entries()) if (!values.has(name)) values.set(name, value);
   const columns = Array.from({ length: columnCount }, (_, i) => {
-    const unit = form.get(`unit-${i}`);
-    return { field: form.get(`column-${i}`) ?? "ignore", ...(unit ? { unit } : {}) };
+    const unit = values.get(`unit-${i}`);
+    return { field: values.get(`column-${i}`) ?? "ignore", ...(unit ? { unit } : {}) };
   });
   const dateOrder = form.get("dateOrder");
   const parsed = importOptionsSchema.safeParse({
@@ -35,7 +38,8 @@ export function readCheckForm(form: FormData, columnCount: number): CheckForm {
   }
   const options = parsed.data as ImportOptions;
   const fieldsUsed = options.columns.map((c) => c.field).filter((f) => f !== "ignore");
-  const twice = fieldsUsed.find((f, i) => fieldsUsed.indexOf(f) !== i);
+  const seen = new Set<string>();
+  const twice = fieldsUsed.find((f) => (seen.has(f) ? true : (seen.add(f), false)));
   if (twice) return { ok: false, field: "columns", message: `Two columns are read as "${twice}"; choose one and leave the other out.` };
   const name = String(form.get("mappingName") ?? "").trim();
   if (intent.data === "save-mapping" && (name.length === 0 || name.length > 120)) {

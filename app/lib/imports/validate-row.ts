@@ -11,6 +11,8 @@ import {
   isMetal,
   type MetalField,
 } from "./fields";
+import { characterCount, shownValue, TEXT_LIMITS } from "./limits";
+import { readAccountKey } from "./match-keys";
 
 export type Refusal = { row: number; column: string; value: string; reason: string };
 
@@ -57,20 +59,24 @@ export const importedTestSchema = z.object(
 );
 
 const treatmentSchema = z.object({
-  product: z.string().min(1).max(160, { error: "Treatment product name is longer than 160 characters" }),
+  product: z.string().min(1).max(TEXT_LIMITS.product, { error: `Treatment product name is longer than ${TEXT_LIMITS.product} characters` }),
   amount: z
     .number()
     .positive({ error: (issue) => `Treatment amount ${issue.input} must be above 0` })
     .max(9_999_999, { error: (issue) => `Treatment amount ${issue.input} is above the accepted maximum of 9,999,999` }),
-  unit: z.string().min(1).max(16, { error: "Treatment unit is longer than 16 characters" }),
+  unit: z.string().min(1).max(TEXT_LIMITS.amountUnit, { error: `Treatment unit is longer than ${TEXT_LIMITS.amountUnit} characters` }),
   cost: z.number().min(0, { error: (issue) => `Treatment cost ${issue.input} is negative` }).max(99_999_999).nullable(),
 });
 
 /** Unit words an amount cell may end with ("16 oz", "2.5 lb"). */
 const AMOUNT_WITH_UNIT = /^([\d.,\s]+?)\s*([a-zA-Z][a-zA-Z .]{0,15})$/;
 
-function textOrNull(text: string | undefined): string | null {
-  const trimmed = text?.trim() ?? "";
+/** Control and format characters (NUL, zero-width, soft hyphen...) are never stored. */
+const UNSTORED = /[\p{Cc}\p{Cf}]/gu;
+const UNSTORED_IN_NOTES = /[\p{Cf}\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f]/gu;
+
+function textOrNull(text: string | undefined, unstored = UNSTORED): string | null {
+  const trimmed = text?.replace(unstored, "").trim() ?? "";
   return trimmed === "" || isMissing(trimmed) ? null : trimmed;
 }
 
@@ -91,11 +97,15 @@ export function validateRow(
   });
   const refuse = (field: ImportField, reason: string) => {
     const cell = byField.get(field);
-    refusals.push({ row, column: cell?.column ?? fieldLabel(field), value: cell?.text ?? "", reason });
+    const value = cell?.text ?? "";
+    // A huge cell is shown cut, in the value and in a reason that quotes it.
+    const shown = shownValue(value);
+    const said = shown === value ? reason : reason.split(value.trim()).join(shownValue(value.trim()));
+    refusals.push({ row, column: cell?.column ?? fieldLabel(field), value: shown, reason: said });
   };
   const text = (field: ImportField) => textOrNull(byField.get(field)?.text);
 
-  const accountCode = text("accountCode");
+  let accountCode = text("accountCode");
   const address = text("address");
   if (!accountCode && !address) {
     refusals.push({
@@ -105,7 +115,19 @@ export function validateRow(
       reason: "has neither an account code nor an address, so the pool is unknown",
     });
   }
-  if (accountCode && accountCode.length > 40) refuse("accountCode", "Account code is longer than 40 characters");
+  if (accountCode) {
+    // Matched and stored as the database compares codes, so look-alikes are one pool.
+    const key = readAccountKey(accountCode);
+    if (key.ok) accountCode = key.key;
+    else refuse("accountCode", key.reason);
+  }
+  for (const field of ["address", "customerName", "neighbourhood", "postalCode"] as const) {
+    const value = text(field);
+    const length = value ? characterCount(value) : 0;
+    if (length > TEXT_LIMITS[field]) {
+      refuse(field, `${fieldLabel(field)} is ${length.toLocaleString("en")} characters long; at most ${TEXT_LIMITS[field]} are stored`);
+    }
+  }
 
   let sampledAt: Date | null = null;
   const dateText = byField.get("sampledAt")?.text ?? "";
@@ -139,7 +161,7 @@ export function validateRow(
   if (!bounds.success) {
     for (const issue of bounds.error.issues) refuse(issue.path[0] as AnalyteField, issue.message);
   }
-  const note = text("note");
+  const note = textOrNull(byField.get("note")?.text, UNSTORED_IN_NOTES);
   if (note) test.note = note.slice(0, 2000);
 
   let treatment: ImportedTreatment | null = null;

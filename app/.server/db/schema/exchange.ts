@@ -62,10 +62,18 @@ export const importUploads = mysqlTable(
     summary: json("summary").$type<Record<string, unknown>>(),
     error: text("error"),
     importBatchId: int("import_batch_id"),
+    /** The commit in progress: a token per attempt, the process holding it, and its last sign of life. */
+    claimId: varchar("claim_id", { length: 36 }),
+    claimHost: varchar("claim_host", { length: 255 }),
+    claimPid: int("claim_pid"),
+    claimHeartbeatAt: datetime("claim_heartbeat_at", { fsp: 3 }),
     createdAt: createdAt(),
     updatedAt: datetime("updated_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
   },
-  (t) => [index("import_uploads_company_idx").on(t.companyId, t.createdAt)],
+  (t) => [
+    index("import_uploads_company_idx").on(t.companyId, t.createdAt),
+    index("import_uploads_phase_idx").on(t.phase),
+  ],
 );
 
 export const invitations = mysqlTable(

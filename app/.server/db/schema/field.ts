@@ -110,10 +110,16 @@ export const waterTests = mysqlTable(
     importBatchId: int("import_batch_id").references(() => importBatches.id, { onDelete: "cascade" }),
     /** Set by the visit form so a repeated submit stores nothing twice. */
     submissionKey: varchar("submission_key", { length: 64 }),
+    /**
+     * The submission key, or "" for rows without one (imports): with the pool
+     * and time it is the unique entry, so visits are told apart by their key
+     * and never by the clock, while imports stay one test per pool and time.
+     */
+    submissionScope: varchar("submission_scope", { length: 64 }).generatedAlwaysAs(sql`coalesce(\`submission_key\`, '')`, { mode: "stored" }),
     createdAt: createdAt(),
   },
   (t) => [
-    unique("water_tests_pool_time").on(t.poolId, t.sampledAt),
+    unique("water_tests_pool_time_entry").on(t.poolId, t.sampledAt, t.submissionScope),
     unique("water_tests_submission").on(t.companyId, t.submissionKey),
     index("water_tests_company_time_idx").on(t.companyId, t.sampledAt),
     // Analytics read a company's readings in pool-and-time order without a sort.
