@@ -1,6 +1,7 @@
 import { analyseMetalHistory, type MetalHistory, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import type { Scope } from "../../guard";
+import { stopIfAbandoned } from "../../request-context";
 import { metalReadings } from "../metal-readings";
 import { observedSpans, poolProfiles, type ObservedSpan, type RouteBookProfiles } from "./rows";
 import type { AnalyticsParams } from "./window";
@@ -26,6 +27,7 @@ export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): P
     poolProfiles(scope),
     observedSpans(scope, params.window),
   ]);
+  stopIfAbandoned();
   const history = analyseMetalHistory(readings, { thresholds: params.thresholds, metals });
   return { metals, thresholds: params.thresholds, readings, book, spans, history };
 }
