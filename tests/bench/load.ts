@@ -16,7 +16,7 @@ import { startBuiltServer, stopBuiltServer } from "../fixtures/server";
 
 const port = Number(process.env.PATINA_LOAD_PORT ?? Number(process.env.PATINA_BROWSER_TEST_PORT ?? 3100) + 60);
 const baseUrl = `http://localhost:${port}`;
-const seconds = Number(process.env.PATINA_LOAD_SECONDS ?? 20);
+const seconds = Number(process.env.PATINA_LOAD_SECONDS ?? 60);
 const paths = (process.env.PATINA_LOAD_PATHS ?? "/api/analytics/summary").split(",");
 
 /** The process's peak resident set so far, in MB (Linux). */
