@@ -52,6 +52,18 @@ export default defineConfig({
       {
         resolve: { alias },
         test: {
+          name: "fault",
+          include: ["tests/fault/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/fault/global-setup.ts"],
+          fileParallelism: false,
+          testTimeout: 120_000,
+          hookTimeout: 180_000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
           name: "browser",
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",

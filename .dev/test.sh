@@ -18,4 +18,5 @@ timed "typecheck" npm run --silent typecheck
 timed "unit tests" npx vitest run --project unit
 timed "integration tests (MariaDB)" npx vitest run --project integration
 timed "production build" npx react-router build
+timed "fault tests (database outage, overload)" npx vitest run --project fault
 timed "browser tests (chromium)" npx vitest run --project browser

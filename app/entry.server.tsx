@@ -3,8 +3,9 @@ import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
 import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
-import type { EntryContext, RouterContextProvider } from "react-router";
+import type { EntryContext, HandleErrorFunction, RouterContextProvider } from "react-router";
 import { ServerRouter } from "react-router";
+import { noteRequestError } from "./.server/service-unavailable";
 import { releaseDeadClaims } from "./.server/imports/claims";
 
 // On start, commits left by a process of this host that is gone (or by any
@@ -20,6 +21,17 @@ if (!started.__patinaClaimsReleased) {
 }
 
 export const streamTimeout = 5_000;
+
+/**
+ * Every error a loader, action or render threw. The request remembers a lost
+ * database or a stopped statement, so the answer becomes a 503 (see
+ * `faultMiddleware`); work stopped because its client went away is not logged.
+ */
+export const handleError: HandleErrorFunction = (error, { request }) => {
+  noteRequestError(error);
+  if (request.signal.aborted) return;
+  console.error(error);
+};
 
 export default function handleRequest(
   request: Request,

@@ -8,7 +8,10 @@ import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState } from "react";
 import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { faultMiddleware } from "./.server/service-unavailable";
 import { ErrorPanel } from "./components/error-panel";
+
+export const middleware: Route.MiddlewareFunction[] = faultMiddleware;
 
 export const meta: Route.MetaFunction = () => [{ title: "Patina" }];
 

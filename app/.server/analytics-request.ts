@@ -4,9 +4,12 @@ import type { BalanceBand } from "@analysis/chemistry/saturation";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { Area } from "~/lib/roles";
 import { parseQuery, thresholdProblem, withOverrides, type ThresholdOverrides } from "~/lib/analytics/params";
+import { analyticsGate, GateRefused } from "./analytics-gate";
 import { apiError, requireApiMember, requireMember, type Scope } from "./guard";
 import { companyPreferences } from "./company-settings";
 import { narrowToRoute, resolveWindow, type TimeWindow } from "./queries/analytics/tenant-and-window";
+import { requestContext } from "./request-context";
+import { unavailableApiResponse, unavailablePageError } from "./service-unavailable";
 
 export type AnalyticsRequest<T> = {
   /** The member's scope, narrowed to the requested route when one was given. */
@@ -44,6 +47,7 @@ export async function readAnalyticsRequest<S extends z.ZodType>(
   const thresholds = withOverrides(settings.thresholds, query as ThresholdOverrides);
   const problem = thresholdProblem(thresholds);
   if (problem) refuse(mode, problem.field, problem.message);
+  await holdAnalyticsSlot(mode);
   return {
     scope: narrowToRoute(member, query.route),
     query,
@@ -52,4 +56,24 @@ export async function readAnalyticsRequest<S extends z.ZodType>(
     companyThresholds: settings.thresholds,
     balanceBand: settings.balanceBand,
   };
+}
+
+/**
+ * Heavy analytics wait for one of the instance's few slots (a short queue,
+ * then 503 with Retry-After); once in, the request's reads carry the statement
+ * limit and stop with their client. The slot is given back when the response
+ * is produced. Outside a server request (scripts, direct loader calls) there
+ * is no gate.
+ */
+async function holdAnalyticsSlot(mode: Mode) {
+  const context = requestContext();
+  if (!context || context.heavy) return;
+  try {
+    const release = await analyticsGate().enter(context.signal);
+    context.finishers.push(release);
+    context.heavy = true;
+  } catch (error) {
+    if (!(error instanceof GateRefused)) throw error;
+    throw mode === "api" ? unavailableApiResponse("busy") : unavailablePageError("busy");
+  }
 }

@@ -10,6 +10,13 @@ const envSchema = z.object({
   // Outgoing mail: one SMTP URL (smtp:// or smtps://, credentials in the URL). Locally the sink on 2525.
   PATINA_SMTP_URL: z.string().url().default("smtp://127.0.0.1:2525"),
   PATINA_MAIL_FROM: z.string().min(3).default("Patina <mail@patina.example>"),
+  // Overload limits (README, "Operations"): each analytics statement's time limit, heavy analytics
+  // requests run at once per instance, how many may wait, how long one may wait, and the Retry-After of a 503.
+  PATINA_ANALYTICS_STATEMENT_MS: z.coerce.number().int().min(100).max(600_000).default(20_000),
+  PATINA_ANALYTICS_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(4),
+  PATINA_ANALYTICS_QUEUE: z.coerce.number().int().min(0).max(1_000).default(48),
+  PATINA_ANALYTICS_QUEUE_WAIT_MS: z.coerce.number().int().min(0).max(600_000).default(30_000),
+  PATINA_RETRY_AFTER_SECONDS: z.coerce.number().int().min(1).max(3_600).default(5),
 });
 
 export type ServerEnv = z.infer<typeof envSchema>;

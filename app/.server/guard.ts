@@ -113,7 +113,10 @@ export type ApiErrorCode =
   | "not_found"
   | "invalid_parameter"
   | "payload_too_large"
-  | "unprocessable";
+  | "unprocessable"
+  | "unavailable"
+  | "busy"
+  | "timeout";
 
 export function apiError(status: number, code: ApiErrorCode, message: string, field?: string): Response {
   return Response.json({ error: { code, message, ...(field ? { field } : {}) } }, { status });

@@ -40,6 +40,8 @@ export async function action({ request }: Route.ActionArgs) {
       headers: request.headers,
       asResponse: true,
     });
+    // A failure on our side (the database is gone) is not a wrong password: let it become a 503 page.
+    if (response.status >= 500) throw new Error(`sign-in failed on the server (${response.status})`);
     if (!response.ok) {
       return data(
         { fieldErrors: {}, formError: "That e-mail and password do not match an account." },
@@ -50,7 +52,7 @@ export async function action({ request }: Route.ActionArgs) {
     for (const cookie of response.headers.getSetCookie()) headers.append("Set-Cookie", cookie);
     return redirect(safeNext(parsed.data.next), { headers });
   } catch (error) {
-    if (error instanceof APIError) {
+    if (error instanceof APIError && error.statusCode < 500) {
       return data({ fieldErrors: {}, formError: "That e-mail and password do not match an account." }, { status: 401 });
     }
     throw error;

@@ -3,7 +3,7 @@
 // DATABASE_URL picks the database (default: the local development database).
 // --causes also prints where the metal causes were planted, to check analytics against.
 import { parseArgs } from "node:util";
-import { createDatabase, createPool } from "../../app/.server/db/client";
+import { analyzeTables, createDatabase, createPool } from "../../app/.server/db/client";
 import { localDatabaseUrl } from "../../app/.server/db/local-url";
 import { seedDemo, type SeedSummary } from "./insert";
 import { buildRouteBook } from "./routebook";
@@ -65,6 +65,8 @@ try {
         console.log(`[seed] ${done} of ${total} pools written`);
       },
     });
+    // Fresh statistics, so the first analytics queries get the right join order.
+    await analyzeTables(pool);
     const seconds = ((Date.now() - started) / 1000).toFixed(1);
     console.log(`[seed] seeded ${options.pools} pools over ${options.years} years (seed ${options.seed}) in ${seconds} s`);
     printCounts(summary);

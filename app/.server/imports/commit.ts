@@ -3,7 +3,7 @@ import { and, eq } from "drizzle-orm";
 import { ANALYTES, type AnalyteField, METAL_FIELDS } from "~/lib/imports/fields";
 import { readImportOptions } from "~/lib/imports/options";
 import { accountKey } from "~/lib/imports/match-keys";
-import { db, pool as connectionPool } from "../db/client";
+import { analyzeTables, db, pool as connectionPool } from "../db/client";
 import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
 import type { Scope } from "../guard";
 import { type ImportPlan, planImport, type PlanSummary } from "./plan";
@@ -11,6 +11,9 @@ import { PlannedRows } from "./planned-rows";
 import { type Claim, claimForCommit, endClaim, finishClaimSql } from "./claims";
 import { findUpload, reportProgress } from "./uploads";
 import { afterWaterTestsSaved } from "../mail/alerts";
+
+/** After an import this large, table statistics are refreshed (ANALYZE TABLE) so query plans fit the new sizes. */
+const LARGE_IMPORT_ROWS = 10_000;
 
 /** Rows per multi-row INSERT: large enough to be quick, small enough for one packet. */
 export const INSERT_CHUNK = 1000;
@@ -191,6 +194,7 @@ async function commitClaimed(
     await connection.commit();
     // Alerts look only at recent events, so years of history mail nobody.
     void afterWaterTestsSaved(scope.companyId, [...new Set(Array.from(tests, poolIdOf))]);
+    if (plan.testsToAdd + plan.treatmentsToAdd >= LARGE_IMPORT_ROWS) void analyzeTables().catch((e: unknown) => console.error("[import] ANALYZE TABLE failed", e));
     return { ok: true, batchId, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
   } catch (error) {
     broken = true;

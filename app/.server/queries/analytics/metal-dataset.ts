@@ -4,6 +4,7 @@ import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/readi
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../guard";
+import { stopIfAbandoned } from "../../request-context";
 import { metalReadings } from "../metal-readings";
 import { poolProfiles, type RouteBookProfiles } from "./pool-profiles";
 import { testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
@@ -52,6 +53,7 @@ export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): P
     poolProfiles({ scope }),
     observedSpans(scope, params.window),
   ]);
+  stopIfAbandoned();
   const history = analyseMetalHistory(readings, { thresholds: params.thresholds, metals });
   return { metals, thresholds: params.thresholds, readings, book, spans, history };
 }
