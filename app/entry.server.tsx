@@ -5,6 +5,11 @@ import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import type { EntryContext, RouterContextProvider } from "react-router";
 import { ServerRouter } from "react-router";
+import { startServerWorkers } from "~/.server/workers";
+
+// Long-running work of this server process (the mail sender) starts with the
+// server, not with the first request that happens to need auth.
+startServerWorkers();
 
 export const streamTimeout = 5_000;
 

@@ -20,8 +20,8 @@ const PARAMS = ["from", "to", "route", "metal", "arm"] as const;
 const STRATA = { all: "All treatments", inside: "pH 7.2–7.6 at treatment", outside: "pH outside 7.2–7.6 at treatment" } as const;
 type Stratum = keyof typeof STRATA;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "outcomes", outcomesQuery, "page");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "outcomes", outcomesQuery, "page");
   const outcomes = await treatmentOutcomes(scope, { window, thresholds, metal: query.metal, arm: query.arm });
   const search = new URL(request.url).searchParams;
   return { params: Object.fromEntries(PARAMS.map((p) => [p, search.get(p) ?? undefined])), timeZone: scope.timeZone, outcomes };

@@ -1,6 +1,6 @@
 import { Form, useNavigation } from "react-router";
 import { METALS } from "@analysis/metals/reading";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companySettingsRow } from "~/.server/queries/company";
 import { companyPreferences } from "~/.server/queries/routebook-company";
 import { updateCompanySettings } from "~/.server/services/company-settings";
@@ -14,8 +14,8 @@ import type { Route } from "./+types/settings";
 
 export const meta: Route.MetaFunction = () => [{ title: "Settings · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "settings");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "settings");
   const [company, prefs] = await Promise.all([companySettingsRow(scope), companyPreferences(scope)]);
   return {
     name: company.name,
@@ -25,8 +25,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "settings");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "settings");
   const parsed = parseSettingsForm(formObject(await request.formData()));
   if (!parsed.ok) {
     return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: "Some settings need a look; nothing was saved." });

@@ -29,7 +29,7 @@ const { checkUpload } = await import("~/.server/imports/check");
 const { commitUpload, undoBatch } = await import("~/.server/imports/commit");
 const { readImportOptions } = await import("~/lib/imports/options");
 const { findUpload } = await import("~/.server/imports/uploads");
-type Scope = import("~/.server/guard").Scope;
+type Scope = import("~/.server/scope").Scope;
 
 let peakRss = process.memoryUsage().rss;
 const sample = () => {

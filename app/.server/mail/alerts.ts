@@ -9,9 +9,8 @@ import { alertEvents, ALERT_KINDS, companies, fillSources, mailPreferences, memb
 import { serverEnv } from "../env";
 import { waterTestReadings } from "../queries/metal-readings";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
-import { enqueueMail } from "./outbox";
+import { enqueueMail, signalMailQueued } from "./outbox";
 import type { RenderedMail } from "./templates";
-import { nudgeMailWorker } from "./worker";
 
 /**
  * Only events this recent are announced, so bringing in years of old logs
@@ -114,7 +113,7 @@ async function recordEvents(company: Company, events: AlertEvent[]): Promise<Rec
     });
     if (mailed) recorded.push({ kind: event.kind, dedupeKey: event.dedupeKey, recipients: mailed });
   }
-  if (recorded.length > 0) nudgeMailWorker();
+  if (recorded.length > 0) signalMailQueued();
   return recorded;
 }
 

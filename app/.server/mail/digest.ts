@@ -15,9 +15,8 @@ import { SANITISER, SOURCE_KIND } from "../queries/analytics/rows";
 import { treatmentRows, waterTestReadings } from "../queries/metal-readings";
 import { poolsWithPlaces } from "../queries/routebook-pools";
 import { digestMail, type WeeklyDigest } from "./digest-message";
-import { enqueueMail } from "./outbox";
+import { enqueueMail, signalMailQueued } from "./outbox";
 import { preferencesFor } from "./preferences";
-import { nudgeMailWorker } from "./worker";
 
 const WEEK_MS = 7 * DAY_MS;
 
@@ -231,6 +230,6 @@ export async function sendWeeklyDigests(now: Date = new Date(), options: { onlyD
       if (queued) run.queued++;
     }
   }
-  if (run.queued > 0) nudgeMailWorker();
+  if (run.queued > 0) signalMailQueued();
   return run;
 }

@@ -1,7 +1,7 @@
 import { eq } from "drizzle-orm";
 import { db } from "../db/client";
 import { companies } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 
 export async function companySettingsRow(scope: Scope) {
   const [row] = await db().select().from(companies).where(eq(companies.id, scope.companyId));

@@ -4,8 +4,8 @@ import type { OutcomeTest, ProductCategory, TreatmentRecord } from "@analysis/ou
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { db, pool } from "../db/client";
 import { PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
+import type { Scope } from "../scope";
+import { poolsInScope } from "../scope";
 
 /**
  * Whose rows are read: a member's Scope (company and, for technicians, their

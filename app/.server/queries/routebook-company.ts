@@ -5,7 +5,7 @@ import type { UnitSystem } from "~/lib/units";
 import { metalThresholdsFrom } from "../company-settings";
 import { db } from "../db/client";
 import { companies } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 
 export type CompanyPreferences = {
   units: UnitSystem;

@@ -1,6 +1,6 @@
 import { analyseMetalHistory, type MetalHistory, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { metalReadings } from "../metal-readings";
 import { observedSpans, poolProfiles, type ObservedSpan, type RouteBookProfiles } from "./rows";
 import type { AnalyticsParams } from "./window";

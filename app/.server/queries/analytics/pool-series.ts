@@ -6,8 +6,8 @@ import { episodeJson, type EpisodeJson } from "~/lib/analytics/json";
 import type { SeriesAnalyte } from "~/lib/analytics/params";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
+import type { Scope } from "../../scope";
+import { poolsInScope } from "../../scope";
 import { metalReadings, treatmentRows } from "../metal-readings";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
 

@@ -5,7 +5,7 @@ import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { metalThresholdsFrom } from "../../company-settings";
 import { db } from "../../db/client";
 import { companies } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 
 /** Instants bounding the tests an analytics question reads; null = open-ended. */
 export type AnalyticsWindow = { from: Date | null; to: Date | null };
