@@ -1,10 +1,8 @@
 import { PassThrough } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
-import type { RenderToPipeableStreamOptions } from "react-dom/server";
-import { renderToPipeableStream } from "react-dom/server";
-import type { EntryContext, RouterContextProvider } from "react-router";
-import { ServerRouter } from "react-router";
+import { type RenderToPipeableStreamOptions, renderToPipeableStream } from "react-dom/server";
+import { type EntryContext, type RouterContextProvider, ServerRouter } from "react-router";
 import { startServerWorkers } from "~/.server/workers";
 
 // Long-running work of this server process (the mail sender) starts with the

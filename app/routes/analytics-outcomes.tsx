@@ -1,6 +1,5 @@
 import { useState } from "react";
-import { Link, useSearchParams } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
+import { Link, useSearchParams, type ShouldRevalidateFunctionArgs } from "react-router";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { treatmentOutcomes } from "~/.server/queries/analytics/treatment-outcomes";
 import { FilterBar, onlyOnNewPath, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
@@ -35,7 +34,7 @@ const percent = (n: number | null) => (n === null ? "—" : `${n.toFixed(0)} %`)
 
 export default function Outcomes({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
-  const [search, setSearch] = useSearchParams();
+  const [search] = useSearchParams();
   const query = useTreatmentOutcomes(params, { params: loaderData.params, data: loaderData.outcomes });
   const outcomes = query.data ?? loaderData.outcomes;
   const [stratum, setStratum] = useState<Stratum>("all");

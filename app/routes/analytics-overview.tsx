@@ -1,5 +1,4 @@
-import { Link } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
+import { Link, type ShouldRevalidateFunctionArgs } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { loadMetalDataset } from "~/.server/queries/analytics/dataset";

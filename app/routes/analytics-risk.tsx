@@ -1,5 +1,4 @@
-import { useSearchParams } from "react-router";
-import type { ShouldRevalidateFunctionArgs } from "react-router";
+import { useSearchParams, type ShouldRevalidateFunctionArgs } from "react-router";
 import { GROUPING_KEYS, type GroupingKey } from "@analysis/stats/groups";
 import { readAnalyticsRequest } from "~/.server/analytics-request";
 import { groupFigures } from "~/.server/queries/analytics/groups";

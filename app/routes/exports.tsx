@@ -13,7 +13,7 @@ const DESCRIPTIONS: Record<keyof typeof DATASETS, string> = {
   "fill-sources": "Fill-water sources and their kind.",
 };
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "exports");
   return {
     datasets: (Object.keys(DATASETS) as Array<keyof typeof DATASETS>).map((key) => ({

@@ -20,7 +20,7 @@ const GREETING: Record<string, string> = {
   analyst: "The record at a glance",
 };
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "home");
   const now = new Date();
   const thresholds = await companyMetalThresholds(scope.companyId);

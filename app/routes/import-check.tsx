@@ -1,4 +1,4 @@
-import { useEffect, useState } from "react";
+import { useState } from "react";
 import { data, Link, redirect, type RouterContextProvider, useFetcher } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { checkUpload, saveMapping, savedMappings } from "~/.server/imports/check";
@@ -136,10 +136,13 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
   const fetcher = useFetcher<typeof action>();
   const [columns, setColumns] = useState<ColumnMapping[]>(options?.columns ?? []);
   const [dirty, setDirty] = useState(false);
-  useEffect(() => {
+  // New options from the server (after a check): the form starts again from them.
+  const [shownOptions, setShownOptions] = useState(options);
+  if (shownOptions !== options) {
+    setShownOptions(options);
     setColumns(options?.columns ?? []);
     setDirty(false);
-  }, [options]);
+  }
   const busy = fetcher.state !== "idle";
   const progress = useUploadProgress(upload.id, busy);
   const working = busy && progress.data && (progress.data.phase === "checking" || progress.data.phase === "committing") ? progress.data : null;

@@ -8,7 +8,7 @@ import type { Route } from "./+types/imports-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "Upload a log · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   requireArea(context, "imports");
   return { maxMegabytes: Math.round(importConfig().maxBytes / 1024 / 1024) };
 }

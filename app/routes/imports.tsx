@@ -10,7 +10,7 @@ import type { Route } from "./+types/imports";
 
 export const meta: Route.MetaFunction = () => [{ title: "Imports · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "imports");
   const [batches, uploads] = await Promise.all([importHistory(scope), uploadsInProgress(scope)]);
   return { batches, uploads, timeZone: scope.timeZone };

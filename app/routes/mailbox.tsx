@@ -8,7 +8,7 @@ import type { Route } from "./+types/mailbox";
 
 export const meta: Route.MetaFunction = () => [{ title: "Mailbox · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "mailbox");
   return { messages: await outboxMessages(scope), timeZone: scope.timeZone };
 }

@@ -18,7 +18,7 @@ import type { Route } from "./+types/pool-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Edit ${loaderData?.pool.street ?? "pool"} · Patina` }];
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebookEdit");
   const found = await poolForEdit(scope, idParam(params, "poolId", "pool"));
   if (!found) notFoundPage("No pool with that number in your company.");

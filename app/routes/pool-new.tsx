@@ -14,7 +14,7 @@ import type { Route } from "./+types/pool-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New pool · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebookEdit");
   const [routes, sources, prefs] = await Promise.all([routeOptions(scope), sourceOptions(scope), companyPreferences(scope)]);
   return { routes, sources, units: prefs.units };

@@ -1,6 +1,5 @@
 import { Link } from "react-router";
-import type { Metal } from "@analysis/metals/reading";
-import { METALS } from "@analysis/metals/reading";
+import { type Metal, METALS } from "@analysis/metals/reading";
 import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/queries/routebook-company";
 import { poolMetalPanel } from "~/.server/queries/analytics/pool-evidence";

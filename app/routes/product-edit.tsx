@@ -13,7 +13,7 @@ import type { Route } from "./+types/product-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.product.name ?? "Product"} · Patina` }];
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebookEdit");
   const product = await productForEdit(scope, idParam(params, "productId", "product"));
   if (!product) notFoundPage("No product with that number in your company.");

@@ -11,7 +11,7 @@ import type { Route } from "./+types/product-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New product · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   requireArea(context, "routebookEdit");
   return null;
 }

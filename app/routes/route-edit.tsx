@@ -13,7 +13,7 @@ import type { Route } from "./+types/route-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.route.name ?? "Route"} · Patina` }];
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebookEdit");
   const routeId = idParam(params, "routeId", "route");
   const [route, technicians] = await Promise.all([routeForEdit(scope, routeId), companyTechnicians(scope)]);

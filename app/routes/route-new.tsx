@@ -12,7 +12,7 @@ import type { Route } from "./+types/route-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New route · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebookEdit");
   return { technicians: await companyTechnicians(scope) };
 }

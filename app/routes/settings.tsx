@@ -14,7 +14,7 @@ import type { Route } from "./+types/settings";
 
 export const meta: Route.MetaFunction = () => [{ title: "Settings · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "settings");
   const [company, prefs] = await Promise.all([companySettingsRow(scope), companyPreferences(scope)]);
   return {

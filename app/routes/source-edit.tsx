@@ -13,7 +13,7 @@ import type { Route } from "./+types/source-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.source.name ?? "Fill source"} · Patina` }];
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebookEdit");
   const source = await sourceForEdit(scope, idParam(params, "sourceId", "fill source"));
   if (!source) notFoundPage("No fill source with that number in your company.");

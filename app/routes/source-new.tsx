@@ -11,7 +11,7 @@ import type { Route } from "./+types/source-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New fill source · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   requireArea(context, "routebookEdit");
   return null;
 }

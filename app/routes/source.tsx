@@ -17,7 +17,7 @@ import type { Route } from "./+types/source";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.detail.source.name ?? "Fill source"} · Patina` }];
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebook");
   const [detail, prefs] = await Promise.all([sourceDetail(scope, idParam(params, "sourceId", "fill source")), companyPreferences(scope)]);
   if (!detail) notFoundPage("No fill source with that number in your company.");

@@ -9,7 +9,7 @@ import type { Route } from "./+types/team";
 
 export const meta: Route.MetaFunction = () => [{ title: "Team · Patina" }];
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "team");
   return { members: await companyMembers(scope), invitations: await pendingInvitations(scope), timeZone: scope.timeZone };
 }

@@ -15,7 +15,7 @@ import type { Route } from "./+types/visit-pool";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Visit ${loaderData?.pool.street ?? "pool"} · Patina` }];
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "visit");
   const poolId = idParam(params, "poolId", "pool");
   const [found, products, prefs] = await Promise.all([visitPool(scope, poolId), activeProducts(scope), companyPreferences(scope)]);

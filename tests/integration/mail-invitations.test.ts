@@ -2,8 +2,6 @@ import { createHash } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2601";
-
 import { db } from "~/.server/db/client";
 import { invitations, mailOutbox, memberships, user } from "~/.server/db/schema";
 import type { Scope } from "~/.server/scope";
@@ -17,7 +15,10 @@ import * as teamPage from "~/routes/team";
 import { createCompany, createMember, type FixtureMember, requestAs } from "../fixtures/company";
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
-import { callRoute, scopeFor } from "../fixtures/route-call";
+import { callRoute, callRouteRaw, scopeFor } from "../fixtures/route-call";
+
+// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
+process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2601";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
 let companyA: number;
@@ -58,7 +59,7 @@ async function acceptForCookie(token: string, values: { name: string; password: 
     method: "POST",
     body: formData({ ...values, confirm: values.password }),
   });
-  const answer = await invitePage.action({ request, params: { token }, context: {} } as never);
+  const answer = await callRouteRaw(invitePage.action, request, { token });
   if (!(answer instanceof Response)) throw new Error(`expected a redirect, got ${JSON.stringify(answer)}`);
   return answer;
 }

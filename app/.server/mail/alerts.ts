@@ -5,7 +5,7 @@ import type { PoolProfile } from "@analysis/metals/route-book";
 import { DEFAULT_SHARED_SOURCE_RULES, sharedSourceAlerts } from "@analysis/metals/shared-source";
 import { metalThresholdsFrom } from "../company-settings";
 import { db } from "../db/client";
-import { alertEvents, ALERT_KINDS, companies, fillSources, mailPreferences, memberships, pools, routes, user } from "../db/schema";
+import { alertEvents, type ALERT_KINDS, companies, fillSources, mailPreferences, memberships, pools, routes, user } from "../db/schema";
 import { serverEnv } from "../env";
 import { waterTestReadings } from "../queries/metal-readings";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";

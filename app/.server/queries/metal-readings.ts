@@ -3,9 +3,8 @@ import type { HardnessEndpoint, MetalTest } from "@analysis/metals/episodes";
 import type { OutcomeTest, ProductCategory, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { db, pool } from "../db/client";
-import { PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
-import type { Scope } from "../scope";
-import { poolsInScope } from "../scope";
+import { type PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
+import { type Scope, poolsInScope } from "../scope";
 
 /**
  * Whose rows are read: a member's Scope (company and, for technicians, their

@@ -14,7 +14,7 @@ const datasetParams = z.object({
 });
 
 /** One data set of the member's company as CSV, streamed. */
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "exports");
   const parsed = datasetParams.safeParse(params);
   if (!parsed.success) {

@@ -6,7 +6,7 @@ import { uploadIdParams } from "~/lib/imports/params";
 import type { Route } from "./+types/import-refused";
 
 /** The refused rows of an upload under its saved choices, as a CSV to fix and upload again. */
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "imports");
   const parsed = uploadIdParams.safeParse(params);
   if (!parsed.success) throw apiError(404, "not_found", "No upload with that id in your company.", "uploadId");

@@ -4,7 +4,7 @@ import { uploadIdParams } from "~/lib/imports/params";
 import type { Route } from "./+types/import-upload";
 
 /** Where an upload stands: phase and rows done, polled while a file is checked or committed. */
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "imports");
   const parsed = uploadIdParams.safeParse(params);
   if (!parsed.success) throw apiError(404, "not_found", "No upload with that id in your company.", "uploadId");

@@ -3,7 +3,7 @@ import { poolDetail } from "~/.server/queries/pools";
 import { poolIdParams } from "~/lib/params";
 import type { Route } from "./+types/pool";
 
-export async function loader({ request, params, context }: Route.LoaderArgs) {
+export async function loader({ params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "pools");
   const parsed = poolIdParams.safeParse(params);
   if (!parsed.success) {

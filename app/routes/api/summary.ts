@@ -3,7 +3,7 @@ import { requireArea } from "~/.server/guard";
 import { homeSummary } from "~/.server/queries/home-summary";
 import type { Route } from "./+types/summary";
 
-export async function loader({ request, context }: Route.LoaderArgs) {
+export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "home");
   const summary = await homeSummary(scope, await companyMetalThresholds(scope.companyId));
   return Response.json(summary);

@@ -1,8 +1,7 @@
 import { sql } from "drizzle-orm";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
-import type { Scope } from "../../scope";
-import { poolsInScope } from "../../scope";
+import { type Scope, poolsInScope } from "../../scope";
 import type { AnalyticsWindow } from "./window";
 import { percentileOfCounts } from "~/lib/analytics/percentile";
 

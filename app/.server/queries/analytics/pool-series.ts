@@ -1,4 +1,4 @@
-import { and, asc, eq, gte, isNotNull, lte, or, type SQL } from "drizzle-orm";
+import { and, asc, eq, gte, isNotNull, lte, type SQL } from "drizzle-orm";
 import { saturationIndex } from "@analysis/chemistry/saturation";
 import { analyseMetalHistory } from "@analysis/metals/episodes";
 import { METALS, type Metal } from "@analysis/metals/reading";
@@ -6,8 +6,7 @@ import { episodeJson, type EpisodeJson } from "~/lib/analytics/json";
 import type { SeriesAnalyte } from "~/lib/analytics/params";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../scope";
-import { poolsInScope } from "../../scope";
+import { type Scope, poolsInScope } from "../../scope";
 import { metalReadings, treatmentRows } from "../metal-readings";
 import type { AnalyticsParams, AnalyticsWindow } from "./window";
 

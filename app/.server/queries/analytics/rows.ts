@@ -9,10 +9,9 @@ import type {
   SanitiserSystem,
 } from "@analysis/metals/route-book";
 import { db } from "../../db/client";
-import { EQUIPMENT_KINDS, equipment, fillSources, pools, routes, SANITISERS, SOURCE_KINDS, sourceTests, waterTests } from "../../db/schema";
-import type { Scope } from "../../scope";
+import { type EQUIPMENT_KINDS, equipment, fillSources, pools, routes, type SANITISERS, type SOURCE_KINDS, sourceTests, waterTests } from "../../db/schema";
+import { type Scope, poolsInScope } from "../../scope";
 import { metalReading, withinWindow } from "../metal-readings";
-import { poolsInScope } from "../../scope";
 import type { AnalyticsWindow } from "./window";
 
 // The stored enum values and the analysis core's names differ in spelling only.

@@ -5,8 +5,7 @@ import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/sha
 import { isoInstant } from "~/lib/analytics/json";
 import { db } from "../../db/client";
 import { fillSources, pools } from "../../db/schema";
-import type { Scope } from "../../scope";
-import { poolsInScope } from "../../scope";
+import { type Scope, poolsInScope } from "../../scope";
 import { metalReadings } from "../metal-readings";
 import { poolProfiles } from "./rows";
 import type { AnalyticsParams } from "./window";
