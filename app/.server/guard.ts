@@ -61,10 +61,9 @@ function isRefusal(value: Scope | Refusal): value is Refusal {
   return "status" in value;
 }
 
-function refusalResponse(refusal: Refusal, answer: Answer, request: Request): Response | ReturnType<typeof data> {
+function refusalResponse(refusal: Refusal, answer: Answer, url: URL): Response | ReturnType<typeof data> {
   if (answer === "api") return apiError(refusal.status, refusal.code, refusal.message);
   if (refusal.status === 401) {
-    const url = new URL(request.url);
     const next = url.pathname + url.search;
     return redirect(next === "/" ? "/sign-in" : `/sign-in?next=${encodeURIComponent(next)}`);
   }
@@ -83,12 +82,13 @@ export const memberMiddleware: MiddlewareFunction<Response> = (args, next) => pr
 export const apiMemberMiddleware: MiddlewareFunction<Response> = (args, next) => provideMember(args, "api", next);
 
 async function provideMember(
-  { request, context }: { request: Request; context: Readonly<RouterContextProvider> },
+  { request, url, context }: { request: Request; url: URL; context: Readonly<RouterContextProvider> },
   answer: Answer,
   next: () => Promise<Response>,
 ): Promise<Response> {
   const scope = await resolveScope(request);
-  if (isRefusal(scope)) throw refusalResponse(scope, answer, request);
+  // `url`, not request.url: a data request's URL carries `.data`, the page to come back to does not.
+  if (isRefusal(scope)) throw refusalResponse(scope, answer, url);
   context.set(memberContext, { scope, answer });
   return next();
 }
