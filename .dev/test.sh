@@ -15,6 +15,8 @@ timed() {
 }
 
 timed "typecheck" npm run --silent typecheck
+timed "lint (eslint)" npm run --silent lint
+timed "import cycles (madge)" npm run --silent cycles
 timed "unit tests" npx vitest run --project unit
 timed "integration tests (MariaDB)" npx vitest run --project integration
 timed "production build" npx react-router build

@@ -1,24 +1,14 @@
 import { PassThrough } from "node:stream";
 import { createReadableStreamFromReadable } from "@react-router/node";
 import { isbot } from "isbot";
-import type { RenderToPipeableStreamOptions } from "react-dom/server";
-import { renderToPipeableStream } from "react-dom/server";
-import type { EntryContext, HandleErrorFunction, RouterContextProvider } from "react-router";
-import { ServerRouter } from "react-router";
-import { noteRequestError } from "./.server/service-unavailable";
-import { releaseDeadClaims } from "./.server/imports/claims";
+import { type RenderToPipeableStreamOptions, renderToPipeableStream } from "react-dom/server";
+import { type EntryContext, type HandleErrorFunction, type RouterContextProvider, ServerRouter } from "react-router";
+import { noteRequestError } from "~/.server/service-unavailable";
+import { startServerWorkers } from "~/.server/workers";
 
-// On start, commits left by a process of this host that is gone (or by any
-// process, past the claim timeout) are marked stopped, so they can be committed again.
-const started = globalThis as typeof globalThis & { __patinaClaimsReleased?: boolean };
-if (!started.__patinaClaimsReleased) {
-  started.__patinaClaimsReleased = true;
-  releaseDeadClaims()
-    .then((released) => {
-      if (released > 0) console.log(`[patina] ${released} interrupted import(s) marked stopped; nothing of them was stored`);
-    })
-    .catch((error: unknown) => console.error("[patina] could not release interrupted imports:", error));
-}
+// Long-running work of this server process (the mail sender, releasing
+// interrupted imports) starts with the server, not with the first request.
+startServerWorkers();
 
 export const streamTimeout = 5_000;
 

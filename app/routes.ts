@@ -47,8 +47,8 @@ export default [
     route("mailbox/:messageId", "routes/mailbox-message.tsx"),
   ]),
 
-  ...prefix("api", [
-    route("auth/*", "routes/api/auth.ts"),
+  route("api/auth/*", "routes/api/auth.ts"),
+  layout("routes/api/members.ts", prefix("api", [
     route("summary", "routes/api/summary.ts"),
     route("pools/:poolId", "routes/api/pool.ts"),
     // api: route book and visits
@@ -68,5 +68,5 @@ export default [
     route("imports/:uploadId/refused.csv", "routes/api/import-refused.ts"),
     route("exports/:dataset", "routes/api/export.ts"),
     // api: mail
-  ]),
+  ])),
 ] satisfies RouteConfig;

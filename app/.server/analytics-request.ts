@@ -1,14 +1,15 @@
-import { data } from "react-router";
+import { data, type RouterContextProvider } from "react-router";
 import type { z } from "zod";
 import type { BalanceBand } from "@analysis/chemistry/saturation";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { Area } from "~/lib/roles";
 import { parseQuery, thresholdProblem, withOverrides, type ThresholdOverrides } from "~/lib/analytics/params";
 import { analyticsGate, GateRefused } from "./analytics-gate";
-import { apiError, requireApiMember, requireMember, type Scope } from "./guard";
 import { companyPreferences } from "./company-settings";
+import { apiError, requireArea } from "./guard";
 import { narrowToRoute, resolveWindow, type TimeWindow } from "./queries/analytics/tenant-and-window";
 import { requestContext } from "./request-context";
+import type { Scope } from "./scope";
 import { unavailableApiResponse, unavailablePageError } from "./service-unavailable";
 
 export type AnalyticsRequest<T> = {
@@ -30,16 +31,18 @@ function refuse(mode: Mode, field: string, message: string): never {
 }
 
 /**
- * The edge of every analytics loader: session, role and company first, then
- * the query parameters (zod), then the company's levels with any overrides.
+ * The edge of every analytics loader: the member's role (the scope itself was
+ * resolved by the request's middleware), then the query parameters (zod), then
+ * the company's levels with any overrides.
  */
 export async function readAnalyticsRequest<S extends z.ZodType>(
   request: Request,
+  context: Readonly<RouterContextProvider>,
   area: Area,
   schema: S,
   mode: Mode,
 ): Promise<AnalyticsRequest<z.output<S>>> {
-  const member = mode === "api" ? await requireApiMember(request, area) : await requireMember(request, area);
+  const member = requireArea(context, area);
   const parsed = parseQuery(new URL(request.url).searchParams, schema);
   if (!parsed.ok) refuse(mode, parsed.field, parsed.message);
   const query = parsed.data as z.output<S> & { from?: string; to?: string; route?: number };

@@ -4,7 +4,6 @@ import { db } from "./db/client";
 import { account, session, user, verification } from "./db/schema";
 import { serverEnv } from "./env";
 import { enqueuePasswordResetMail, RESET_LINK_MINUTES } from "./mail/password-reset";
-import { ensureMailWorker } from "./mail/worker";
 import { processSingleton } from "./process-singleton";
 
 function trustedOrigins(baseUrl: string): string[] {
@@ -16,8 +15,6 @@ function trustedOrigins(baseUrl: string): string[] {
 
 function createAuth() {
   const env = serverEnv();
-  // The first request of a server process starts its outbox sender.
-  ensureMailWorker();
   return betterAuth({
     appName: "Patina",
     baseURL: env.PATINA_URL,

@@ -4,7 +4,7 @@ import { DEFAULT_METAL_THRESHOLDS, METALS, type MetalThresholds } from "@analysi
 import type { UnitSystem } from "~/lib/units";
 import { db } from "./db/client";
 import { type CompanySettings, companies } from "./db/schema";
-import type { Scope } from "./guard";
+import type { Scope } from "./scope";
 
 /** A company's own settings with the defaults filled in: what pages, analytics and mail read. */
 export type CompanyPreferences = {

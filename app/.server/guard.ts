@@ -1,27 +1,20 @@
 import { and, asc, eq } from "drizzle-orm";
-import { data, redirect } from "react-router";
+import { createContext, data, type MiddlewareFunction, redirect, type RouterContextProvider } from "react-router";
 import { type Area, AREA_ROLES, type RoleName } from "~/lib/roles";
 import { auth } from "./auth";
 import { db } from "./db/client";
 import { companies, memberships, routes, routeTechnicians } from "./db/schema";
-
-/**
- * What a signed-in member may see. Every query takes a Scope, so nothing can be
- * read without a company and, for technicians, without their routes.
- */
-export type Scope = {
-  userId: string;
-  userName: string;
-  email: string;
-  companyId: number;
-  companyName: string;
-  timeZone: string;
-  role: RoleName;
-  /** null: every route of the company; otherwise the routes this member works. */
-  routeIds: number[] | null;
-};
+import type { Scope } from "./scope";
 
 type Refusal = { status: 401 | 403; code: "unauthenticated" | "forbidden"; message: string };
+
+/** How refusals are answered: pages redirect or show an error page, JSON routes answer in the API's error shape. */
+type Answer = "page" | "api";
+
+/** What the member middleware leaves for the request's loaders and actions. */
+type MemberContext = { scope: Scope; answer: Answer };
+
+const memberContext = createContext<MemberContext>();
 
 async function resolveScope(request: Request): Promise<Scope | Refusal> {
   const signedIn = await auth().api.getSession({ headers: request.headers });
@@ -68,37 +61,49 @@ function isRefusal(value: Scope | Refusal): value is Refusal {
   return "status" in value;
 }
 
-function roleRefusal(scope: Scope, allowed: readonly RoleName[]): Refusal | null {
-  if (allowed.includes(scope.role)) return null;
-  return {
-    status: 403,
-    code: "forbidden",
-    message: `This part of Patina is for ${allowed.join(", ")}; you are signed in as ${scope.role}.`,
-  };
-}
-
-/** For pages and form actions: redirects to sign-in, or throws a 403 page. */
-export async function requireMember(request: Request, area: Area): Promise<Scope> {
-  const scope = await resolveScope(request);
-  if (isRefusal(scope)) {
-    if (scope.status === 401) {
-      const url = new URL(request.url);
-      const next = url.pathname + url.search;
-      throw redirect(next === "/" ? "/sign-in" : `/sign-in?next=${encodeURIComponent(next)}`);
-    }
-    throw data(scope.message, { status: scope.status });
+function refusalResponse(refusal: Refusal, answer: Answer, url: URL): Response | ReturnType<typeof data> {
+  if (answer === "api") return apiError(refusal.status, refusal.code, refusal.message);
+  if (refusal.status === 401) {
+    const next = url.pathname + url.search;
+    return redirect(next === "/" ? "/sign-in" : `/sign-in?next=${encodeURIComponent(next)}`);
   }
-  const refusal = roleRefusal(scope, AREA_ROLES[area]);
-  if (refusal) throw data(refusal.message, { status: refusal.status });
-  return scope;
+  return data(refusal.message, { status: refusal.status });
 }
 
-/** For JSON routes: the same checks, answered with the API's error shape. */
-export async function requireApiMember(request: Request, area: Area): Promise<Scope> {
+/**
+ * Resolves the session, company, role and technician routes once per request
+ * and puts them in the router context for every loader and action below.
+ * Pages without a signed-in member redirect to sign-in (keeping where they
+ * were going); a member without a company gets a 403 page.
+ */
+export const memberMiddleware: MiddlewareFunction<Response> = (args, next) => provideMember(args, "page", next);
+
+/** The same for JSON routes, answering 401 and 403 in the API's error shape. */
+export const apiMemberMiddleware: MiddlewareFunction<Response> = (args, next) => provideMember(args, "api", next);
+
+async function provideMember(
+  { request, url, context }: { request: Request; url: URL; context: Readonly<RouterContextProvider> },
+  answer: Answer,
+  next: () => Promise<Response>,
+): Promise<Response> {
   const scope = await resolveScope(request);
-  const refusal = isRefusal(scope) ? scope : roleRefusal(scope, AREA_ROLES[area]);
-  if (refusal) throw apiError(refusal.status, refusal.code, refusal.message);
-  return scope as Scope;
+  // `url`, not request.url: a data request's URL carries `.data`, the page to come back to does not.
+  if (isRefusal(scope)) throw refusalResponse(scope, answer, url);
+  context.set(memberContext, { scope, answer });
+  return next();
+}
+
+/**
+ * The member's scope, if their role opens the area; otherwise the 403 the
+ * request's middleware chose (a page, or the API's error shape).
+ */
+export function requireArea(context: Readonly<RouterContextProvider>, area: Area): Scope {
+  const { scope, answer } = context.get(memberContext);
+  const allowed: readonly RoleName[] = AREA_ROLES[area];
+  if (allowed.includes(scope.role)) return scope;
+  const message = `This part of Patina is for ${allowed.join(", ")}; you are signed in as ${scope.role}.`;
+  if (answer === "api") throw apiError(403, "forbidden", message);
+  throw data(message, { status: 403 });
 }
 
 /** Signed-in user, if any, without demanding a company (sign-in page). */

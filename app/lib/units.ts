@@ -1,7 +1,7 @@
 import { celsiusToFahrenheit, gallonsToLitres, litresToGallons } from "@analysis/units/convert";
+import type { UnitSystem } from "./stored-values";
 
 export type { UnitSystem } from "./stored-values";
-import type { UnitSystem } from "./stored-values";
 
 export const VOLUME_UNIT: Record<UnitSystem, string> = { us: "gal", metric: "L" };
 export const TEMPERATURE_UNIT: Record<UnitSystem, "°F" | "°C"> = { us: "°F", metric: "°C" };

@@ -19,8 +19,8 @@ const PARAMS = ["from", "to", "route", "metal", "arm"] as const;
 const STRATA = { all: "All treatments", inside: "pH 7.2–7.6 at treatment", outside: "pH outside 7.2–7.6 at treatment" } as const;
 type Stratum = keyof typeof STRATA;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "outcomes", outcomesQuery, "page");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "outcomes", outcomesQuery, "page");
   const outcomes = await treatmentOutcomes(scope, { window, thresholds, metal: query.metal, arm: query.arm });
   return { search: loaderSearch(request, PARAMS), timeZone: scope.timeZone, outcomes };
 }
@@ -31,7 +31,7 @@ const percent = (n: number | null) => (n === null ? "—" : `${n.toFixed(0)} %`)
 
 export default function Outcomes({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
-  const [search, setSearch] = useSearchParams();
+  const [search] = useSearchParams();
   const query = useSeededQuery(analyticsQueries.outcomes(params), { search: loaderData.search, data: loaderData.outcomes });
   const outcomes = query.data;
   const [stratum, setStratum] = useState<Stratum>("all");

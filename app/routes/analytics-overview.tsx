@@ -21,8 +21,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Overview · Patina" }];
 const PARAMS = ["from", "to", "route"] as const;
 const RISKY_SHOWN = 8;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, window, thresholds, balanceBand } = await readAnalyticsRequest(request, "overview", summaryQuery, "page");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, window, thresholds, balanceBand } = await readAnalyticsRequest(request, context, "overview", summaryQuery, "page");
   const params = { window, thresholds, metal: null, balanceBand };
   const dataset = await loadMetalDataset(scope, params);
   const [summary, trend, alerts] = await Promise.all([

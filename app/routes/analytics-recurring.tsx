@@ -22,8 +22,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Recurring metal · Pati
 const PARAMS = ["from", "to", "route", "metal"] as const;
 const PAGE = 12;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, companyThresholds } = await readAnalyticsRequest(request, "recurring", recurringQuery, "page");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, companyThresholds } = await readAnalyticsRequest(request, context, "recurring", recurringQuery, "page");
   // The first paint draws only the first pools listed at the company's levels, so only their readings
   // come with it (and the counts of the whole list); the hook fetches the readings of every pool that
   // could recur once the levels or filters move or more pools are asked for.

@@ -15,8 +15,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Risk groups · Patina" 
 
 const PARAMS = ["from", "to", "route", "metal", "grouping"] as const;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "risk", groupsQuery, "page");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "risk", groupsQuery, "page");
   const figures = await groupFigures(scope, { window, thresholds, metal: query.metal ?? null, grouping: query.grouping as GroupingKey });
   return { search: loaderSearch(request, PARAMS), figures };
 }

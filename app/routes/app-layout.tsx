@@ -1,5 +1,5 @@
 import { Form, Link, NavLink, Outlet, useLocation } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { memberMiddleware, requireArea } from "~/.server/guard";
 import { ErrorPanel } from "~/components/error-panel";
 import { PatinaMark } from "~/components/patina-mark";
 import { currentNavTarget } from "~/lib/nav";
@@ -52,8 +52,11 @@ const NAV_GROUPS: Array<{ label: string; items: NavItem[] }> = [
   },
 ];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "home");
+/** Every page below resolves the member's scope once, here; loaders read it from the context. */
+export const middleware: Route.MiddlewareFunction[] = [memberMiddleware];
+
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "home");
   return {
     userName: scope.userName,
     role: scope.role,

@@ -1,4 +1,4 @@
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { DATASETS } from "~/.server/exports/datasets";
 import { ErrorPanel } from "~/components/error-panel";
 import type { Route } from "./+types/exports";
@@ -13,8 +13,8 @@ const DESCRIPTIONS: Record<keyof typeof DATASETS, string> = {
   "fill-sources": "Fill-water sources and their kind.",
 };
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "exports");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "exports");
   return {
     datasets: (Object.keys(DATASETS) as Array<keyof typeof DATASETS>).map((key) => ({
       key,

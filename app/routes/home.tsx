@@ -1,7 +1,7 @@
 import { Link } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { companyPreferences } from "~/.server/company-settings";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/queries/home-summary";
 import { metalMarks } from "~/.server/queries/visit-metal-marks";
 import { ErrorPanel } from "~/components/error-panel";
@@ -20,8 +20,8 @@ const GREETING: Record<string, string> = {
   analyst: "The record at a glance",
 };
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "home");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "home");
   const now = new Date();
   const thresholds = (await companyPreferences(scope)).thresholds;
   const weekday = isoWeekdayIn(now, scope.timeZone);

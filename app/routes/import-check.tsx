@@ -1,6 +1,6 @@
-import { useEffect, useState } from "react";
-import { data, Link, redirect, useFetcher } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { useState } from "react";
+import { data, Link, redirect, type RouterContextProvider, useFetcher } from "react-router";
+import { requireArea } from "~/.server/guard";
 import { checkUpload, saveMapping, savedMappings } from "~/.server/imports/check";
 import { commitUpload } from "~/.server/imports/commit";
 import type { PlanSummary } from "~/.server/imports/plan";
@@ -20,8 +20,8 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderD
 
 const notFound = () => data("No upload with that id in your company.", { status: 404 });
 
-async function loadUpload(request: Request, params: unknown) {
-  const scope = await requireMember(request, "imports");
+async function loadUpload(context: Readonly<RouterContextProvider>, params: unknown) {
+  const scope = requireArea(context, "imports");
   const parsed = uploadIdParams.safeParse(params);
   if (!parsed.success) throw notFound();
   const upload = await findUpload(scope, parsed.data.uploadId);
@@ -29,8 +29,8 @@ async function loadUpload(request: Request, params: unknown) {
   return { scope, upload };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { scope, upload } = await loadUpload(request, params);
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const { scope, upload } = await loadUpload(context, params);
   const [sample, mappings] = await Promise.all([uploadSample(upload), savedMappings(scope)]);
   return {
     upload: {
@@ -50,8 +50,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const { scope, upload } = await loadUpload(request, params);
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const { scope, upload } = await loadUpload(context, params);
   const formData = await request.formData();
   const { headers } = await uploadSample(upload, 0);
   const form = readCheckForm(formData, headers.length);
@@ -136,10 +136,13 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
   const fetcher = useFetcher<typeof action>();
   const [columns, setColumns] = useState<ColumnMapping[]>(options?.columns ?? []);
   const [dirty, setDirty] = useState(false);
-  useEffect(() => {
+  // New options from the server (after a check): the form starts again from them.
+  const [shownOptions, setShownOptions] = useState(options);
+  if (shownOptions !== options) {
+    setShownOptions(options);
     setColumns(options?.columns ?? []);
     setDirty(false);
-  }, [options]);
+  }
   const busy = fetcher.state !== "idle";
   const progress = useUploadProgress(upload.id, busy);
   const working = busy && progress.data && (progress.data.phase === "checking" || progress.data.phase === "committing") ? progress.data : null;

@@ -1,6 +1,6 @@
 import { useRef, useState } from "react";
 import { Link, useNavigate } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { importConfig } from "~/.server/imports/config";
 import { ErrorPanel } from "~/components/error-panel";
 import { ProgressBar } from "~/components/imports/progress-bar";
@@ -8,8 +8,8 @@ import type { Route } from "./+types/imports-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "Upload a log · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireMember(request, "imports");
+export async function loader({ context }: Route.LoaderArgs) {
+  requireArea(context, "imports");
   return { maxMegabytes: Math.round(importConfig().maxBytes / 1024 / 1024) };
 }
 

@@ -1,6 +1,6 @@
 import { z } from "zod";
 import { data, Form, Link, useNavigation } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { importHistory } from "~/.server/imports/check";
 import { undoBatch } from "~/.server/imports/commit";
 import { uploadsInProgress } from "~/.server/imports/uploads";
@@ -10,8 +10,8 @@ import type { Route } from "./+types/imports";
 
 export const meta: Route.MetaFunction = () => [{ title: "Imports · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "imports");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "imports");
   const [batches, uploads] = await Promise.all([importHistory(scope), uploadsInProgress(scope)]);
   return { batches, uploads, timeZone: scope.timeZone };
 }
@@ -21,8 +21,8 @@ const undoForm = z.object({
   batchId: z.coerce.number({ error: "batchId must be a number" }).int().positive({ error: "batchId must be positive" }),
 });
 
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "imports");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "imports");
   const parsed = undoForm.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) {
     const issue = parsed.error.issues[0];

@@ -1,9 +1,8 @@
-import { data, Form, Link } from "react-router";
+import { data, Form, Link, type RouterContextProvider } from "react-router";
 import { z } from "zod";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { outboxMessage } from "~/.server/mail/mailbox";
-import { retryMessage } from "~/.server/mail/outbox";
-import { nudgeMailWorker } from "~/.server/mail/worker";
+import { retryMessage, signalMailQueued } from "~/.server/mail/outbox";
 import { ErrorPanel } from "~/components/error-panel";
 import { MailStatusBadge } from "~/components/mail/mail-status";
 import { formatDateTime } from "~/lib/format";
@@ -15,8 +14,8 @@ const messageParams = z.object({
   messageId: z.coerce.number({ error: "messageId must be a number" }).int().positive({ error: "messageId must be positive" }),
 });
 
-async function findMessage(request: Request, params: unknown) {
-  const scope = await requireMember(request, "mailbox");
+async function findMessage(context: Readonly<RouterContextProvider>, params: unknown) {
+  const scope = requireArea(context, "mailbox");
   const parsed = messageParams.safeParse(params);
   if (!parsed.success) throw data(parsed.error.issues[0]!.message, { status: 400 });
   const message = await outboxMessage(scope, parsed.data.messageId);
@@ -24,17 +23,17 @@ async function findMessage(request: Request, params: unknown) {
   return { scope, message };
 }
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { scope, message } = await findMessage(request, params);
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const { scope, message } = await findMessage(context, params);
   return { message, timeZone: scope.timeZone };
 }
 
 /** Puts a message that was given up on back into the queue. */
-export async function action({ request, params }: Route.ActionArgs) {
-  const { scope, message } = await findMessage(request, params);
+export async function action({ params, context }: Route.ActionArgs) {
+  const { scope, message } = await findMessage(context, params);
   const queued = await retryMessage(scope.companyId, message.id);
   if (!queued) throw data("Only a message that could not be delivered can be sent again.", { status: 409 });
-  nudgeMailWorker();
+  signalMailQueued();
   return { queued };
 }
 

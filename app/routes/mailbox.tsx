@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { outboxMessages } from "~/.server/mail/mailbox";
 import { ErrorPanel } from "~/components/error-panel";
 import { MailStatusBadge } from "~/components/mail/mail-status";
@@ -8,8 +8,8 @@ import type { Route } from "./+types/mailbox";
 
 export const meta: Route.MetaFunction = () => [{ title: "Mailbox · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "mailbox");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "mailbox");
   return { messages: await outboxMessages(scope), timeZone: scope.timeZone };
 }
 

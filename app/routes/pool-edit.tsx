@@ -1,5 +1,5 @@
 import { data, redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/company-settings";
 import { poolForEdit } from "~/.server/queries/routebook-pools";
 import { routeOptions } from "~/.server/queries/routebook-routes";
@@ -18,8 +18,8 @@ import type { Route } from "./+types/pool-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Edit ${loaderData?.pool.street ?? "pool"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const found = await poolForEdit(scope, idParam(params, "poolId", "pool"));
   if (!found) notFoundPage("No pool with that number in your company.");
   const [routes, sources, prefs] = await Promise.all([routeOptions(scope), sourceOptions(scope), companyPreferences(scope)]);
@@ -29,8 +29,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
 const INTENTS = ["save-pool", "add-equipment", "replace-equipment", "remove-equipment"] as const;
 type Intent = (typeof INTENTS)[number];
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const poolId = idParam(params, "poolId", "pool");
   const raw = formObject(await request.formData());
   const intent = (INTENTS as readonly string[]).includes(String(raw.intent)) ? (raw.intent as Intent) : null;

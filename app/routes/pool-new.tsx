@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/company-settings";
 import { routeOptions } from "~/.server/queries/routebook-routes";
 import { sourceOptions } from "~/.server/queries/routebook-sources";
@@ -14,14 +14,14 @@ import type { Route } from "./+types/pool-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New pool · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const [routes, sources, prefs] = await Promise.all([routeOptions(scope), sourceOptions(scope), companyPreferences(scope)]);
   return { routes, sources, units: prefs.units };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const { units } = await companyPreferences(scope);
   const parsed = parsePoolForm(formObject(await request.formData()), units);
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });

@@ -1,7 +1,6 @@
 import { Link } from "react-router";
-import type { Metal } from "@analysis/metals/reading";
-import { METALS } from "@analysis/metals/reading";
-import { requireMember } from "~/.server/guard";
+import { type Metal, METALS } from "@analysis/metals/reading";
+import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/company-settings";
 import { poolMetalPanel } from "~/.server/queries/analytics/pool-evidence";
 import { poolPage } from "~/.server/queries/routebook-pool-page";
@@ -35,8 +34,8 @@ import type { Route } from "./+types/pool";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.detail.pool.street ?? "Pool"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "pools");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "pools");
   const poolId = idParam(params, "poolId", "pool");
   const [detail, prefs, metalEvidence] = await Promise.all([
     poolPage(scope, poolId),

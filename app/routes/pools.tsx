@@ -1,4 +1,4 @@
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/company-settings";
 import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/queries/routebook-pools";
 import { routeOptions } from "~/.server/queries/routebook-routes";
@@ -18,8 +18,8 @@ import type { Route } from "./+types/pools";
 
 export const meta: Route.MetaFunction = () => [{ title: "Pools · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "pools");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "pools");
   const url = new URL(request.url);
   const params = listParams(url, POOL_SORTS, "street");
   const filters = {

@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { productForEdit } from "~/.server/queries/routebook-products";
 import { refusedAnswer } from "~/.server/services/result";
 import { saveProduct } from "~/.server/services/routebook-products";
@@ -13,15 +13,15 @@ import type { Route } from "./+types/product-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.product.name ?? "Product"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const product = await productForEdit(scope, idParam(params, "productId", "product"));
   if (!product) notFoundPage("No product with that number in your company.");
   return { product };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const productId = idParam(params, "productId", "product");
   const parsed = parseProductForm(formObject(await request.formData()));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });

@@ -1,4 +1,4 @@
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { listProducts, PRODUCT_SORTS } from "~/.server/queries/routebook-products";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
@@ -13,8 +13,8 @@ import type { Route } from "./+types/products";
 
 export const meta: Route.MetaFunction = () => [{ title: "Products · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebook");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebook");
   const url = new URL(request.url);
   const params = listParams(url, PRODUCT_SORTS, "name");
   const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";

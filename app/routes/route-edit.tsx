@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyTechnicians, routeForEdit } from "~/.server/queries/routebook-routes";
 import { refusedAnswer } from "~/.server/services/result";
 import { saveRoute } from "~/.server/services/routebook-routes";
@@ -13,16 +13,16 @@ import type { Route } from "./+types/route-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.route.name ?? "Route"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const routeId = idParam(params, "routeId", "route");
   const [route, technicians] = await Promise.all([routeForEdit(scope, routeId), companyTechnicians(scope)]);
   if (!route) notFoundPage("No route with that number in your company.");
   return { route, technicians };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const routeId = idParam(params, "routeId", "route");
   const parsed = parseRouteForm(formObject(await request.formData(), ["serviceWeekdays", "technicianIds"]));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });

@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { listRoutes, ROUTE_SORTS } from "~/.server/queries/routebook-routes";
 import { ButtonLink, type Column, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
@@ -12,8 +12,8 @@ import type { Route } from "./+types/route-list";
 
 export const meta: Route.MetaFunction = () => [{ title: "Routes · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebook");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebook");
   const url = new URL(request.url);
   const params = listParams(url, ROUTE_SORTS, "name");
   const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";

@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyTechnicians } from "~/.server/queries/routebook-routes";
 import { refusedAnswer } from "~/.server/services/result";
 import { saveRoute } from "~/.server/services/routebook-routes";
@@ -12,13 +12,13 @@ import type { Route } from "./+types/route-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New route · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebookEdit");
   return { technicians: await companyTechnicians(scope) };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const parsed = parseRouteForm(formObject(await request.formData(), ["serviceWeekdays", "technicianIds"]));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
   // A new route starts in use; the form offers archiving only once it exists.

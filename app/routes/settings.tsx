@@ -1,6 +1,6 @@
 import { Form, useNavigation } from "react-router";
 import { METALS } from "@analysis/metals/reading";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/company-settings";
 import { updateCompanySettings } from "~/.server/services/company-settings";
 import { refusedAnswer } from "~/.server/services/result";
@@ -13,8 +13,8 @@ import type { Route } from "./+types/settings";
 
 export const meta: Route.MetaFunction = () => [{ title: "Settings · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "settings");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "settings");
   const prefs = await companyPreferences(scope);
   return {
     name: prefs.name,
@@ -24,8 +24,8 @@ export async function loader({ request }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "settings");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "settings");
   const parsed = parseSettingsForm(formObject(await request.formData()));
   if (!parsed.ok) {
     return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: "Some settings need a look; nothing was saved." });

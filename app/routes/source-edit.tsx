@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { sourceForEdit } from "~/.server/queries/routebook-sources";
 import { refusedAnswer } from "~/.server/services/result";
 import { saveSource } from "~/.server/services/routebook-sources";
@@ -13,15 +13,15 @@ import type { Route } from "./+types/source-edit";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.source.name ?? "Fill source"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const source = await sourceForEdit(scope, idParam(params, "sourceId", "fill source"));
   if (!source) notFoundPage("No fill source with that number in your company.");
   return { source };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const sourceId = idParam(params, "sourceId", "fill source");
   const parsed = parseSourceForm(formObject(await request.formData()));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });

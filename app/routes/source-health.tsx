@@ -16,8 +16,8 @@ export const meta: Route.MetaFunction = () => [{ title: "Source health · Patina
 
 const PARAMS = ["from", "to", "route", "metal"] as const;
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "sources", sourceHealthQuery, "page");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "sources", sourceHealthQuery, "page");
   const report = await sourceHealth(scope, { window, thresholds, metal: query.metal ?? null });
   return {
     search: loaderSearch(request, PARAMS),

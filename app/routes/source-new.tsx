@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { refusedAnswer } from "~/.server/services/result";
 import { saveSource } from "~/.server/services/routebook-sources";
 import { PageHeader } from "~/components/data-table";
@@ -11,13 +11,13 @@ import type { Route } from "./+types/source-new";
 
 export const meta: Route.MetaFunction = () => [{ title: "New fill source · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  await requireMember(request, "routebookEdit");
+export async function loader({ context }: Route.LoaderArgs) {
+  requireArea(context, "routebookEdit");
   return null;
 }
 
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const parsed = parseSourceForm(formObject(await request.formData()));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
   // A new source starts in use; the form offers archiving only once it exists.

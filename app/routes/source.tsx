@@ -1,5 +1,5 @@
 import { Link } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/company-settings";
 import { sourceDetail } from "~/.server/queries/routebook-sources";
 import { refusedAnswer } from "~/.server/services/result";
@@ -17,16 +17,16 @@ import type { Route } from "./+types/source";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.detail.source.name ?? "Fill source"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebook");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebook");
   const [detail, prefs] = await Promise.all([sourceDetail(scope, idParam(params, "sourceId", "fill source")), companyPreferences(scope)]);
   if (!detail) notFoundPage("No fill source with that number in your company.");
   return { detail, today: todayIn(prefs.timeZone), mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
 
 /** Records a test of the fill water. */
-export async function action({ request, params }: Route.ActionArgs) {
-  const scope = await requireMember(request, "routebookEdit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
   const sourceId = idParam(params, "sourceId", "fill source");
   const parsed = parseSourceTestForm(formObject(await request.formData()));
   if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });

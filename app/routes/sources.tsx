@@ -1,4 +1,4 @@
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { listSources, SOURCE_SORTS } from "~/.server/queries/routebook-sources";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
@@ -13,8 +13,8 @@ import type { Route } from "./+types/sources";
 
 export const meta: Route.MetaFunction = () => [{ title: "Fill sources · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "routebook");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "routebook");
   const url = new URL(request.url);
   const params = listParams(url, SOURCE_SORTS, "name");
   const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";

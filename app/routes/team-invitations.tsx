@@ -1,6 +1,6 @@
 import { data } from "react-router";
 import { z } from "zod";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { inviteMember, withdrawInvitation } from "~/.server/mail/invitations";
 import { fieldErrorsOf } from "~/lib/account-forms";
 import { ROLE_NAMES } from "~/lib/roles";
@@ -19,8 +19,8 @@ const inviteSchema = z.discriminatedUnion("intent", [
 ]);
 
 /** Sending and withdrawing invitations from the team page (owners only). */
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireMember(request, "team");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "team");
   const parsed = inviteSchema.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) return data({ ok: false as const, fieldErrors: fieldErrorsOf(parsed.error.issues) }, { status: 400 });
   if (parsed.data.intent === "withdraw") {

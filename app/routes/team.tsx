@@ -1,4 +1,4 @@
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { pendingInvitations } from "~/.server/mail/invitations";
 import { companyMembers } from "~/.server/queries/team";
 import { ErrorPanel } from "~/components/error-panel";
@@ -9,8 +9,8 @@ import type { Route } from "./+types/team";
 
 export const meta: Route.MetaFunction = () => [{ title: "Team · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "team");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "team");
   return { members: await companyMembers(scope), invitations: await pendingInvitations(scope), timeZone: scope.timeZone };
 }
 

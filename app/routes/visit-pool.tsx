@@ -1,5 +1,5 @@
 import { data, redirect, type ShouldRevalidateFunctionArgs } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { activeProducts } from "~/.server/queries/routebook-products";
 import { companyPreferences } from "~/.server/company-settings";
 import { visitPool } from "~/.server/queries/visit";
@@ -15,8 +15,8 @@ import type { Route } from "./+types/visit-pool";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `Visit ${loaderData?.pool.street ?? "pool"} · Patina` }];
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "visit");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "visit");
   const poolId = idParam(params, "poolId", "pool");
   const [found, products, prefs] = await Promise.all([visitPool(scope, poolId), activeProducts(scope), companyPreferences(scope)]);
   if (!found) notFoundPage("No pool with that number is on your routes.");
@@ -32,8 +32,8 @@ export async function loader({ request, params }: Route.LoaderArgs) {
   };
 }
 
-export async function action({ request, params }: Route.ActionArgs) {
-  const scope = await requireMember(request, "visit");
+export async function action({ request, params, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "visit");
   const poolId = idParam(params, "poolId", "pool");
   const raw = formObject(await request.formData(), TREATMENT_FIELDS);
   const parsed = parseVisitForm(raw);

@@ -1,5 +1,5 @@
 import { Form, Link } from "react-router";
-import { requireMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { stopsForWeekday } from "~/.server/queries/home-summary";
 import { companyPreferences } from "~/.server/company-settings";
 import { searchPools } from "~/.server/queries/routebook-pools";
@@ -12,8 +12,8 @@ import type { Route } from "./+types/visit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Log a visit · Patina" }];
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireMember(request, "visit");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "visit");
   const q = (new URL(request.url).searchParams.get("q") ?? "").trim().slice(0, 100);
   // The route's weekday is the company's weekday, not the server's.
   const weekday = isoWeekdayIn(new Date(), scope.timeZone);

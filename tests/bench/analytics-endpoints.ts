@@ -10,7 +10,9 @@
  * endpoint reads, run through the same connection pool and fully fetched.
  */
 import { performance } from "node:perf_hooks";
+import { RouterContextProvider } from "react-router";
 import { closeDatabase, pool } from "../../app/.server/db/client";
+import { apiMemberMiddleware } from "../../app/.server/guard";
 import * as alerts from "../../app/routes/api/analytics/alerts";
 import * as evidence from "../../app/routes/api/analytics/pool-evidence";
 import * as groups from "../../app/routes/api/analytics/groups";
@@ -43,7 +45,7 @@ const METAL_ROWS = `SELECT t.id, t.pool_id, t.sampled_at, t.copper, t.copper_bel
 const SPANS = `SELECT t.pool_id, MIN(t.sampled_at), MAX(t.sampled_at), COUNT(*) FROM water_tests t JOIN pools p ON p.id = t.pool_id
   WHERE p.company_id = ? AND t.company_id = ? GROUP BY t.pool_id`;
 
-type Case = { name: string; path: string; params?: Record<string, string>; loader: (args: any) => unknown; bare: Array<[string, unknown[]]> };
+type Case = { name: string; path: string; params?: Record<string, string>; loader: (args: never) => unknown; bare: Array<[string, unknown[]]> };
 const c = company.id;
 const cases: Case[] = [
   { name: "summary", path: "/api/analytics/summary", loader: summary.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
@@ -95,7 +97,10 @@ console.log(`route book: ${size.pools} pools, ${size.tests} water tests; median 
 console.log(`${"endpoint".padEnd(32)} ${"endpoint ms".padStart(12)} ${"bare SQL ms".padStart(12)} ${"answer kB".padStart(10)}`);
 for (const test of cases) {
   const call = async () => {
-    const response = (await test.loader({ request: new Request(`http://localhost:3000${test.path}`, { headers: { Cookie: cookie } }), params: test.params ?? {}, context: {} })) as Response;
+    const request = new Request(`http://localhost:3000${test.path}`, { headers: { Cookie: cookie } });
+    const args = { request, params: test.params ?? {}, context: new RouterContextProvider(), url: new URL(request.url), pattern: test.path };
+    // The member API's own middleware builds the context, as on the server.
+    const response = (await apiMemberMiddleware(args, async () => (await (test.loader as (a: typeof args) => unknown)(args)) as Response)) as Response;
     if (!response.ok) throw new Error(`${test.name}: ${response.status} ${await response.text()}`);
     return response.text();
   };

@@ -13,6 +13,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { once } from "node:events";
 import { performance } from "node:perf_hooks";
+import type { Connection } from "mysql2";
+import type { Scope } from "~/.server/scope";
 
 const ROWS = Number(process.argv[2] ?? 200_000);
 const POOLS = 1_000;
@@ -29,7 +31,6 @@ const { checkUpload } = await import("~/.server/imports/check");
 const { commitUpload, undoBatch } = await import("~/.server/imports/commit");
 const { readImportOptions } = await import("~/lib/imports/options");
 const { findUpload } = await import("~/.server/imports/uploads");
-type Scope = import("~/.server/guard").Scope;
 
 let peakRss = process.memoryUsage().rss;
 const sample = () => {
@@ -122,7 +123,7 @@ const columns = "company_id, pool_id, sampled_at, free_chlorine, ph, total_alkal
 const dumpPath = join(process.env.PATINA_UPLOAD_DIR!, "canonical.tsv");
 const out = createWriteStream(dumpPath);
 // The promise wrapper keeps its callback connection here; only the callback API streams rows.
-const callbackConnection = (connection as unknown as { connection: import("mysql2").Connection }).connection;
+const callbackConnection = (connection as unknown as { connection: Connection }).connection;
 const stream = callbackConnection.query(`SELECT ${columns} FROM water_tests WHERE import_batch_id = ${committed.batchId}`).stream();
 for await (const row of stream as AsyncIterable<Record<string, unknown>>) {
   const line = Object.values(row).map((v) => (v === null ? "\\N" : String(v).replaceAll("\t", " ").replaceAll("\r", "\\r").replaceAll("\n", "\\n"))).join("\t");

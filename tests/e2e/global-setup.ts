@@ -1,5 +1,4 @@
-import { execFileSync } from "node:child_process";
-import type { ChildProcess } from "node:child_process";
+import { execFileSync, type ChildProcess } from "node:child_process";
 import { resetTestDatabase, TEST_DATABASE_URL } from "../fixtures/database";
 import { startBuiltServer } from "../fixtures/server";
 

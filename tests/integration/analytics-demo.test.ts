@@ -9,7 +9,7 @@ import { PRODUCTS, type ProductKey } from "../../drizzle/seed/products";
 import { buildRouteBook } from "../../drizzle/seed/routebook";
 import { plantedCauses, resolveOptions } from "../../drizzle/seed/scenario";
 import { signIn, requestAs, type FixtureMember } from "../fixtures/company";
-import { callRoute } from "../fixtures/route-call";
+import { callRoute, type RouteFunction } from "../fixtures/route-call";
 
 // The demo scenario plants its causes (an iron-bearing shared well, ageing
 // copper and cupronickel heat exchangers, a stronger sequestrant-plus-pad
@@ -28,8 +28,10 @@ beforeAll(async () => {
 
 afterAll(closeDatabase);
 
+// The answers are read deep and checked field by field; typing every JSON shape here would only repeat the routes.
+// eslint-disable-next-line @typescript-eslint/no-explicit-any
 type Body = Record<string, any>;
-const get = async (fn: (args: any) => unknown, path: string) => (await callRoute(fn, requestAs(owner, path))).body as Body;
+const get = async (fn: RouteFunction, path: string) => (await callRoute(fn, requestAs(owner, path))).body as Body;
 
 const name = (key: ProductKey) => PRODUCTS.find((p) => p.key === key)!.name;
 

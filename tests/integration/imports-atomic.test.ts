@@ -3,7 +3,7 @@ import { count, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { importBatches, importUploads, waterTests } from "~/.server/db/schema";
-import type { Scope } from "~/.server/guard";
+import type { Scope } from "~/.server/scope";
 import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
 import { storeUpload } from "~/.server/imports/uploads";
 import { TEST_DATABASE_URL } from "../fixtures/database";

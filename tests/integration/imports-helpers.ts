@@ -1,5 +1,4 @@
-import { readFileSync } from "node:fs";
-import { mkdtempSync } from "node:fs";
+import { readFileSync, mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { callRoute } from "../fixtures/route-call";

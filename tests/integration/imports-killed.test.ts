@@ -5,7 +5,7 @@ import { count, eq } from "drizzle-orm";
 import { afterEach, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { importBatches, importUploads, waterTests } from "~/.server/db/schema";
-import type { Scope } from "~/.server/guard";
+import type { Scope } from "~/.server/scope";
 import { releaseDeadClaims, STOPPED_MESSAGE } from "~/.server/imports/claims";
 import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
 import { storeUpload } from "~/.server/imports/uploads";

@@ -1,14 +1,11 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2603";
-
 import { db } from "~/.server/db/client";
-import { alertEvents, companies, mailOutbox, memberships, pools } from "~/.server/db/schema";
+import { alertEvents, companies, mailOutbox, memberships, pools, mailPreferences } from "~/.server/db/schema";
 import { afterWaterTestsSaved, recordAlertsForPool } from "~/.server/mail/alerts";
 import { deliverDueMail } from "~/.server/mail/outbox";
 import { preferencesFor } from "~/.server/mail/preferences";
-import { mailPreferences } from "~/.server/db/schema";
 import {
   addTest,
   createCompany,
@@ -19,6 +16,9 @@ import {
   type FixtureMember,
 } from "../fixtures/company";
 import { mailTo, startTestSink } from "../fixtures/mail-sink";
+
+// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
+process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2603";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
 let companyId: number;

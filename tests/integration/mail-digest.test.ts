@@ -1,7 +1,5 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2604";
-
 import { db } from "~/.server/db/client";
 import { products, treatments } from "~/.server/db/schema";
 import { digestWeek, sendWeeklyDigests } from "~/.server/mail/digest";
@@ -18,6 +16,9 @@ import {
 } from "../fixtures/company";
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
 import { callRoute } from "../fixtures/route-call";
+
+// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
+process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2604";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
 let companyId: number;

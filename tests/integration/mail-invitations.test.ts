@@ -2,11 +2,9 @@ import { createHash } from "node:crypto";
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2601";
-
 import { db } from "~/.server/db/client";
 import { invitations, mailOutbox, memberships, user } from "~/.server/db/schema";
-import { requireMember, type Scope } from "~/.server/guard";
+import type { Scope } from "~/.server/scope";
 import { inviteMember } from "~/.server/mail/invitations";
 import { deliverDueMail } from "~/.server/mail/outbox";
 import * as invitePage from "~/routes/invite";
@@ -17,7 +15,10 @@ import * as teamPage from "~/routes/team";
 import { createCompany, createMember, type FixtureMember, requestAs } from "../fixtures/company";
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
-import { callRoute } from "../fixtures/route-call";
+import { callRoute, callRouteRaw, scopeFor } from "../fixtures/route-call";
+
+// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
+process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2601";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
 let companyA: number;
@@ -58,7 +59,7 @@ async function acceptForCookie(token: string, values: { name: string; password: 
     method: "POST",
     body: formData({ ...values, confirm: values.password }),
   });
-  const answer = await invitePage.action({ request, params: { token }, context: {} } as never);
+  const answer = await callRouteRaw(invitePage.action, request, { token });
   if (!(answer instanceof Response)) throw new Error(`expected a redirect, got ${JSON.stringify(answer)}`);
   return answer;
 }
@@ -99,7 +100,7 @@ describe("invitations by e-mail", () => {
       .join("; ");
     expect(cookie).not.toBe("");
 
-    const scope: Scope = await requireMember(
+    const scope: Scope = await scopeFor(
       new Request("http://localhost:3000/", { headers: { Cookie: cookie } }),
       "overview",
     );
@@ -126,7 +127,7 @@ describe("invitations by e-mail", () => {
 
   it("an expired link is refused and creates nothing", async () => {
     const email = `late-${Date.now()}@fixture.example`;
-    const scopeA = await requireMember(requestAs(ownerA, "/team"), "team");
+    const scopeA = await scopeFor(requestAs(ownerA, "/team"), "team");
     // Sent 8 days ago: the link lived 7 days, so it ended a day ago.
     const result = await inviteMember(scopeA, { email, role: "analyst" }, new Date(Date.now() - 8 * 86_400_000));
     expect(result.ok).toBe(true);
@@ -157,7 +158,7 @@ describe("invitations by e-mail", () => {
     const token = tokenFromLink(linkIn((await mailTo(sink, email))[0]!, "/invite/"));
     const response = await acceptForCookie(token, { name: "Crossing", password: "crossing-password-1" });
     const cookie = response.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
-    const scope = await requireMember(new Request("http://localhost:3000/", { headers: { Cookie: cookie } }), "team");
+    const scope = await scopeFor(new Request("http://localhost:3000/", { headers: { Cookie: cookie } }), "team");
     expect(scope.companyId).toBe(companyA);
     expect(scope.companyId).not.toBe(companyB);
     // Spent: the same token cannot open a way into any company now.

@@ -1,8 +1,6 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2605";
-
 import { db } from "~/.server/db/client";
 import { mailOutbox } from "~/.server/db/schema";
 import { deliverDueMail, enqueueMail, MAX_ATTEMPTS, retryDelayMs } from "~/.server/mail/outbox";
@@ -10,6 +8,9 @@ import { startMailSink } from "~/.server/mail/sink";
 import { renderMail } from "~/.server/mail/templates";
 import { createCompany } from "../fixtures/company";
 import { mailTo, startTestSink } from "../fixtures/mail-sink";
+
+// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
+process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2605";
 
 let companyId: number;
 

@@ -1,8 +1,6 @@
 import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2602";
-
 import { db } from "~/.server/db/client";
 import { mailOutbox } from "~/.server/db/schema";
 import { deliverDueMail } from "~/.server/mail/outbox";
@@ -12,6 +10,9 @@ import { createCompany, createMember, FIXTURE_PASSWORD, type FixtureMember, sign
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
+
+// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
+process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2602";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
 let member: FixtureMember;

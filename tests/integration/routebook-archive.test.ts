@@ -12,7 +12,7 @@ import * as sourceList from "~/routes/sources";
 import * as visitList from "~/routes/visit";
 import { createCompany, createFillSource, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
-import { callRoute } from "../fixtures/route-call";
+import { callRoute, type RouteFunction } from "../fixtures/route-call";
 
 let companyId: number;
 let manager: FixtureMember;
@@ -69,7 +69,7 @@ async function sourceRow(id: number) {
 async function dayList(member: FixtureMember) {
   return (await callRoute(visitList.loader, requestAs(member, "/visit"))).body as { stops: Array<{ poolId: number }> };
 }
-async function listed<T>(loader: (args: any) => unknown, member: FixtureMember, path: string) {
+async function listed<T>(loader: RouteFunction, member: FixtureMember, path: string) {
   return ((await callRoute(loader, requestAs(member, path))).body as { rows: T[] }).rows;
 }
 

@@ -3,7 +3,7 @@ import { and, eq } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { waterTests } from "~/.server/db/schema";
-import type { Scope } from "~/.server/guard";
+import type { Scope } from "~/.server/scope";
 import { logVisit } from "~/.server/services/visit";
 import type { VisitInput } from "~/lib/forms/visit";
 import * as visitPool from "~/routes/visit-pool";

@@ -1,8 +1,7 @@
 import { and, asc, eq, gt } from "drizzle-orm";
 import { db } from "../db/client";
 import { fillSources, pools, products, routes, treatments, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "../queries/scope";
+import { type Scope, poolsInScope } from "../scope";
 import { type CsvCell, csvLine, csvLines } from "~/lib/csv";
 
 export const DATASETS = {

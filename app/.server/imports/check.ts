@@ -3,7 +3,7 @@ import type { ImportOptions } from "~/lib/imports/options";
 import { toSavedMapping } from "~/lib/imports/propose-mapping";
 import { db } from "../db/client";
 import { importBatches, importMappings, importUploads, user } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { planImport, type PlanSummary } from "./plan";
 import { findUpload, reportProgress, uploadSample } from "./uploads";
 import { toCsv } from "~/lib/csv";

@@ -5,7 +5,7 @@ import { readImportOptions } from "~/lib/imports/options";
 import { accountKey } from "~/lib/imports/match-keys";
 import { analyzeTables, db, pool as connectionPool } from "../db/client";
 import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { type ImportPlan, planImport, type PlanSummary } from "./plan";
 import { PlannedRows } from "./planned-rows";
 import { type Claim, claimForCommit, endClaim, finishClaimSql } from "./claims";

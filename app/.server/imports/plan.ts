@@ -5,8 +5,7 @@ import { accountKey, addressKey, productKey, unknownPoolKey } from "~/lib/import
 import { type Refusal, type RowContext, validateRow } from "~/lib/imports/validate-row";
 import { db } from "../db/client";
 import { pools, products, treatments, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "../queries/scope";
+import { type Scope, poolsInScope } from "../scope";
 import { PlannedRows } from "./planned-rows";
 import { type Delimiter, ENCODING_NOTES, parseStoredFile } from "./read-file";
 import { reportProgress, storedPath, uploadEncoding, type UploadRow } from "./uploads";

@@ -5,7 +5,7 @@ import {
   MaxTotalSizeExceededError,
   parseFormData,
 } from "@remix-run/form-data-parser";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { importConfig } from "./config";
 import { registerUpload, removeStoredFile, type StoredFile, UploadRefused, UploadTooLarge, writeUploadFile } from "./uploads";
 

@@ -9,7 +9,7 @@ import type { ImportOptions } from "~/lib/imports/options";
 import { proposeMapping, type SavedMapping, savedMappingFits } from "~/lib/imports/propose-mapping";
 import { db } from "../db/client";
 import { companies, importMappings, importUploads } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { releaseDeadClaims } from "./claims";
 import { importConfig, MAX_COLUMNS, MAX_HEADER_LENGTH } from "./config";
 import {

@@ -5,14 +5,13 @@ import type { PoolProfile } from "@analysis/metals/route-book";
 import { DEFAULT_SHARED_SOURCE_RULES, sharedSourceAlerts } from "@analysis/metals/shared-source";
 import { companySettings } from "../company-settings";
 import { db } from "../db/client";
-import { alertEvents, ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
+import { alertEvents, type ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
 import { serverEnv } from "../env";
 import { waterTestReadings } from "../queries/metal-readings";
 import { poolLabels } from "../queries/analytics/pool-profiles";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
-import { enqueueMail } from "./outbox";
+import { enqueueMail, signalMailQueued } from "./outbox";
 import type { RenderedMail } from "./templates";
-import { nudgeMailWorker } from "./worker";
 
 /**
  * Only events this recent are announced, so bringing in years of old logs
@@ -91,7 +90,7 @@ async function recordEvents(company: Company, events: AlertEvent[]): Promise<Rec
     });
     if (mailed) recorded.push({ kind: event.kind, dedupeKey: event.dedupeKey, recipients: mailed });
   }
-  if (recorded.length > 0) nudgeMailWorker();
+  if (recorded.length > 0) signalMailQueued();
   return recorded;
 }
 

@@ -2,10 +2,9 @@ import { TZDate } from "@date-fns/tz";
 import { format } from "date-fns";
 import { and, eq, inArray } from "drizzle-orm";
 import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/episodes";
-import type { Metal } from "@analysis/metals/reading";
+import { type Metal, METALS } from "@analysis/metals/reading";
 import { buildCourses, courseOutcomes } from "@analysis/outcomes/treatments";
 import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
-import { METALS } from "@analysis/metals/reading";
 import { companySettings } from "../company-settings";
 import { db } from "../db/client";
 import { companies, mailOutbox, memberships, user } from "../db/schema";
@@ -14,9 +13,8 @@ import { poolProfiles, type PoolLabel } from "../queries/analytics/pool-profiles
 import { isWithin } from "../queries/analytics/tenant-and-window";
 import { treatmentRows, waterTestReadings } from "../queries/metal-readings";
 import { digestMail, type WeeklyDigest } from "./digest-message";
-import { enqueueMail } from "./outbox";
+import { enqueueMail, signalMailQueued } from "./outbox";
 import { preferencesFor } from "./preferences";
-import { nudgeMailWorker } from "./worker";
 
 const WEEK_MS = 7 * DAY_MS;
 
@@ -197,6 +195,6 @@ export async function sendWeeklyDigests(now: Date = new Date(), options: { onlyD
       if (queued) run.queued++;
     }
   }
-  if (run.queued > 0) nudgeMailWorker();
+  if (run.queued > 0) signalMailQueued();
   return run;
 }

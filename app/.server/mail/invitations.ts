@@ -5,10 +5,9 @@ import type { RoleName } from "~/lib/roles";
 import { db } from "../db/client";
 import { account, companies, invitations, memberships, user } from "../db/schema";
 import { serverEnv } from "../env";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { invitationMail } from "./messages";
-import { enqueueMail } from "./outbox";
-import { nudgeMailWorker } from "./worker";
+import { enqueueMail, signalMailQueued } from "./outbox";
 
 export const INVITATION_DAYS = 7;
 const DAY_MS = 86_400_000;
@@ -65,7 +64,7 @@ export async function inviteMember(
     );
     return created!.id;
   });
-  nudgeMailWorker();
+  signalMailQueued();
   return { ok: true, invitationId, expiresAt };
 }
 

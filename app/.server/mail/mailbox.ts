@@ -1,7 +1,7 @@
 import { and, desc, eq } from "drizzle-orm";
 import { db } from "../db/client";
 import { mailOutbox } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 
 /** What the company's outbox holds, newest first: the development mail viewer reads this. */
 export async function outboxMessages(scope: Scope, limit = 200) {

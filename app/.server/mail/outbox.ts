@@ -42,6 +42,28 @@ export async function enqueueMail(request: EnqueueRequest, executor: Executor = 
   return result.affectedRows === 1;
 }
 
+const signalHolder = globalThis as typeof globalThis & { __patinaMailQueued?: EventTarget };
+
+function mailQueuedSignal(): EventTarget {
+  signalHolder.__patinaMailQueued ??= new EventTarget();
+  return signalHolder.__patinaMailQueued;
+}
+
+/**
+ * Tells this process's sender, if it runs one, that mail is waiting. Call it
+ * after the transaction that queued the mail has committed.
+ */
+export function signalMailQueued(): void {
+  mailQueuedSignal().dispatchEvent(new Event("queued"));
+}
+
+/** The sender listens here; returns the function that stops listening. */
+export function onMailQueued(listener: () => void): () => void {
+  const signal = mailQueuedSignal();
+  signal.addEventListener("queued", listener);
+  return () => signal.removeEventListener("queued", listener);
+}
+
 /** After this many failed attempts a message is marked failed; the mailbox page can send it again. */
 export const MAX_ATTEMPTS = 10;
 /** While one worker sends a message, others leave it alone for this long. */

@@ -3,8 +3,7 @@ import { db } from "../db/client";
 import { memberships } from "../db/schema";
 import { serverEnv } from "../env";
 import { passwordResetMail } from "./messages";
-import { enqueueMail } from "./outbox";
-import { nudgeMailWorker } from "./worker";
+import { enqueueMail, signalMailQueued } from "./outbox";
 
 export const RESET_LINK_MINUTES = 60;
 
@@ -23,5 +22,5 @@ export async function enqueuePasswordResetMail(account: { id: string; name: stri
     recipient: account.email,
     mail: passwordResetMail({ baseUrl: serverEnv().PATINA_URL, name: account.name, token, validMinutes: RESET_LINK_MINUTES }),
   });
-  nudgeMailWorker();
+  signalMailQueued();
 }

@@ -1,6 +1,7 @@
 import { serverEnv } from "../env";
 import { existingProcessSingleton, processSingleton } from "../process-singleton";
-import { deliverDueMail } from "./outbox";
+import { sendWeeklyDigests } from "./digest";
+import { deliverDueMail, onMailQueued } from "./outbox";
 
 const INTERVAL_MS = 15_000;
 const DIGEST_CHECK_MS = 60 * 60_000;
@@ -27,15 +28,15 @@ function drain(state: WorkerState) {
 
 /** Hourly: queues the weekly digest of every company whose Monday morning has come (once per week and member). */
 function queueDueDigests() {
-  // Imported when needed: the digest module itself uses this one to nudge the sender.
-  import("./digest")
-    .then(({ sendWeeklyDigests }) => sendWeeklyDigests(new Date(), { onlyDue: true }))
-    .catch((error: unknown) => console.error("[patina] weekly digest failed:", error));
+  sendWeeklyDigests(new Date(), { onlyDue: true }).catch((error: unknown) =>
+    console.error("[patina] weekly digest failed:", error),
+  );
 }
 
 /**
- * One sender per server process: it drains the outbox every few seconds and
- * never runs inside a request. Tests call deliverDueMail() themselves.
+ * One sender per server process, started by the server entry: it drains the
+ * outbox every few seconds, and at once when the outbox signals queued mail;
+ * it never runs inside a request. Tests call deliverDueMail() themselves.
  */
 export function ensureMailWorker(): void {
   if (existingProcessSingleton(WORKER) || serverEnv().NODE_ENV === "test") return;
@@ -49,11 +50,6 @@ export function ensureMailWorker(): void {
   state.timer.unref();
   state.digestTimer.unref();
   setTimeout(queueDueDigests, 30_000).unref();
+  onMailQueued(() => setImmediate(() => drain(state)));
   processSingleton(WORKER, () => state);
-}
-
-/** Asks the sender to look at the outbox now rather than at its next tick. */
-export function nudgeMailWorker(): void {
-  const state = existingProcessSingleton<WorkerState>(WORKER);
-  if (state) setImmediate(() => drain(state));
 }

@@ -3,8 +3,7 @@ import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/readi
 import { db } from "../db/client";
 import { pools, routes, waterTests } from "../db/schema";
 import { utcDate } from "../db/values";
-import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
+import { type Scope, poolsInScope } from "../scope";
 
 export type OpenMetalCase = {
   poolId: number;

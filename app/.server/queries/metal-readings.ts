@@ -3,7 +3,7 @@ import type { HardnessEndpoint, MetalTest } from "@analysis/metals/episodes";
 import type { OutcomeTest, ProductCategory, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { db, pool } from "../db/client";
-import { PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
+import { type PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../db/schema";
 import { tenantCondition, testsInScope, withinWindow, type Tenant, type TimeWindow } from "./analytics/tenant-and-window";
 
 export const PRODUCT_CATEGORY: Record<(typeof PRODUCT_CATEGORIES)[number], ProductCategory> = {

@@ -1,8 +1,7 @@
 import { and, asc, desc, eq } from "drizzle-orm";
 import { db } from "../db/client";
 import { equipment, fillSources, pools, routes, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
+import { type Scope, poolsInScope } from "../scope";
 
 /** One pool with its route's and fill source's names, or null outside the member's scope. */
 export async function poolWithPlace(scope: Scope, poolId: number) {

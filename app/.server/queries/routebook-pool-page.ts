@@ -2,7 +2,7 @@ import { and, asc, desc, eq } from "drizzle-orm";
 import { analyseMetalHistory, openSuspicions, type MetalTest } from "@analysis/metals/episodes";
 import { db } from "../db/client";
 import { equipment, products, treatments, user, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { metalReading } from "./metal-readings";
 import { poolWithPlace } from "./pools";
 

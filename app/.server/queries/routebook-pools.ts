@@ -4,9 +4,8 @@ import type { SURFACES } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { utcDate } from "../db/values";
 import { equipment, fillSources, pools, routes } from "../db/schema";
-import type { Scope } from "../guard";
+import { type Scope, poolsInScope } from "../scope";
 import { listOrder, withTotal } from "./list-page";
-import { poolsInScope } from "./scope";
 
 export const POOL_SORTS = ["account", "customer", "street", "neighbourhood", "route", "volume", "lastTest"] as const;
 export type PoolSort = (typeof POOL_SORTS)[number];

@@ -3,7 +3,7 @@ import { likePattern, type ListParams } from "~/lib/list-params";
 import type { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { products } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { listOrder, withTotal } from "./list-page";
 
 export const PRODUCT_SORTS = ["name", "category", "labelDose", "unitCost"] as const;

@@ -2,7 +2,7 @@ import { and, asc, eq, inArray, like, type SQL, sql } from "drizzle-orm";
 import { likePattern, type ListParams } from "~/lib/list-params";
 import { db } from "../db/client";
 import { memberships, pools, routes, routeTechnicians, user } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { listOrder, withTotal } from "./list-page";
 
 export const ROUTE_SORTS = ["name", "weekdays", "pools"] as const;

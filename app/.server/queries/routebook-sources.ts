@@ -3,9 +3,8 @@ import { likePattern, type ListParams } from "~/lib/list-params";
 import type { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { fillSources, pools, routes, sourceTests } from "../db/schema";
-import type { Scope } from "../guard";
+import { type Scope, poolsInScope } from "../scope";
 import { listOrder, withTotal } from "./list-page";
-import { poolsInScope } from "./scope";
 
 export const SOURCE_SORTS = ["name", "kind", "pools", "lastTest"] as const;
 export type SourceSort = (typeof SOURCE_SORTS)[number];

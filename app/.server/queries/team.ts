@@ -1,7 +1,7 @@
 import { asc, eq } from "drizzle-orm";
 import { db } from "../db/client";
 import { memberships, user } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 
 export async function companyMembers(scope: Scope) {
   return db()

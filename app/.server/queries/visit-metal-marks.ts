@@ -2,7 +2,7 @@ import { eq, or } from "drizzle-orm";
 import { analyseMetalHistory, openSuspicions } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { waterTests } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { anyMetalMeasured, waterTestReadings } from "./metal-readings";
 
 /** Why a technician should bring the metal test kit to a pool. */

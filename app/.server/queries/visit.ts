@@ -1,8 +1,7 @@
 import { and, desc, eq } from "drizzle-orm";
 import { db } from "../db/client";
 import { pools, routes, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "./scope";
+import { type Scope, poolsInScope } from "../scope";
 
 /** The pool a visit is logged for, with its latest test for context; null outside the member's scope. */
 export async function visitPool(scope: Scope, poolId: number) {

@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import type { SettingsInput } from "~/lib/forms/settings";
 import { db } from "../db/client";
 import { companies } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import type { ServiceResult } from "./result";
 
 /** Saves thresholds, balance band, units and time zone; other settings keys are kept as they were. */

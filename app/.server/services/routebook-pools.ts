@@ -2,7 +2,7 @@ import { and, eq, isNull } from "drizzle-orm";
 import type { EquipmentInput, PoolInput } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { equipment, fillSources, pools, routes } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>["transaction"]>[0]>[0];

@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import type { ProductInput } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { products } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { conflict, isDuplicateKey, notFound, type ServiceResult } from "./result";
 
 export async function saveProduct(scope: Scope, productId: number | null, input: ProductInput): Promise<ServiceResult> {

@@ -2,7 +2,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import type { RouteInput } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { memberships, routes, routeTechnicians } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
 
 async function unknownTechnicians(scope: Scope, ids: string[]): Promise<string[]> {

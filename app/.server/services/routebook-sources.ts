@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import type { SourceInput, SourceTestInput } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { fillSources, sourceTests } from "../db/schema";
-import type { Scope } from "../guard";
+import type { Scope } from "../scope";
 import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
 
 /** Creates or changes a fill source. Archiving is `active: false`; sources are never deleted. */

@@ -3,8 +3,7 @@ import { and, eq, inArray } from "drizzle-orm";
 import type { VisitInput } from "~/lib/forms/visit";
 import { db } from "../db/client";
 import { pools, products, treatments, waterTests } from "../db/schema";
-import type { Scope } from "../guard";
-import { poolsInScope } from "../queries/scope";
+import { type Scope, poolsInScope } from "../scope";
 import { invalid, isDuplicateKey, notFound, type ServiceResult } from "./result";
 import { afterWaterTestsSaved } from "../mail/alerts";
 

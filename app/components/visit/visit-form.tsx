@@ -1,4 +1,4 @@
-import { type ChangeEvent, useEffect, useRef, useState } from "react";
+import { type ChangeEvent, useEffect, useRef, useState, useSyncExternalStore } from "react";
 import { Form, useNavigation } from "react-router";
 import { classifyBalance, type BalanceBand } from "@analysis/chemistry/saturation";
 import type { MetalThresholds } from "@analysis/metals/reading";
@@ -106,6 +106,9 @@ function Choice({
   );
 }
 
+/** Whether the page is hydrated never changes after it is: nothing to subscribe to. */
+const neverChanges = () => () => {};
+
 /**
  * The visit form, built for a phone in the field. Every input keeps its own
  * value (uncontrolled), so it works as a plain form post before the script
@@ -134,7 +137,8 @@ export function VisitForm({
   const [initial] = useState<Snapshot>(() => snapshotOf({ temperatureUnit, ...answer?.values }));
   const [current, setCurrent] = useState<Snapshot>(initial);
   const [lineCount, setLineCount] = useState(Math.max(1, initial.lines.length));
-  const [hydrated, setHydrated] = useState(false);
+  // false in the server's HTML and while hydrating, true once the script runs.
+  const hydrated = useSyncExternalStore(neverChanges, () => true, () => false);
   // Fields changed since the server last answered: its error for them may no longer hold.
   const [changed, setChanged] = useState<ReadonlySet<string>>(new Set());
 
@@ -142,12 +146,17 @@ export function VisitForm({
     if (formRef.current) setCurrent(readForm(formRef.current));
   };
 
+  // Picks up whatever was typed while the script was loading (the inputs are the source).
   useEffect(() => {
-    setHydrated(true);
-    refresh(); // picks up whatever was typed while the script was loading
+    if (formRef.current) setCurrent(readForm(formRef.current));
   }, []);
 
-  useEffect(() => setChanged(new Set()), [answer]);
+  // A new answer from the server: its errors hold again for every field.
+  const [answered, setAnswered] = useState(answer);
+  if (answered !== answer) {
+    setAnswered(answer);
+    setChanged(new Set());
+  }
 
   const { values, lines } = current;
   const { readings, errors: liveErrors, balance, warnings, askForMetals, acidGiven, phHigh, hasStain, costs } = liveVisit(

@@ -2,8 +2,7 @@ import { z } from "zod";
 import { poolVolume, isVolumeError, type PoolShape } from "@analysis/units/volume";
 import type { MetalReading } from "@analysis/metals/reading";
 import { parseMetalReading } from "../metal-reading";
-import type { UnitSystem } from "~/lib/units";
-import { volumeToLitres } from "~/lib/units";
+import { type UnitSystem, volumeToLitres } from "~/lib/units";
 import {
   checkbox,
   type FieldErrors,

@@ -1,5 +1,4 @@
-import type { ColumnMapping, ColumnTarget, ColumnUnit } from "./fields";
-import { unitsFor } from "./fields";
+import { type ColumnMapping, type ColumnTarget, type ColumnUnit, unitsFor } from "./fields";
 
 /** Lower case, accents folded, everything but letters and digits turned into single spaces. */
 export function normaliseHeader(header: string): string {

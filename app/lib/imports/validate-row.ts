@@ -73,6 +73,8 @@ const AMOUNT_WITH_UNIT = /^([\d.,\s]+?)\s*([a-zA-Z][a-zA-Z .]{0,15})$/;
 
 /** Control and format characters (NUL, zero-width, soft hyphen...) are never stored. */
 const UNSTORED = /[\p{Cc}\p{Cf}]/gu;
+// Notes keep tab and line breaks, so the control range is spelled out.
+// eslint-disable-next-line no-control-regex
 const UNSTORED_IN_NOTES = /[\p{Cf}\x00-\x08\x0b\x0c\x0e-\x1f\x7f-\x9f]/gu;
 
 function textOrNull(text: string | undefined, unstored = UNSTORED): string | null {

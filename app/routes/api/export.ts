@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { apiError, requireApiMember } from "~/.server/guard";
+import { apiError, requireArea } from "~/.server/guard";
 import { DATASETS, exportStream } from "~/.server/exports/datasets";
 import type { Route } from "./+types/export";
 
@@ -14,8 +14,8 @@ const datasetParams = z.object({
 });
 
 /** One data set of the member's company as CSV, streamed. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireApiMember(request, "exports");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "exports");
   const parsed = datasetParams.safeParse(params);
   if (!parsed.success) {
     throw apiError(404, "not_found", `No data set "${params.dataset}": ${parsed.error.issues[0]?.message}.`, "dataset");

@@ -1,4 +1,4 @@
-import { apiError, requireApiMember } from "~/.server/guard";
+import { apiError, requireArea } from "~/.server/guard";
 import { refusedRowsCsv } from "~/.server/imports/check";
 import { findUpload } from "~/.server/imports/uploads";
 import { readImportOptions } from "~/lib/imports/options";
@@ -6,8 +6,8 @@ import { uploadIdParams } from "~/lib/imports/params";
 import type { Route } from "./+types/import-refused";
 
 /** The refused rows of an upload under its saved choices, as a CSV to fix and upload again. */
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireApiMember(request, "imports");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "imports");
   const parsed = uploadIdParams.safeParse(params);
   if (!parsed.success) throw apiError(404, "not_found", "No upload with that id in your company.", "uploadId");
   const upload = await findUpload(scope, parsed.data.uploadId);

@@ -1,5 +1,5 @@
 import { redirect } from "react-router";
-import { apiError, requireApiMember } from "~/.server/guard";
+import { apiError, requireArea } from "~/.server/guard";
 import { importConfig } from "~/.server/imports/config";
 import { FORM_MARGIN_BYTES, receiveUpload } from "~/.server/imports/receive-upload";
 import type { Route } from "./+types/import-uploads";
@@ -14,8 +14,8 @@ function tooLarge(maxBytes: number) {
 }
 
 /** Receives one CSV file (multipart field "file") and answers with the new upload's id. */
-export async function action({ request }: Route.ActionArgs) {
-  const scope = await requireApiMember(request, "imports");
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "imports");
   if (request.method !== "POST") throw apiError(405, "invalid_parameter", "Send the file with POST.");
   const { maxBytes } = importConfig();
   // Refuse before reading: the multipart envelope adds a little, so allow a small margin.

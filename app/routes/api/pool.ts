@@ -1,10 +1,10 @@
-import { apiError, requireApiMember } from "~/.server/guard";
+import { apiError, requireArea } from "~/.server/guard";
 import { poolDetail } from "~/.server/queries/pools";
 import { poolIdParams } from "~/lib/params";
 import type { Route } from "./+types/pool";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const scope = await requireApiMember(request, "pools");
+export async function loader({ params, context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "pools");
   const parsed = poolIdParams.safeParse(params);
   if (!parsed.success) {
     throw apiError(400, "invalid_parameter", parsed.error.issues[0]?.message ?? "poolId is not valid", "poolId");

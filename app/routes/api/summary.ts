@@ -1,10 +1,10 @@
 import { companyPreferences } from "~/.server/company-settings";
-import { requireApiMember } from "~/.server/guard";
+import { requireArea } from "~/.server/guard";
 import { homeSummary } from "~/.server/queries/home-summary";
 import type { Route } from "./+types/summary";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const scope = await requireApiMember(request, "home");
+export async function loader({ context }: Route.LoaderArgs) {
+  const scope = requireArea(context, "home");
   const summary = await homeSummary(scope, (await companyPreferences(scope)).thresholds);
   return Response.json(summary);
 }

@@ -2,7 +2,7 @@ import type { Metal } from "@analysis/metals/reading";
 import { compareGroups, GROUPING_KEYS, groupObservations, type GroupingKey } from "@analysis/stats/groups";
 import { groupValueLabel } from "~/lib/analytics/labels";
 import { observationInstants } from "~/lib/analytics/observation-points";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { jsonInterval, type JsonInterval } from "~/lib/analytics/json";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import type { AnalyticsParams } from "./tenant-and-window";

@@ -3,7 +3,7 @@ import { analyseMetalHistory, type MetalHistory, type MetalTest } from "@analysi
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { stopIfAbandoned } from "../../request-context";
 import { metalReadings } from "../metal-readings";
 import { poolProfiles, type RouteBookProfiles } from "./pool-profiles";

@@ -1,7 +1,7 @@
 import { sql } from "drizzle-orm";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { anyMetalMeasured } from "../metal-readings";
 import { testsInScope, type TimeWindow } from "./tenant-and-window";
 import { percentileOfCounts } from "~/lib/analytics/percentile";

@@ -3,7 +3,7 @@ import { likelySourceEvidence, type Evidence, type FillSourceTest } from "@analy
 import type { BalanceBand } from "@analysis/chemistry/saturation";
 import type { SharedSourceAlert } from "@analysis/metals/shared-source";
 import { episodeJson, isoInstant, type EpisodeJson } from "~/lib/analytics/json";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { poolBalance, poolInScope } from "./pool-series";
 import { metalReadings, treatmentRows } from "../metal-readings";
 import { dayToMs } from "../../db/values";

@@ -8,7 +8,7 @@ import type {
   SanitiserSystem,
 } from "@analysis/metals/route-book";
 import { db } from "../../db/client";
-import { EQUIPMENT_KINDS, equipment, fillSources, pools, routes, SANITISERS, SOURCE_KINDS } from "../../db/schema";
+import { type EQUIPMENT_KINDS, equipment, fillSources, pools, routes, type SANITISERS, type SOURCE_KINDS } from "../../db/schema";
 import { dayToMs } from "../../db/values";
 import { companyOf, tenantCondition, type Tenant } from "./tenant-and-window";
 

@@ -6,7 +6,7 @@ import { episodeJson, type EpisodeJson } from "~/lib/analytics/json";
 import type { SeriesAnalyte } from "~/lib/analytics/params";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { metalReadings, treatmentRows } from "../metal-readings";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
 import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";

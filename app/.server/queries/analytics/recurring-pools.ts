@@ -3,7 +3,7 @@ import { DEFAULT_EPISODE_RULES } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import {
   encodeReadingColumns,
   encodeTreatmentColumns,

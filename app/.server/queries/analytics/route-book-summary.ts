@@ -4,7 +4,7 @@ import type { Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";

@@ -5,7 +5,7 @@ import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/sha
 import { isoInstant } from "~/lib/analytics/json";
 import { db } from "../../db/client";
 import { fillSources, pools } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { metalReadings } from "../metal-readings";
 import { poolProfiles } from "./pool-profiles";
 import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";

@@ -3,7 +3,7 @@ import type { MetalTest } from "@analysis/metals/episodes";
 import { METALS, metalStatus, type Metal, type MetalReading, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { fillSources, pools, routes } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { sourceAlertsWithReadings, type SourceAlert } from "./shared-source-alerts";
 import { sourceTestRows } from "./fill-water-tests";
 import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";

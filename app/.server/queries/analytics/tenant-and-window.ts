@@ -2,8 +2,7 @@ import { TZDate } from "@date-fns/tz";
 import { and, eq, gte, lte, type SQL } from "drizzle-orm";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { pools, type treatments, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
-import { poolsInScope } from "../scope";
+import { type Scope, poolsInScope } from "../../scope";
 
 /**
  * Whose rows are read: a member's Scope (company and, for technicians, their

@@ -7,7 +7,7 @@ import { CATEGORY_WORDS } from "~/lib/analytics/labels";
 import { isoInstant, jsonInterval, type JsonInterval } from "~/lib/analytics/json";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
-import type { Scope } from "../../guard";
+import type { Scope } from "../../scope";
 import { anyMetalMeasured, treatmentRows, waterTestReadings } from "../metal-readings";
 import { tenantCondition, isWithin, type TimeWindow } from "./tenant-and-window";
 

@@ -4,8 +4,8 @@ import { groupFigures } from "~/.server/queries/analytics/group-figures";
 import { groupsQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/groups";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "risk", groupsQuery, "api");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "risk", groupsQuery, "api");
   const metal = query.metal ?? null;
   return Response.json(await groupFigures(scope, { window, thresholds, metal, grouping: query.grouping as GroupingKey }));
 }

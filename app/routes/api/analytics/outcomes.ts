@@ -3,7 +3,7 @@ import { treatmentOutcomes } from "~/.server/queries/analytics/treatment-outcome
 import { outcomesQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/outcomes";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "outcomes", outcomesQuery, "api");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "outcomes", outcomesQuery, "api");
   return Response.json(await treatmentOutcomes(scope, { window, thresholds, metal: query.metal, arm: query.arm }));
 }

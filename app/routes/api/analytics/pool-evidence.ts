@@ -5,8 +5,8 @@ import { evidenceQuery } from "~/lib/analytics/params";
 import { poolIdParams } from "~/lib/params";
 import type { Route } from "./+types/pool-evidence";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { scope, window, thresholds, balanceBand } = await readAnalyticsRequest(request, "pools", evidenceQuery, "api");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { scope, window, thresholds, balanceBand } = await readAnalyticsRequest(request, context, "pools", evidenceQuery, "api");
   const id = poolIdParams.safeParse(params);
   if (!id.success) throw apiError(400, "invalid_parameter", `poolId "${params.poolId}": ${id.error.issues[0]?.message}`, "poolId");
   const evidence = await poolEvidence(scope, id.data.poolId, { window, thresholds, metal: null, balanceBand });

@@ -5,8 +5,8 @@ import { seriesQuery } from "~/lib/analytics/params";
 import { poolIdParams } from "~/lib/params";
 import type { Route } from "./+types/pool-series";
 
-export async function loader({ request, params }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "pools", seriesQuery, "api");
+export async function loader({ request, params, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "pools", seriesQuery, "api");
   const id = poolIdParams.safeParse(params);
   if (!id.success) throw apiError(400, "invalid_parameter", `poolId "${params.poolId}": ${id.error.issues[0]?.message}`, "poolId");
   const series = await poolSeries(scope, id.data.poolId, query.analyte, { window, thresholds, metal: null });

@@ -3,8 +3,8 @@ import { recurringPools, recurringReadings } from "~/.server/queries/analytics/r
 import { recurringQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/recurring";
 
-export async function loader({ request }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, "recurring", recurringQuery, "api");
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "recurring", recurringQuery, "api");
   const params = {
     window,
     thresholds,
