@@ -1,5 +1,6 @@
 import { data, Form, Link } from "react-router";
 import { z } from "zod";
+import { plainId } from "~/lib/strict-params";
 import { requireMember } from "~/.server/guard";
 import { outboxMessage } from "~/.server/mail/mailbox";
 import { retryMessage } from "~/.server/mail/outbox";
@@ -12,7 +13,7 @@ import type { Route } from "./+types/mailbox-message";
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.message.subject ?? "Message"} · Mailbox · Patina` }];
 
 const messageParams = z.object({
-  messageId: z.coerce.number({ error: "messageId must be a number" }).int().positive({ error: "messageId must be positive" }),
+  messageId: plainId("messageId"),
 });
 
 async function findMessage(request: Request, params: unknown) {

@@ -1,3 +1,4 @@
+import { plainPositiveInt } from "../strict-params";
 import { z as zod } from "zod";
 
 /** Field name -> first message, as the forms show them beside each input. */
@@ -152,8 +153,8 @@ export function optionalId(label: string) {
     .optional()
     .transform((v, ctx): number | null => {
       if (!v) return null;
-      const n = Number(v);
-      if (!Number.isInteger(n) || n <= 0) {
+      const n = plainPositiveInt(v);
+      if (n === null) {
         ctx.addIssue({ code: "custom", message: `${label}: "${v}" is not a valid choice.` });
         return zod.NEVER;
       }
