@@ -12,6 +12,7 @@ import { createCompany, createMember, FIXTURE_PASSWORD, type FixtureMember, sign
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
+import { fromSocket } from "../fixtures/client-address";
 
 let sink: Awaited<ReturnType<typeof startTestSink>>;
 let member: FixtureMember;
@@ -29,11 +30,9 @@ afterAll(async () => {
 function askForLink(email: string, clientAddress: string) {
   return callRoute(
     forgotPage.action,
-    new Request("http://localhost:3000/forgot-password", {
-      method: "POST",
-      body: formData({ email }),
-      headers: { "x-forwarded-for": clientAddress },
-    }),
+    new Request("http://localhost:3000/forgot-password", { method: "POST", body: formData({ email }) }),
+    {},
+    fromSocket(clientAddress),
   );
 }
 
