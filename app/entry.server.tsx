@@ -5,6 +5,15 @@ import type { RenderToPipeableStreamOptions } from "react-dom/server";
 import { renderToPipeableStream } from "react-dom/server";
 import type { EntryContext, RouterContextProvider } from "react-router";
 import { ServerRouter } from "react-router";
+import { headersFor, newNonce } from "./.server/security/headers";
+import {
+  cspNonceContext,
+  readContext,
+} from "./.server/security/request-context";
+import { NonceContext } from "./lib/nonce";
+
+// The custom server (server.mjs) sets the socket address under this key.
+export { socketAddressContext } from "./.server/security/request-context";
 
 export const streamTimeout = 5_000;
 
@@ -13,10 +22,20 @@ export default function handleRequest(
   responseStatusCode: number,
   responseHeaders: Headers,
   routerContext: EntryContext,
-  _loadContext: RouterContextProvider,
+  loadContext: RouterContextProvider,
 ) {
+  // The root middleware set the nonce and headers; a URL no route matches never reaches it.
+  let nonce = readContext(loadContext, cspNonceContext);
+  if (nonce === undefined) {
+    nonce = newNonce();
+    for (const [name, value] of Object.entries(headersFor(nonce)))
+      responseHeaders.set(name, value);
+  }
   if (request.method.toUpperCase() === "HEAD") {
-    return new Response(null, { status: responseStatusCode, headers: responseHeaders });
+    return new Response(null, {
+      status: responseStatusCode,
+      headers: responseHeaders,
+    });
   }
 
   return new Promise<Response>((resolve, reject) => {
@@ -24,31 +43,47 @@ export default function handleRequest(
     const userAgent = request.headers.get("user-agent");
     // Crawlers get the whole document at once; people get the shell as soon as it is ready.
     const readyOption: keyof RenderToPipeableStreamOptions =
-      (userAgent && isbot(userAgent)) || routerContext.isSpaMode ? "onAllReady" : "onShellReady";
+      (userAgent && isbot(userAgent)) || routerContext.isSpaMode
+        ? "onAllReady"
+        : "onShellReady";
 
-    let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(() => abort(), streamTimeout + 1000);
+    let timeoutId: ReturnType<typeof setTimeout> | undefined = setTimeout(
+      () => abort(),
+      streamTimeout + 1000,
+    );
 
-    const { pipe, abort } = renderToPipeableStream(<ServerRouter context={routerContext} url={request.url} />, {
-      [readyOption]() {
-        shellRendered = true;
-        const body = new PassThrough({
-          final(callback) {
-            clearTimeout(timeoutId);
-            timeoutId = undefined;
-            callback();
-          },
-        });
-        responseHeaders.set("Content-Type", "text/html");
-        pipe(body);
-        resolve(new Response(createReadableStreamFromReadable(body), { headers: responseHeaders, status: responseStatusCode }));
+    const { pipe, abort } = renderToPipeableStream(
+      <NonceContext.Provider value={nonce}>
+        <ServerRouter context={routerContext} url={request.url} nonce={nonce} />
+      </NonceContext.Provider>,
+      {
+        nonce,
+        [readyOption]() {
+          shellRendered = true;
+          const body = new PassThrough({
+            final(callback) {
+              clearTimeout(timeoutId);
+              timeoutId = undefined;
+              callback();
+            },
+          });
+          responseHeaders.set("Content-Type", "text/html");
+          pipe(body);
+          resolve(
+            new Response(createReadableStreamFromReadable(body), {
+              headers: responseHeaders,
+              status: responseStatusCode,
+            }),
+          );
+        },
+        onShellError(error: unknown) {
+          reject(error);
+        },
+        onError(error: unknown) {
+          responseStatusCode = 500;
+          if (shellRendered) console.error(error);
+        },
       },
-      onShellError(error: unknown) {
-        reject(error);
-      },
-      onError(error: unknown) {
-        responseStatusCode = 500;
-        if (shellRendered) console.error(error);
-      },
-    });
+    );
   });
 }

@@ -6,13 +6,24 @@ import "./app.css";
 
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState } from "react";
+import { z } from "zod";
 import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
 import { ErrorPanel } from "./components/error-panel";
+import { useNonce } from "./lib/nonce";
+import { rootMiddleware } from "./.server/security/middleware";
+
+// zod compiles fast parsers with `new Function` when it may; the Content-Security-Policy
+// forbids eval, so it is told not to try (its probe alone is reported as a violation).
+z.config({ jitless: true });
+
+// Runs for every request, resource routes included: headers, cross-site check, body check.
+export const middleware: Route.MiddlewareFunction[] = rootMiddleware;
 
 export const meta: Route.MetaFunction = () => [{ title: "Patina" }];
 
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -25,8 +36,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
       </head>
       <body className="min-h-dvh">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );
@@ -34,7 +45,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
 
 export default function App() {
   const [queryClient] = useState(
-    () => new QueryClient({ defaultOptions: { queries: { staleTime: 30_000, refetchOnWindowFocus: false } } }),
+    () =>
+      new QueryClient({
+        defaultOptions: {
+          queries: { staleTime: 30_000, refetchOnWindowFocus: false },
+        },
+      }),
   );
   return (
     <QueryClientProvider client={queryClient}>

@@ -113,6 +113,7 @@ export type ApiErrorCode =
   | "not_found"
   | "invalid_parameter"
   | "payload_too_large"
+  | "method_not_allowed"
   | "unprocessable";
 
 export function apiError(status: number, code: ApiErrorCode, message: string, field?: string): Response {

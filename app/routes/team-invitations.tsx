@@ -1,5 +1,6 @@
 import { data } from "react-router";
 import { z } from "zod";
+import { plainId } from "~/lib/strict-params";
 import { requireMember } from "~/.server/guard";
 import { inviteMember, withdrawInvitation } from "~/.server/mail/invitations";
 import { fieldErrorsOf } from "~/lib/account-forms";
@@ -14,7 +15,7 @@ const inviteSchema = z.discriminatedUnion("intent", [
   }),
   z.object({
     intent: z.literal("withdraw"),
-    invitationId: z.coerce.number().int().positive({ error: "invitationId must be a positive whole number" }),
+    invitationId: plainId("invitationId"),
   }),
 ]);
 
@@ -34,5 +35,5 @@ export async function action({ request }: Route.ActionArgs) {
 }
 
 export async function loader() {
-  throw data("Invitations are sent from the team page.", { status: 404 });
+  throw data("Invitations are sent from the team page (POST only).", { status: 405, headers: { Allow: "POST" } });
 }

@@ -5,5 +5,11 @@
 export function firstPartyOrigins(baseUrl: string): string[] {
   const url = new URL(baseUrl);
   const port = url.port ? `:${url.port}` : "";
-  return [...new Set([url.origin, `${url.protocol}//localhost${port}`, `${url.protocol}//127.0.0.1${port}`])];
+  return [
+    ...new Set([
+      url.origin,
+      `${url.protocol}//localhost${port}`,
+      `${url.protocol}//127.0.0.1${port}`,
+    ]),
+  ];
 }

@@ -1,4 +1,8 @@
-import { createContext, type RouterContext, type RouterContextProvider } from "react-router";
+import {
+  createContext,
+  type RouterContext,
+  type RouterContextProvider,
+} from "react-router";
 
 /**
  * The socket address of the client, set by the server (`server.mjs`) for each
@@ -10,7 +14,10 @@ export const socketAddressContext = createContext<string | null>(null);
 export const cspNonceContext = createContext<string | undefined>(undefined);
 
 /** Reads a value from the router context, tolerating callers that pass a plain object. */
-export function readContext<T>(context: unknown, key: RouterContext<T>): T | undefined {
+export function readContext<T>(
+  context: unknown,
+  key: RouterContext<T>,
+): T | undefined {
   const provider = context as Partial<RouterContextProvider> | null | undefined;
   if (!provider || typeof provider.get !== "function") return undefined;
   try {

@@ -1,7 +1,12 @@
 import { APIError } from "better-auth/api";
 import { auth } from "../auth";
 import { clientAddress } from "./client-address";
-import { checkThrottle, clearAccount, recordAttempt, retryMessage } from "./throttle";
+import {
+  checkThrottle,
+  clearAccount,
+  recordAttempt,
+  retryMessage,
+} from "./throttle";
 
 export type SignInOutcome =
   | { ok: true; cookies: string[] }
@@ -12,7 +17,12 @@ export type SignInOutcome =
  * The one path that checks a password: refused while the account or the
  * client address is over its limit, a failure counted in both.
  */
-export async function signInWithThrottle(request: Request, context: unknown, email: string, password: string): Promise<SignInOutcome> {
+export async function signInWithThrottle(
+  request: Request,
+  context: unknown,
+  email: string,
+  password: string,
+): Promise<SignInOutcome> {
   const subjects = { account: email, address: clientAddress(request, context) };
   const verdict = await checkThrottle("sign-in", subjects);
   if (!verdict.allowed) {
@@ -25,7 +35,11 @@ export async function signInWithThrottle(request: Request, context: unknown, ema
   }
   let response: Response | null = null;
   try {
-    response = await auth().api.signInEmail({ body: { email, password }, headers: request.headers, asResponse: true });
+    response = await auth().api.signInEmail({
+      body: { email, password },
+      headers: request.headers,
+      asResponse: true,
+    });
   } catch (error) {
     if (!(error instanceof APIError)) throw error;
   }
