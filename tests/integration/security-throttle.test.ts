@@ -1,8 +1,6 @@
 import { like, sql } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2603";
-
 import { closeDatabase, db } from "~/.server/db/client";
 import { authThrottle, mailOutbox } from "~/.server/db/schema";
 import { clientAddress } from "~/.server/security/client-address";
