@@ -2,6 +2,10 @@ import type { Config } from "@react-router/dev/config";
 
 export default {
   ssr: true,
+  // The framework's own origin check covers page actions only and answers a bare 400 before any
+  // middleware runs. Patina's check (app/.server/security/origin-check.ts, root middleware) covers
+  // every non-GET request, resource routes and API included, so the framework's is switched off.
+  allowedActionOrigins: ["**"],
   future: {
     v8_middleware: true,
     v8_splitRouteModules: true,

@@ -68,6 +68,13 @@ export default defineConfig({
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",
           globalSetup: ["tests/e2e/global-setup.ts"],
+          setupFiles: ["tests/e2e/csp-watch.ts"],
+          // The HTTP security suite writes its own companies into the browser tier's database.
+          env: {
+            ...serverTestEnv,
+            PATINA_URL: `http://localhost:${process.env.PATINA_BROWSER_TEST_PORT ?? "3100"}`,
+            PATINA_SMTP_URL: process.env.PATINA_SMTP_URL ?? "smtp://127.0.0.1:2599",
+          },
           fileParallelism: false,
           testTimeout: 60_000,
           hookTimeout: 120_000,

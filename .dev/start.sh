@@ -18,4 +18,4 @@ fi
 port=${PORT:-3000}
 printf '\n\033[1m[patina] Patina is at http://localhost:%s\033[0m (Ctrl+C stops it; the database keeps running: npm run db:stop)\n' "$port"
 export NODE_ENV=production PORT="$port" PATINA_URL="${PATINA_URL:-http://localhost:$port}"
-node node_modules/@react-router/serve/bin.js build/server/index.js
+node server.mjs build/server/index.js

@@ -6,16 +6,29 @@ import "./app.css";
 
 import { QueryClient, QueryClientProvider } from "@tanstack/react-query";
 import { useState } from "react";
+import { z } from "zod";
 import { Links, Meta, Outlet, Scripts, ScrollRestoration } from "react-router";
 import type { Route } from "./+types/root";
+import { bodyCheck } from "./.server/security/body-check";
+import { securityHeadersMiddleware } from "./.server/security/headers";
+import { originCheck } from "./.server/security/origin-check";
 import { faultMiddleware } from "./.server/service-unavailable";
 import { ErrorPanel } from "./components/error-panel";
+import { useNonce } from "./lib/nonce";
 
-export const middleware: Route.MiddlewareFunction[] = faultMiddleware;
+// zod compiles fast parsers with `new Function` when it may; the Content-Security-Policy
+// forbids eval, so it is told not to try (its probe alone is reported as a violation).
+z.config({ jitless: true });
+
+// Runs for every request, resource routes included: security headers outermost (so
+// refusals and 503s carry them), then the request's fault tracking (database loss
+// and overload become 503s), then the cross-site and body checks.
+export const middleware: Route.MiddlewareFunction[] = [securityHeadersMiddleware, ...faultMiddleware, originCheck, bodyCheck];
 
 export const meta: Route.MetaFunction = () => [{ title: "Patina" }];
 
 export function Layout({ children }: { children: React.ReactNode }) {
+  const nonce = useNonce();
   return (
     <html lang="en">
       <head>
@@ -28,8 +41,8 @@ export function Layout({ children }: { children: React.ReactNode }) {
       </head>
       <body className="min-h-dvh">
         {children}
-        <ScrollRestoration />
-        <Scripts />
+        <ScrollRestoration nonce={nonce} />
+        <Scripts nonce={nonce} />
       </body>
     </html>
   );
@@ -37,7 +50,12 @@ export function Layout({ children }: { children: React.ReactNode }) {
 
 export default function App() {
   const [queryClient] = useState(
-    () => new QueryClient({ defaultOptions: { queries: { staleTime: 30_000, refetchOnWindowFocus: false } } }),
+    () =>
+      new QueryClient({
+        defaultOptions: {
+          queries: { staleTime: 30_000, refetchOnWindowFocus: false },
+        },
+      }),
   );
   return (
     <QueryClientProvider client={queryClient}>

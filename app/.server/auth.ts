@@ -5,13 +5,8 @@ import { account, session, user, verification } from "./db/schema";
 import { serverEnv } from "./env";
 import { enqueuePasswordResetMail, RESET_LINK_MINUTES } from "./mail/password-reset";
 import { processSingleton } from "./process-singleton";
+import { firstPartyOrigins } from "./security/origins";
 
-function trustedOrigins(baseUrl: string): string[] {
-  const url = new URL(baseUrl);
-  // The same server answers on localhost and 127.0.0.1; both are first-party.
-  const port = url.port ? `:${url.port}` : "";
-  return [...new Set([url.origin, `${url.protocol}//localhost${port}`, `${url.protocol}//127.0.0.1${port}`])];
-}
 
 function createAuth() {
   const env = serverEnv();
@@ -19,7 +14,7 @@ function createAuth() {
     appName: "Patina",
     baseURL: env.PATINA_URL,
     secret: env.BETTER_AUTH_SECRET,
-    trustedOrigins: trustedOrigins(env.PATINA_URL),
+    trustedOrigins: firstPartyOrigins(env.PATINA_URL),
     database: drizzleAdapter(db(), {
       provider: "mysql",
       schema: { user, session, account, verification },
@@ -37,15 +32,11 @@ function createAuth() {
       expiresIn: 60 * 60 * 24 * 14,
       updateAge: 60 * 60 * 24,
     },
-    rateLimit: {
-      enabled: true,
-      window: 60,
-      max: 120,
-      customRules: {
-        "/sign-in/email": { window: 60, max: 30 },
-        "/request-password-reset": { window: 15 * 60, max: 5 },
-      },
-    },
+    // Sign-in and reset requests are throttled by Patina itself (app/.server/security/throttle.ts),
+    // per account and per socket address, in the database; the library's limiter keys on a
+    // client-written header and is off. Its password endpoints are not exposed (routes/api/auth.ts).
+    rateLimit: { enabled: false },
+    advanced: { useSecureCookies: new URL(env.PATINA_URL).protocol === "https:" },
     telemetry: { enabled: false },
   });
 }

@@ -9,6 +9,9 @@ const envSchema = z.object({
   NODE_ENV: z.enum(["development", "production", "test"]).default("development"),
   // Outgoing mail: one SMTP URL (smtp:// or smtps://, credentials in the URL). Locally the sink on 2525.
   PATINA_SMTP_URL: z.string().url().default("smtp://127.0.0.1:2525"),
+  // How many reverse proxies in front of Patina append to X-Forwarded-For. 0: the header is ignored
+  // and the client address is the socket's (a client can write any X-Forwarded-For it likes).
+  PATINA_TRUSTED_PROXIES: z.coerce.number().int().min(0).max(10).default(0),
   PATINA_MAIL_FROM: z.string().min(3).default("Patina <mail@patina.example>"),
   // Overload limits (README, "Operations"): each analytics statement's time limit, heavy analytics
   // requests run at once per instance, how many may wait, how long one may wait, and the Retry-After of a 503.

@@ -118,6 +118,7 @@ export type ApiErrorCode =
   | "not_found"
   | "invalid_parameter"
   | "payload_too_large"
+  | "method_not_allowed"
   | "unprocessable"
   | "unavailable"
   | "busy"

@@ -1,3 +1,4 @@
+import { plainPositiveInt } from "./strict-params";
 import { z } from "zod";
 
 export const PAGE_SIZE = 25;
@@ -34,8 +35,7 @@ export type ListParams<S extends string = string> = {
 
 /** A whole-number id filter from the URL, or null when absent or not a number. */
 export function idFilter(url: URL, name: string): number | null {
-  const parsed = z.coerce.number().int().positive().safeParse(url.searchParams.get(name) ?? "");
-  return parsed.success ? parsed.data : null;
+  return plainPositiveInt(url.searchParams.get(name));
 }
 
 export function enumFilter<const T extends readonly string[]>(url: URL, name: string, values: T): T[number] | null {

@@ -1,8 +1,4 @@
 import { z } from "zod";
+import { plainId } from "./strict-params";
 
-export const poolIdParams = z.object({
-  poolId: z.coerce
-    .number({ error: "poolId must be a number" })
-    .int({ error: "poolId must be a whole number" })
-    .positive({ error: "poolId must be positive" }),
-});
+export const poolIdParams = z.object({ poolId: plainId("poolId") });

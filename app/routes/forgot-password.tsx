@@ -12,17 +12,17 @@ const requestSchema = z.object({
   email: z.email({ error: "Enter the e-mail address you sign in with." }),
 });
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const parsed = requestSchema.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) {
     return data({ sent: false, fieldErrors: fieldErrorsOf(parsed.error.issues), formError: null }, { status: 400 });
   }
-  const outcome = await requestPasswordReset(request, parsed.data.email);
+  const outcome = await requestPasswordReset(request, context, parsed.data.email);
   if (outcome.status === "rate_limited") {
     const minutes = Math.max(1, Math.ceil(outcome.retryAfterSeconds / 60));
     return data(
-      { sent: false, fieldErrors: {}, formError: `Too many requests from here. Try again in ${minutes} minute${minutes === 1 ? "" : "s"}.` },
-      { status: 429 },
+      { sent: false, fieldErrors: {}, formError: `Too many requests for this account or from this network. Try again in ${minutes} minute${minutes === 1 ? "" : "s"}.` },
+      { status: 429, headers: { "Retry-After": String(outcome.retryAfterSeconds) } },
     );
   }
   return { sent: true, fieldErrors: {}, formError: null };

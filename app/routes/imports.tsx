@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { plainId } from "~/lib/strict-params";
 import { data, Form, Link, useNavigation } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { importHistory } from "~/.server/imports/check";
@@ -18,7 +19,7 @@ export async function loader({ context }: Route.LoaderArgs) {
 
 const undoForm = z.object({
   intent: z.literal("undo", { error: "intent must be undo" }),
-  batchId: z.coerce.number({ error: "batchId must be a number" }).int().positive({ error: "batchId must be positive" }),
+  batchId: plainId("batchId"),
 });
 
 export async function action({ request, context }: Route.ActionArgs) {

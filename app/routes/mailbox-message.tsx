@@ -1,6 +1,7 @@
 import { data, Form, Link, type RouterContextProvider } from "react-router";
 import { z } from "zod";
 import { requireArea } from "~/.server/guard";
+import { plainId } from "~/lib/strict-params";
 import { outboxMessage } from "~/.server/mail/mailbox";
 import { retryMessage, signalMailQueued } from "~/.server/mail/outbox";
 import { ErrorPanel } from "~/components/error-panel";
@@ -11,7 +12,7 @@ import type { Route } from "./+types/mailbox-message";
 export const meta: Route.MetaFunction = ({ data }) => [{ title: `${data?.message.subject ?? "Message"} · Mailbox · Patina` }];
 
 const messageParams = z.object({
-  messageId: z.coerce.number({ error: "messageId must be a number" }).int().positive({ error: "messageId must be positive" }),
+  messageId: plainId("messageId"),
 });
 
 async function findMessage(context: Readonly<RouterContextProvider>, params: unknown) {

@@ -1,11 +1,11 @@
-import { APIError } from "better-auth/api";
 import { data, Form, Link, redirect, useNavigation } from "react-router";
 import { z } from "zod";
-import { auth } from "~/.server/auth";
 import { currentUser } from "~/.server/guard";
+import { signInWithThrottle } from "~/.server/security/sign-in-throttle";
 import { FormProblem } from "~/components/form-controls";
 import { primaryButton, TextField } from "~/components/mail/public-card";
 import { PatinaMark } from "~/components/patina-mark";
+import { safeNext } from "~/lib/safe-next";
 import type { Route } from "./+types/sign-in";
 
 export const meta: Route.MetaFunction = () => [{ title: "Sign in · Patina" }];
@@ -16,47 +16,32 @@ const signInSchema = z.object({
   next: z.string().optional(),
 });
 
-/** Only same-site paths, so the sign-in form cannot bounce anyone elsewhere. */
-function safeNext(next: string | null | undefined): string {
-  return next && next.startsWith("/") && !next.startsWith("//") ? next : "/";
-}
-
 export async function loader({ request }: Route.LoaderArgs) {
   const next = safeNext(new URL(request.url).searchParams.get("next"));
   if (await currentUser(request)) throw redirect(next);
   return { next };
 }
 
-export async function action({ request }: Route.ActionArgs) {
+export async function action({ request, context }: Route.ActionArgs) {
   const parsed = signInSchema.safeParse(Object.fromEntries(await request.formData()));
   if (!parsed.success) {
     const fieldErrors: Record<string, string> = {};
     for (const issue of parsed.error.issues) fieldErrors[String(issue.path[0])] ??= issue.message;
     return data({ fieldErrors, formError: null }, { status: 400 });
   }
-  try {
-    const response = await auth().api.signInEmail({
-      body: { email: parsed.data.email, password: parsed.data.password },
-      headers: request.headers,
-      asResponse: true,
-    });
-    // A failure on our side (the database is gone) is not a wrong password: let it become a 503 page.
-    if (response.status >= 500) throw new Error(`sign-in failed on the server (${response.status})`);
-    if (!response.ok) {
-      return data(
-        { fieldErrors: {}, formError: "That e-mail and password do not match an account." },
-        { status: response.status === 429 ? 429 : 401 },
-      );
-    }
+  const outcome = await signInWithThrottle(request, context, parsed.data.email, parsed.data.password);
+  if (outcome.ok) {
     const headers = new Headers();
-    for (const cookie of response.headers.getSetCookie()) headers.append("Set-Cookie", cookie);
+    for (const cookie of outcome.cookies) headers.append("Set-Cookie", cookie);
     return redirect(safeNext(parsed.data.next), { headers });
-  } catch (error) {
-    if (error instanceof APIError && error.statusCode < 500) {
-      return data({ fieldErrors: {}, formError: "That e-mail and password do not match an account." }, { status: 401 });
-    }
-    throw error;
   }
+  if (outcome.status === 429) {
+    return data(
+      { fieldErrors: {}, formError: outcome.message },
+      { status: 429, headers: { "Retry-After": String(outcome.retryAfterSeconds) } },
+    );
+  }
+  return data({ fieldErrors: {}, formError: "That e-mail and password do not match an account." }, { status: 401 });
 }
 
 export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {

@@ -1,6 +1,7 @@
 import { data } from "react-router";
 import { z } from "zod";
 import { requireArea } from "~/.server/guard";
+import { plainId } from "~/lib/strict-params";
 import { inviteMember, withdrawInvitation } from "~/.server/mail/invitations";
 import { fieldErrorsOf } from "~/lib/account-forms";
 import { ROLE_NAMES } from "~/lib/roles";
@@ -14,7 +15,7 @@ const inviteSchema = z.discriminatedUnion("intent", [
   }),
   z.object({
     intent: z.literal("withdraw"),
-    invitationId: z.coerce.number().int().positive({ error: "invitationId must be a positive whole number" }),
+    invitationId: plainId("invitationId"),
   }),
 ]);
 
@@ -34,5 +35,5 @@ export async function action({ request, context }: Route.ActionArgs) {
 }
 
 export async function loader() {
-  throw data("Invitations are sent from the team page.", { status: 404 });
+  throw data("Invitations are sent from the team page (POST only).", { status: 405, headers: { Allow: "POST" } });
 }

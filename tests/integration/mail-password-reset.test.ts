@@ -10,6 +10,7 @@ import { createCompany, createMember, FIXTURE_PASSWORD, type FixtureMember, sign
 import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
+import { fromSocket } from "../fixtures/client-address";
 
 // Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
 process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2602";
@@ -30,11 +31,9 @@ afterAll(async () => {
 function askForLink(email: string, clientAddress: string) {
   return callRoute(
     forgotPage.action,
-    new Request("http://localhost:3000/forgot-password", {
-      method: "POST",
-      body: formData({ email }),
-      headers: { "x-forwarded-for": clientAddress },
-    }),
+    new Request("http://localhost:3000/forgot-password", { method: "POST", body: formData({ email }) }),
+    {},
+    fromSocket(clientAddress),
   );
 }
 

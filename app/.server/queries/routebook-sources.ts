@@ -3,7 +3,7 @@ import { likePattern, type ListParams } from "~/lib/list-params";
 import type { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { db } from "../db/client";
 import { fillSources, pools, routes, sourceTests } from "../db/schema";
-import { type Scope, poolsInScope } from "../scope";
+import { type Scope, poolsInScope, sourcesInScope } from "../scope";
 import { listOrder, withTotal } from "./list-page";
 
 export const SOURCE_SORTS = ["name", "kind", "pools", "lastTest"] as const;
@@ -22,7 +22,7 @@ export async function listSources(
   const poolCount = sql<number>`(SELECT COUNT(*) FROM ${pools} WHERE ${pools.fillSourceId} = ${fillSources.id} AND ${pools.active} = 1 AND ${poolsInScope(scope)})`.mapWith(Number);
   const lastTest = sql<string | null>`(SELECT MAX(st.sampled_on) FROM ${sourceTests} st WHERE st.fill_source_id = ${fillSources.id})`;
   const where = and(
-    eq(fillSources.companyId, scope.companyId),
+    sourcesInScope(scope),
     params.q ? like(fillSources.name, likePattern(params.q)) : undefined,
     filters.kind ? eq(fillSources.kind, filters.kind) : undefined,
     filters.active === null ? undefined : eq(fillSources.active, filters.active),
@@ -43,7 +43,7 @@ export async function sourceForEdit(scope: Scope, sourceId: number) {
   const [row] = await db()
     .select()
     .from(fillSources)
-    .where(and(eq(fillSources.companyId, scope.companyId), eq(fillSources.id, sourceId)));
+    .where(and(sourcesInScope(scope), eq(fillSources.id, sourceId)));
   return row ?? null;
 }
 
@@ -84,6 +84,6 @@ export async function sourceOptions(scope: Scope) {
   return db()
     .select({ id: fillSources.id, name: fillSources.name, active: fillSources.active })
     .from(fillSources)
-    .where(eq(fillSources.companyId, scope.companyId))
+    .where(sourcesInScope(scope))
     .orderBy(asc(fillSources.name));
 }

@@ -1,6 +1,7 @@
 import { z } from "zod";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { GROUPING_KEYS } from "@analysis/stats/groups";
+import { isCalendarDay, plainPositiveInt } from "../strict-params";
 
 /**
  * Query parameters shared by the analytics pages and the JSON API. Both sides
@@ -15,15 +16,15 @@ const day = z.preprocess(
   z
     .string()
     .regex(ISO_DAY, { error: "must be a date written YYYY-MM-DD" })
-    .refine((text) => !Number.isNaN(Date.parse(`${text}T00:00:00Z`)), { error: "is not a calendar date" })
+    .refine(isCalendarDay, { error: "is not a calendar date" })
     .optional(),
 );
 
 const positiveId = (name: string) =>
   z.preprocess(
-    (v) => (v === "" || v === null ? undefined : v),
-    z.coerce
-      .number({ error: `${name} must be a number` })
+    (v) => (v === "" || v === null ? undefined : (plainPositiveInt(v) ?? v)),
+    z
+      .number({ error: `${name} must be a positive whole number written in digits (like 12)` })
       .int({ error: "must be a whole number" })
       .positive({ error: "must be positive" })
       .optional(),

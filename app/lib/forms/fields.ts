@@ -1,3 +1,4 @@
+import { plainPositiveInt } from "../strict-params";
 import { z as zod } from "zod";
 import { parseDecimal } from "../decimal";
 
@@ -152,8 +153,8 @@ export function optionalId(label: string) {
     .optional()
     .transform((v, ctx): number | null => {
       if (!v) return null;
-      const n = Number(v);
-      if (!Number.isInteger(n) || n <= 0) {
+      const n = plainPositiveInt(v);
+      if (n === null) {
         ctx.addIssue({ code: "custom", message: `${label}: "${v}" is not a valid choice.` });
         return zod.NEVER;
       }

@@ -1,4 +1,5 @@
 import { z } from "zod";
+import { plainId } from "../strict-params";
 import { poolVolume, isVolumeError, type PoolShape } from "@analysis/units/volume";
 import type { MetalReading } from "@analysis/metals/reading";
 import { parseMetalReading } from "../metal-reading";
@@ -145,7 +146,7 @@ export type EquipmentInput = z.output<typeof equipmentForm>;
 export const parseEquipmentForm = (input: unknown) => parseWith(equipmentForm, input);
 
 export const removalForm = z.object({
-  equipmentId: z.coerce.number({ error: "Equipment: not a valid choice." }).int().positive(),
+  equipmentId: plainId("Equipment"),
   removedOn: requiredDate("Removed on"),
 });
 export const parseRemovalForm = (input: unknown) => parseWith(removalForm, input);

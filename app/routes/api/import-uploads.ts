@@ -13,10 +13,14 @@ function tooLarge(maxBytes: number) {
   );
 }
 
+export async function loader() {
+  throw apiError(405, "method_not_allowed", "Send the file with POST (multipart form, field \"file\").");
+}
+
 /** Receives one CSV file (multipart field "file") and answers with the new upload's id. */
 export async function action({ request, context }: Route.ActionArgs) {
   const scope = requireArea(context, "imports");
-  if (request.method !== "POST") throw apiError(405, "invalid_parameter", "Send the file with POST.");
+  if (request.method !== "POST") throw apiError(405, "method_not_allowed", "Send the file with POST.");
   const { maxBytes } = importConfig();
   // Refuse before reading: the multipart envelope adds a little, so allow a small margin.
   const declared = Number(request.headers.get("Content-Length") ?? NaN);

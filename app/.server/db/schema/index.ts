@@ -3,3 +3,4 @@ export * from "./company";
 export * from "./field";
 export * from "./routebook";
 export * from "./exchange";
+export * from "./security";

@@ -1,0 +1,29 @@
+import { describe, expect, it } from "vitest";
+import { safeNext } from "./safe-next";
+
+describe("safeNext keeps sign-in redirects on this site", () => {
+  it.each([
+    ["/pools/12", "/pools/12"],
+    ["/pools?route=3#top", "/pools?route=3#top"],
+    ["/", "/"],
+  ])("keeps %s", (next, expected) => {
+    expect(safeNext(next)).toBe(expected);
+  });
+
+  it.each([
+    "//evil.example",
+    "/\\evil.example",
+    "/\\/evil.example",
+    "/\t/evil.example",
+    "/\n/evil.example",
+    "/\r\n/evil.example",
+    "https://evil.example",
+    "javascript:alert(1)",
+    "evil.example",
+    "",
+    null,
+    undefined,
+  ])("refuses %j", (next) => {
+    expect(safeNext(next)).toBe("/");
+  });
+});
