@@ -11,7 +11,7 @@ npx react-router build >/dev/null
 # is kept in .data/mail and shown to owners at /mailbox.
 mkdir -p .data/mail
 if [ -z "${PATINA_SMTP_URL:-}" ]; then
-  npx tsx app/.server/mail/sink-cli.ts --port 2525 --store .data/mail >.data/mail-sink.log 2>&1 &
+  npx tsx .dev/mail-sink-cli.ts --port 2525 --store .data/mail >.data/mail-sink.log 2>&1 &
   sink_pid=$!
   trap 'kill $sink_pid 2>/dev/null || true' EXIT
 fi

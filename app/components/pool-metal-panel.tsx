@@ -1,11 +1,11 @@
 import * as Plot from "@observablehq/plot";
 import { useCallback, useMemo } from "react";
 import { METALS } from "@analysis/metals/reading";
-import type { PoolEvidence } from "~/.server/queries/analytics/pool-evidence";
+import type { PoolEvidence } from "~/.server/analytics/queries/pool-evidence";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { METAL_COLOURS } from "~/lib/analytics/colours";
 import { formatDate } from "~/lib/format";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 
 const EVIDENCE_TITLES: Record<string, string> = {
   "fill-water-test": "Fill-water test",

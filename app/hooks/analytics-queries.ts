@@ -1,11 +1,11 @@
 import { keepPreviousData, queryOptions, useQuery } from "@tanstack/react-query";
-import type { GroupFigures } from "~/.server/queries/analytics/group-figures";
-import type { MetalTrend } from "~/.server/queries/analytics/metal-trend";
-import type { RecurringReadings } from "~/.server/queries/analytics/recurring-pools";
-import type { RouteBookSummary } from "~/.server/queries/analytics/route-book-summary";
-import type { SharedSourceAlerts } from "~/.server/queries/analytics/shared-source-alerts";
-import type { SourceHealthReport } from "~/.server/queries/analytics/source-health";
-import type { TreatmentOutcomes } from "~/.server/queries/analytics/treatment-outcomes";
+import type { GroupFigures } from "~/.server/analytics/queries/group-figures";
+import type { MetalTrend } from "~/.server/analytics/queries/metal-trend";
+import type { RecurringReadings } from "~/.server/analytics/queries/recurring-pools";
+import type { RouteBookSummary } from "~/.server/analytics/queries/route-book-summary";
+import type { SharedSourceAlerts } from "~/.server/analytics/queries/shared-source-alerts";
+import type { SourceHealthReport } from "~/.server/analytics/queries/source-health";
+import type { TreatmentOutcomes } from "~/.server/analytics/queries/treatment-outcomes";
 import { toSearch } from "~/lib/analytics/params";
 
 export type AnalyticsSearch = Record<string, string | number | null | undefined>;

@@ -1,8 +1,8 @@
 import { requireArea } from "~/.server/guard";
-import { companyPreferences } from "~/.server/company-settings";
-import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/queries/routebook-pools";
-import { routeOptions } from "~/.server/queries/routebook-routes";
-import { sourceOptions } from "~/.server/queries/routebook-sources";
+import { companyPreferences } from "~/.server/settings/queries/company-settings";
+import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/routebook/queries/pools";
+import { routeOptions } from "~/.server/routebook/queries/routes";
+import { sourceOptions } from "~/.server/routebook/queries/sources";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";

@@ -1,5 +1,5 @@
 import { requireArea } from "~/.server/guard";
-import { listProducts, PRODUCT_SORTS } from "~/.server/queries/routebook-products";
+import { listProducts, PRODUCT_SORTS } from "~/.server/routebook/queries/products";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";

@@ -1,14 +1,14 @@
 import { Form, useNavigation } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { requireArea } from "~/.server/guard";
-import { companyPreferences } from "~/.server/company-settings";
-import { updateCompanySettings } from "~/.server/services/company-settings";
-import { refusedAnswer } from "~/.server/services/result";
+import { companyPreferences } from "~/.server/settings/queries/company-settings";
+import { updateCompanySettings } from "~/.server/settings/commands/update-company-settings";
+import { refusedAnswer } from "~/.server/command-result";
 import { ErrorPanel } from "~/components/error-panel";
 import { FormProblem, SelectField, SubmitButton, TextField } from "~/components/form-controls";
 import { formObject } from "~/lib/forms/fields";
 import { parseSettingsForm } from "~/lib/forms/settings";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 import type { Route } from "./+types/settings";
 
 export const meta: Route.MetaFunction = () => [{ title: "Settings · Patina" }];

@@ -1,5 +1,5 @@
 import { requireArea } from "~/.server/guard";
-import { listSources, SOURCE_SORTS } from "~/.server/queries/routebook-sources";
+import { listSources, SOURCE_SORTS } from "~/.server/routebook/queries/sources";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";

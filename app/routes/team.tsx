@@ -1,6 +1,6 @@
 import { requireArea } from "~/.server/guard";
-import { pendingInvitations } from "~/.server/mail/invitations";
-import { companyMembers } from "~/.server/queries/team";
+import { pendingInvitations } from "~/.server/team/invitations";
+import { companyMembers } from "~/.server/team/queries/members";
 import { ErrorPanel } from "~/components/error-panel";
 import { InvitePanel } from "~/components/mail/invite-panel";
 import { formatDate } from "~/lib/format";

@@ -1,9 +1,9 @@
 import { Form, Link } from "react-router";
 import { requireArea } from "~/.server/guard";
-import { stopsForWeekday } from "~/.server/queries/home-summary";
-import { companyPreferences } from "~/.server/company-settings";
-import { searchPools } from "~/.server/queries/routebook-pools";
-import { type MetalMark, metalMarks } from "~/.server/queries/visit-metal-marks";
+import { stopsForWeekday } from "~/.server/routebook/queries/home-summary";
+import { companyPreferences } from "~/.server/settings/queries/company-settings";
+import { searchPools } from "~/.server/routebook/queries/pools";
+import { type MetalMark, metalMarks } from "~/.server/visits/queries/metal-marks";
 import { PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { MetalBadge } from "~/components/visit/metal-badge";

@@ -3,7 +3,7 @@ import { tmpdir } from "node:os";
 import path from "node:path";
 import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { type MailSink, readStoredMail, startMailSink } from "~/.server/mail/sink";
+import { type MailSink, readStoredMail, startMailSink } from "../../.dev/mail-sink";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";

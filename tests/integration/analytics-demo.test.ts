@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
-import * as groupsApi from "~/routes/api/analytics/groups";
-import * as outcomesApi from "~/routes/api/analytics/outcomes";
-import * as alertsApi from "~/routes/api/analytics/alerts";
-import * as summaryApi from "~/routes/api/analytics/summary";
+import * as groupsApi from "~/routes/api.analytics.groups";
+import * as outcomesApi from "~/routes/api.analytics.outcomes";
+import * as alertsApi from "~/routes/api.analytics.alerts";
+import * as summaryApi from "~/routes/api.analytics.summary";
 import { seedDemo, type SeedSummary } from "../../drizzle/seed/insert";
 import { PRODUCTS, type ProductKey } from "../../drizzle/seed/products";
 import { buildRouteBook } from "../../drizzle/seed/routebook";

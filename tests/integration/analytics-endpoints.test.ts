@@ -1,17 +1,17 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { equipment, products, treatments } from "~/.server/db/schema";
-import * as alertsApi from "~/routes/api/analytics/alerts";
-import * as evidenceApi from "~/routes/api/analytics/pool-evidence";
-import * as groupsApi from "~/routes/api/analytics/groups";
-import * as outcomesApi from "~/routes/api/analytics/outcomes";
-import * as recurringApi from "~/routes/api/analytics/recurring";
-import * as seriesApi from "~/routes/api/analytics/pool-series";
-import * as sourcesApi from "~/routes/api/analytics/sources";
-import * as summaryApi from "~/routes/api/analytics/summary";
-import * as trendApi from "~/routes/api/analytics/trend";
-import * as recurringPage from "~/routes/analytics-recurring";
-import * as poolPage from "~/routes/pool";
+import * as alertsApi from "~/routes/api.analytics.alerts";
+import * as evidenceApi from "~/routes/api.analytics.pools.$poolId.evidence";
+import * as groupsApi from "~/routes/api.analytics.groups";
+import * as outcomesApi from "~/routes/api.analytics.outcomes";
+import * as recurringApi from "~/routes/api.analytics.recurring";
+import * as seriesApi from "~/routes/api.analytics.pools.$poolId.series";
+import * as sourcesApi from "~/routes/api.analytics.sources";
+import * as summaryApi from "~/routes/api.analytics.summary";
+import * as trendApi from "~/routes/api.analytics.trend";
+import * as recurringPage from "~/routes/recurring";
+import * as poolPage from "~/routes/pools.$poolId";
 import {
   addTest,
   createCompany,

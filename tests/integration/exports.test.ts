@@ -1,7 +1,7 @@
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { products } from "~/.server/db/schema";
-import * as exportApi from "~/routes/api/export";
+import * as exportApi from "~/routes/api.exports.$dataset";
 import { addTest, createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
 

@@ -2,8 +2,8 @@ import { and, count, eq, isNull } from "drizzle-orm";
 import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { companies, importBatches, importUploads, pools, products, treatments, waterTests } from "~/.server/db/schema";
-import * as progressApi from "~/routes/api/import-upload";
-import * as refusedApi from "~/routes/api/import-refused";
+import * as progressApi from "~/routes/api.imports.$uploadId";
+import * as refusedApi from "~/routes/api.imports.$uploadId.refused[.csv]";
 import * as historyPage from "~/routes/imports";
 import { addTest, createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
@@ -297,7 +297,7 @@ describe("refusals", () => {
   });
 
   it("a request declaring more than the cap is refused before its body is read", async () => {
-    const { action } = await import("~/routes/api/import-uploads");
+    const { action } = await import("~/routes/api.imports.uploads");
     // 60 MB declared against the default 50 MB cap
     const request = requestAs(analyst, "/api/imports/uploads", {
       method: "POST",
@@ -324,7 +324,7 @@ describe("refusals", () => {
     expect((await callRoute(refusedApi.loader, requestAs(outsider, `/api/imports/${id}/refused.csv`), { uploadId: id })).status).toBe(404);
     const form = new FormData();
     form.set("intent", "commit");
-    const { action } = await import("~/routes/import-check");
+    const { action } = await import("~/routes/imports.$uploadId");
     const outcome = await callRoute(action, requestAs(outsider, `/imports/${id}`, { method: "POST", body: form }), { uploadId: id });
     expect(outcome.status).toBe(404);
     const undo = new FormData();

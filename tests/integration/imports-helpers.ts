@@ -3,8 +3,8 @@ import { tmpdir } from "node:os";
 import { join } from "node:path";
 import { callRoute } from "../fixtures/route-call";
 import { type FixtureMember, requestAs } from "../fixtures/company";
-import * as uploadsApi from "~/routes/api/import-uploads";
-import * as checkPage from "~/routes/import-check";
+import * as uploadsApi from "~/routes/api.imports.uploads";
+import * as checkPage from "~/routes/imports.$uploadId";
 
 /** Uploads go to a folder of this run's own. */
 export function useScratchUploadDir() {

@@ -4,7 +4,7 @@ import { db } from "~/.server/db/client";
 import { products, treatments } from "~/.server/db/schema";
 import { digestWeek, sendWeeklyDigests } from "~/.server/mail/digest";
 import { deliverDueMail } from "~/.server/mail/outbox";
-import * as unsubscribePage from "~/routes/unsubscribe";
+import * as unsubscribePage from "~/routes/unsubscribe.$token";
 import {
   addTest,
   createCompany,

@@ -4,7 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { mailOutbox } from "~/.server/db/schema";
 import { deliverDueMail, enqueueMail, MAX_ATTEMPTS, retryDelayMs } from "~/.server/mail/outbox";
-import { startMailSink } from "~/.server/mail/sink";
+import { startMailSink } from "../../.dev/mail-sink";
 import { renderMail } from "~/.server/mail/templates";
 import { createCompany } from "../fixtures/company";
 import { mailTo, startTestSink } from "../fixtures/mail-sink";

@@ -2,8 +2,8 @@ import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { equipment, pools } from "~/.server/db/schema";
-import * as poolEdit from "~/routes/pool-edit";
-import * as poolNew from "~/routes/pool-new";
+import * as poolEdit from "~/routes/pools.$poolId.edit";
+import * as poolNew from "~/routes/pools.new";
 import * as poolList from "~/routes/pools";
 import {
   createCompany,

@@ -2,8 +2,8 @@ import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { products } from "~/.server/db/schema";
-import * as productEdit from "~/routes/product-edit";
-import * as productNew from "~/routes/product-new";
+import * as productEdit from "~/routes/products.$productId.edit";
+import * as productNew from "~/routes/products.new";
 import { createCompany, createMember, type FixtureMember } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
 

@@ -1,9 +1,9 @@
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "~/.server/db/client";
-import * as apiPool from "~/routes/api/pool";
-import * as apiTrend from "~/routes/api/analytics/trend";
-import * as poolPage from "~/routes/pool";
-import * as sourcePage from "~/routes/source";
+import * as apiPool from "~/routes/api.pools.$poolId";
+import * as apiTrend from "~/routes/api.analytics.trend";
+import * as poolPage from "~/routes/pools.$poolId";
+import * as sourcePage from "~/routes/sources.$sourceId";
 import * as sourcesPage from "~/routes/sources";
 import {
   createCompany,

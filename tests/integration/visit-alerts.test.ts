@@ -2,7 +2,7 @@ import { and, eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { alertEvents, mailOutbox } from "~/.server/db/schema";
-import * as visitPool from "~/routes/visit-pool";
+import * as visitPool from "~/routes/visit.$poolId";
 import { createCompany, createMember, createRouteWithPool, type FixtureMember } from "../fixtures/company";
 import { postForm } from "../fixtures/forms";
 

@@ -4,9 +4,9 @@ import { beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { waterTests } from "~/.server/db/schema";
 import type { Scope } from "~/.server/scope";
-import { logVisit } from "~/.server/services/visit";
+import { logVisit } from "~/.server/visits/commands/save-visit";
 import type { VisitInput } from "~/lib/forms/visit";
-import * as visitPool from "~/routes/visit-pool";
+import * as visitPool from "~/routes/visit.$poolId";
 import { createCompany, createMember, createRouteWithPool, type FixtureMember } from "../fixtures/company";
 import { postForm } from "../fixtures/forms";
 

@@ -2,7 +2,7 @@ import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { companies } from "~/.server/db/schema";
-import * as home from "~/routes/home";
+import * as home from "~/routes/_index";
 import * as visitList from "~/routes/visit";
 import { addTest, createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";

@@ -1,6 +1,6 @@
 import type { Metal } from "@analysis/metals/reading";
 import { formatDate } from "~/lib/format";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 import { absoluteUrl, renderMail, type RenderedMail } from "./templates";
 
 export type PoolLabel = { poolId: number; customerName: string; street: string; routeName: string | null };

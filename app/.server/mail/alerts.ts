@@ -3,12 +3,12 @@ import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode } from
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
 import { DEFAULT_SHARED_SOURCE_RULES, sharedSourceAlerts } from "@analysis/metals/shared-source";
-import { companySettings } from "../company-settings";
+import { companySettings } from "../settings/queries/company-settings";
 import { db } from "../db/client";
 import { alertEvents, type ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
 import { serverEnv } from "../env";
-import { waterTestReadings } from "../queries/metal-readings";
-import { poolLabels } from "../queries/analytics/pool-profiles";
+import { waterTestReadings } from "../analytics/queries/metal-readings";
+import { poolLabels } from "../analytics/queries/pool-profiles";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
 import { enqueueMail, signalMailQueued } from "./outbox";
 import type { RenderedMail } from "./templates";

@@ -1,7 +1,7 @@
 import type { Metal } from "@analysis/metals/reading";
 import type { RateRatio } from "@analysis/stats/intervals";
 import { formatDate } from "~/lib/format";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 import { absoluteUrl, renderMail, type RenderedMail } from "./templates";
 
 type PoolName = { customerName: string; street: string };

@@ -5,13 +5,13 @@ import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/epis
 import { type Metal, METALS } from "@analysis/metals/reading";
 import { buildCourses, courseOutcomes } from "@analysis/outcomes/treatments";
 import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
-import { companySettings } from "../company-settings";
+import { companySettings } from "../settings/queries/company-settings";
 import { db } from "../db/client";
 import { companies, mailOutbox, memberships, user } from "../db/schema";
 import { serverEnv } from "../env";
-import { poolProfiles, type PoolLabel } from "../queries/analytics/pool-profiles";
-import { isWithin } from "../queries/analytics/tenant-and-window";
-import { treatmentRows, waterTestReadings } from "../queries/metal-readings";
+import { poolProfiles, type PoolLabel } from "../analytics/queries/pool-profiles";
+import { isWithin } from "../analytics/queries/tenant-and-window";
+import { treatmentRows, waterTestReadings } from "../analytics/queries/metal-readings";
 import { digestMail, type WeeklyDigest } from "./digest-message";
 import { enqueueMail, signalMailQueued } from "./outbox";
 import { preferencesFor } from "./preferences";

@@ -1,6 +1,6 @@
 import { describe, expect, it } from "vitest";
 import { CAUTIONS, escapeHtml, renderMail } from "./templates";
-import { parseMessage } from "./sink";
+import { parseMessage } from "../../../.dev/mail-sink";
 
 describe("mail templates", () => {
   it("escapes everything that comes from records before it reaches the HTML", () => {

@@ -1,7 +1,7 @@
 import type { ReactNode } from "react";
 import { Form, useSearchParams } from "react-router";
 import { METALS } from "@analysis/metals/reading";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 
 const fieldClass = "mt-1 block w-full rounded-lg border border-line bg-white px-3 py-2 text-base";
 

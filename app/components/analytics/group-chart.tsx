@@ -1,6 +1,6 @@
 import * as Plot from "@observablehq/plot";
 import { useCallback, useMemo } from "react";
-import type { GroupFigure } from "~/.server/queries/analytics/group-figures";
+import type { GroupFigure } from "~/.server/analytics/queries/group-figures";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { FLAG_COLOURS } from "~/lib/analytics/colours";
 import { shortLabel } from "~/lib/analytics/labels";

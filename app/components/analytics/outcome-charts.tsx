@@ -1,6 +1,6 @@
 import * as Plot from "@observablehq/plot";
 import { useCallback, useMemo } from "react";
-import type { ArmFigures } from "~/.server/queries/analytics/treatment-outcomes";
+import type { ArmFigures } from "~/.server/analytics/queries/treatment-outcomes";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { ARM_COLOURS } from "~/lib/analytics/colours";
 import { shortLabel } from "~/lib/analytics/labels";

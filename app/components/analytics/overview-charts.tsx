@@ -1,11 +1,11 @@
 import * as Plot from "@observablehq/plot";
 import { useCallback, useMemo } from "react";
 import { METALS, type Metal } from "@analysis/metals/reading";
-import type { MonthlyMetalFigure } from "~/.server/queries/analytics/metal-trend";
-import type { RouteBookSummary } from "~/.server/queries/analytics/route-book-summary";
+import type { MonthlyMetalFigure } from "~/.server/analytics/queries/metal-trend";
+import type { RouteBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { BALANCE_COLOURS, METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 
 const metalScale = {
   domain: METALS.map((m) => METAL_LABELS[m]),

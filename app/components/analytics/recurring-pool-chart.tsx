@@ -4,8 +4,8 @@ import type { MetalTest } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
-import type { RecurringPool } from "~/lib/analytics/recurring";
-import { METAL_LABELS } from "~/lib/metals";
+import type { RecurringPool } from "@analysis/metals/recurring-finder";
+import { METAL_LABELS } from "@analysis/metals/names";
 
 type Point = { at: Date; metal: string; value: number; belowDetection: boolean };
 type Treatment = { poolId: number; appliedAt: string; productName: string; category: string };

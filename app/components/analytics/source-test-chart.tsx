@@ -3,7 +3,7 @@ import { useCallback, useMemo } from "react";
 import { METALS, type MetalReading } from "@analysis/metals/reading";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 
 type SourceTest = { sampledOn: string; copper: MetalReading | null; iron: MetalReading | null; manganese: MetalReading | null };
 

@@ -1,7 +1,7 @@
 import * as Plot from "@observablehq/plot";
 import { useCallback, useMemo } from "react";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
-import { METAL_LABELS } from "~/lib/metals";
+import { METAL_LABELS } from "@analysis/metals/names";
 import { PlotFigure } from "./plot-figure";
 
 export type MetalPoint = { at: Date; metal: Metal; value: number; belowDetection: boolean };

@@ -3,7 +3,7 @@ import { FormProblem, SubmitButton, TextField } from "~/components/form-controls
 import { ReadingTable } from "~/components/reading-table";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { formatMgL } from "~/lib/format";
-import type { StoredMetals } from "~/lib/metals";
+import type { StoredMetals } from "@analysis/metals/names";
 
 type SourceTest = StoredMetals & { id: number; sampledOn: string; note: string | null };
 

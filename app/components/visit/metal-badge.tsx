@@ -1,5 +1,5 @@
-import type { MetalMark } from "~/.server/queries/visit-metal-marks";
-import { METAL_LABELS } from "~/lib/metals";
+import type { MetalMark } from "~/.server/visits/queries/metal-marks";
+import { METAL_LABELS } from "@analysis/metals/names";
 
 /** Plain words on the card, so the mark does not rest on colour alone. */
 export function metalMarkText(mark: MetalMark): string {

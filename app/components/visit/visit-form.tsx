@@ -8,7 +8,7 @@ import type { FieldErrors } from "~/lib/forms/fields";
 import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
 import { liveVisit, type TypedLine } from "~/lib/forms/visit-live";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
-import { DEFAULT_ANALYTE_RANGES } from "~/lib/ranges";
+import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
 
 type Product = { id: number; name: string; category: string; doseUnit: string | null; unitCost: number | null };
 type Snapshot = { values: Record<string, string>; lines: TypedLine[] };

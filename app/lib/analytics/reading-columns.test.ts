@@ -3,7 +3,7 @@ import { describe, expect, it } from "vitest";
 import { analyseMetalHistory, DAY_MS, type MetalHistory, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { decodeReadingColumns, decodeTreatmentColumns, encodeReadingColumns, encodeTreatmentColumns } from "./reading-columns";
-import { findRecurring } from "./recurring";
+import { findRecurring } from "@analysis/metals/recurring-finder";
 
 const at = (day: number) => Date.parse("2025-01-01T10:00:00.123Z") + day * DAY_MS;
 const floor = { copper: 0.3, iron: 0.2, manganese: 0.05 };

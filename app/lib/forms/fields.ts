@@ -1,6 +1,6 @@
 import { plainPositiveInt } from "../strict-params";
 import { z as zod } from "zod";
-import { parseDecimal } from "../decimal";
+import { parseDecimal } from "@analysis/units/decimal";
 
 /** Field name -> first message, as the forms show them beside each input. */
 export type FieldErrors = Record<string, string>;

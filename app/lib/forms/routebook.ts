@@ -2,7 +2,7 @@ import { z } from "zod";
 import { plainId } from "../strict-params";
 import { poolVolume, isVolumeError, type PoolShape } from "@analysis/units/volume";
 import type { MetalReading } from "@analysis/metals/reading";
-import { parseMetalReading } from "../metal-reading";
+import { parseMetalReading } from "@analysis/metals/parse-reading";
 import { type UnitSystem, volumeToLitres } from "~/lib/units";
 import {
   checkbox,

@@ -1,8 +1,8 @@
 import { saturationIndex, type SaturationResult } from "@analysis/chemistry/saturation";
 import { metalStatus, type MetalThresholds } from "@analysis/metals/reading";
-import { parseDecimal } from "../decimal";
+import { parseDecimal } from "@analysis/units/decimal";
 import type { FieldErrors } from "./fields";
-import { DEFAULT_ANALYTE_RANGES } from "../ranges";
+import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
 import { hasMetalReading, parseVisitReadings, PH_WARNING, type VisitReadings, VISIT_METALS } from "./visit";
 
 /**

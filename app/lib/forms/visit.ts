@@ -1,6 +1,6 @@
 import { fahrenheitToCelsius } from "@analysis/units/convert";
 import type { Metal, MetalReading } from "@analysis/metals/reading";
-import { parseMetalReading } from "../metal-reading";
+import { parseMetalReading } from "@analysis/metals/parse-reading";
 import { type FieldErrors, parseBoundedNumber } from "./fields";
 import { HARDNESS_ENDPOINTS, PAD_TINTS, STAIN_COLOURS, STAIN_STATES } from "../stored-values";
 

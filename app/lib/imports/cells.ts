@@ -1,6 +1,6 @@
-import { parseMetalReading } from "../metal-reading";
+import { parseMetalReading } from "@analysis/metals/parse-reading";
 import { fahrenheitToCelsius, microgramsPerLitreToMilligramsPerLitre } from "@analysis/units/convert";
-import { parseDecimal } from "../decimal";
+import { parseDecimal } from "@analysis/units/decimal";
 import type { ColumnUnit } from "./fields";
 
 /** Cells that mean "not measured". */

@@ -1,0 +1,119 @@
+import type { Metal } from "@analysis/metals/reading";
+import { compareGroups, GROUPING_KEYS, groupObservations, type GroupingKey } from "@analysis/stats/groups";
+import { groupValueLabel } from "~/lib/analytics/labels";
+import { observationInstants } from "~/lib/analytics/observation-points";
+import type { Scope } from "../../scope";
+import { jsonInterval, type JsonInterval } from "@analysis/json-shapes";
+import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
+import type { AnalyticsParams } from "./tenant-and-window";
+
+export type GroupFiguresParams = AnalyticsParams & { grouping: GroupingKey };
+
+export type GroupFigure = {
+  group: string;
+  label: string;
+  pools: number;
+  poolsWithEpisode: number;
+  poolYears: number;
+  openings: number;
+  /** Episode openings per pool-year, exact Poisson 95% interval. */
+  ratePerPoolYear: JsonInterval;
+  /** Share of the group's pools with any opening, Wilson 95% interval. */
+  shareWithEpisode: JsonInterval;
+  /** Against the rest of the route book in scope; conditional exact 95% interval (upper null = unbounded). */
+  rateRatio: JsonInterval;
+  risky: boolean;
+  tooSmallToJudge: boolean;
+};
+
+export type GroupFigures = {
+  grouping: GroupingKey;
+  metal: Metal | null;
+  pools: number;
+  poolYears: number;
+  openings: number;
+  groups: GroupFigure[];
+};
+
+/** Names for source and route ids, so groups read as people know them. */
+function groupNames(dataset: MetalDataset, grouping: GroupingKey): Map<string, string> {
+  const names = new Map<string, string>();
+  for (const label of dataset.book.labels.values()) {
+    if (grouping === "fill-source" && label.fillSourceId !== null && label.fillSourceName) names.set(String(label.fillSourceId), label.fillSourceName);
+    if (grouping === "route" && label.routeId !== null && label.routeName) names.set(String(label.routeId), label.routeName);
+  }
+  return names;
+}
+
+/**
+ * Episode openings per pool-year in each group of one dimension. A pool's
+ * observed time runs from its first to its last test in the window; for
+ * heater age and exchanger metal it is split at the dates the answer changes.
+ */
+type Instant = { poolId: string; takenAt: number };
+
+/** The instants bounding each pool's observed time, split where the pool's group of this dimension changes. */
+function groupingInstants(dataset: MetalDataset, grouping: GroupingKey): Instant[] {
+  const profiles = new Map(dataset.book.profiles.map((p) => [p.poolId, p]));
+  const instants: Instant[] = [];
+  for (const span of dataset.spans) {
+    const pool = profiles.get(span.poolId);
+    if (!pool) continue;
+    for (const takenAt of observationInstants(pool, span.firstAt, span.lastAt, grouping)) instants.push({ poolId: span.poolId, takenAt });
+  }
+  return instants;
+}
+
+export function computeGroupFigures(
+  dataset: MetalDataset,
+  grouping: GroupingKey,
+  metal: Metal | null,
+  instants: readonly Instant[] = groupingInstants(dataset, grouping),
+): GroupFigures {
+  const observations = groupObservations(dataset.book.profiles, instants, dataset.history.episodes, grouping, metal ? { metal } : {});
+  const stats = compareGroups(observations);
+  const names = groupNames(dataset, grouping);
+  const groups = stats.map((s) => ({
+    group: s.group,
+    label: groupValueLabel(grouping, s.group, names),
+    pools: s.pools,
+    poolsWithEpisode: s.poolsWithEpisode,
+    poolYears: s.poolYears,
+    openings: s.openings,
+    ratePerPoolYear: jsonInterval(s.rate),
+    shareWithEpisode: jsonInterval(s.shareWithEpisode),
+    rateRatio: jsonInterval(s.rateRatio),
+    risky: s.risky,
+    tooSmallToJudge: s.tooSmallToJudge,
+  }));
+  return {
+    grouping,
+    metal,
+    pools: new Set(observations.map((o) => o.poolId)).size,
+    poolYears: observations.reduce((sum, o) => sum + o.years, 0),
+    openings: observations.reduce((sum, o) => sum + o.openings, 0),
+    groups,
+  };
+}
+
+export async function groupFigures(scope: Scope, params: GroupFiguresParams): Promise<GroupFigures> {
+  return computeGroupFigures(await loadMetalDataset(scope, params), params.grouping, params.metal);
+}
+
+export type RiskyGroup = GroupFigure & { grouping: GroupingKey; metal: Metal };
+
+/** Every group flagged risky, over all dimensions and each metal of the dataset. */
+export function computeRiskyGroups(dataset: MetalDataset): RiskyGroup[] {
+  const risky: RiskyGroup[] = [];
+  // The observed time does not depend on the metal: work it out once per dimension.
+  const instants = new Map(GROUPING_KEYS.map((grouping) => [grouping, groupingInstants(dataset, grouping)]));
+  for (const metal of dataset.metals) {
+    for (const grouping of GROUPING_KEYS) {
+      for (const g of computeGroupFigures(dataset, grouping, metal, instants.get(grouping)).groups) {
+        if (g.risky) risky.push({ ...g, grouping, metal });
+      }
+    }
+  }
+  return risky.sort((a, b) => (b.rateRatio.estimate ?? Infinity) - (a.rateRatio.estimate ?? Infinity));
+}
+

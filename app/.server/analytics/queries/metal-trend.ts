@@ -1,0 +1,89 @@
+import { sql } from "drizzle-orm";
+import { METALS, type Metal } from "@analysis/metals/reading";
+import { db } from "../../db/client";
+import type { Scope } from "../../scope";
+import { anyMetalMeasured } from "./metal-readings";
+import { testsInScope, type TimeWindow } from "./tenant-and-window";
+import { percentileOfCounts } from "@analysis/stats/percentile-of-counts";
+
+export type MonthlyMetalFigure = {
+  metal: Metal;
+  /** "YYYY-MM" in the company's time zone (its UTC offset at the window's end). */
+  month: string;
+  readings: number;
+  median: number;
+  p25: number;
+  p75: number;
+  max: number;
+};
+
+export type MetalTrend = { months: MonthlyMetalFigure[]; belowDetectionRule: string };
+
+/** Minutes the zone is ahead of UTC at one instant (negative west of Greenwich). */
+function utcOffsetMinutes(timeZone: string, at: Date): number {
+  const parts = new Intl.DateTimeFormat("en-US", {
+    timeZone,
+    hourCycle: "h23",
+    year: "numeric",
+    month: "2-digit",
+    day: "2-digit",
+    hour: "2-digit",
+    minute: "2-digit",
+  }).formatToParts(at);
+  const get = (type: string) => Number(parts.find((p) => p.type === type)?.value);
+  const local = Date.UTC(get("year"), get("month") - 1, get("day"), get("hour"), get("minute"));
+  return Math.round((local - Math.floor(at.getTime() / 60_000) * 60_000) / 60_000);
+}
+
+/**
+ * Median and interquartile spread of each metal per month across the route
+ * book, from per-reading counts grouped in MariaDB rather than the readings.
+ * A "<x" reading counts as x/2, a common substitution for values below a
+ * detection limit (US EPA, Guidance for Data Quality Assessment QA/G-9, 4.7).
+ */
+export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal | null): Promise<MetalTrend> {
+  const offset = utcOffsetMinutes(scope.timeZone, window.to ?? new Date());
+  const metals = metal ? [metal] : METALS;
+  // One pass over the metal readings, grouped in MariaDB by month and reading
+  // (a few thousand rows however large the book); the percentiles are then
+  // exact from those counts. A PERCENTILE_CONT window took seconds on 500k readings.
+  const [rows] = (await db().execute(sql`
+    SELECT DATE_FORMAT(water_tests.sampled_at + INTERVAL ${offset} MINUTE, '%Y-%m') AS month,
+      water_tests.copper, water_tests.copper_below_detection AS copper_bd, water_tests.iron, water_tests.iron_below_detection AS iron_bd,
+      water_tests.manganese, water_tests.manganese_below_detection AS manganese_bd, COUNT(*) AS n
+    FROM water_tests JOIN pools ON pools.id = water_tests.pool_id
+    WHERE ${testsInScope({ scope }, window)} AND (${anyMetalMeasured(metals)})
+    GROUP BY 1, 2, 3, 4, 5, 6, 7
+  `)) as unknown as [Array<Record<string, unknown>>];
+  const buckets = new Map<string, Map<number, number>>();
+  for (const row of rows) {
+    for (const m of metals) {
+      if (row[m] === null || row[m] === undefined) continue;
+      const value = Number(row[`${m}_bd`]) === 1 ? Number(row[m]) / 2 : Number(row[m]);
+      const key = `${m}/${row.month}`;
+      const counts = buckets.get(key) ?? new Map<number, number>();
+      counts.set(value, (counts.get(value) ?? 0) + Number(row.n));
+      buckets.set(key, counts);
+    }
+  }
+  const months: MonthlyMetalFigure[] = [...buckets.entries()]
+    .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
+    .map(([key, counts]) => {
+      const [m, month] = key.split("/") as [Metal, string];
+      const sorted = [...counts.entries()].sort((a, b) => a[0] - b[0]).map(([value, n]) => ({ value, n }));
+      const readings = sorted.reduce((sum, b) => sum + b.n, 0);
+      return {
+        metal: m,
+        month,
+        readings,
+        median: percentileOfCounts(sorted, readings, 0.5),
+        p25: percentileOfCounts(sorted, readings, 0.25),
+        p75: percentileOfCounts(sorted, readings, 0.75),
+        max: sorted[sorted.length - 1]!.value,
+      };
+    });
+  return {
+    months,
+    belowDetectionRule: "A reading below the detection limit counts as half the limit.",
+  };
+}

@@ -1,0 +1,133 @@
+import { and, count, eq, inArray, isNotNull } from "drizzle-orm";
+import { analyseMetalHistory, type MetalTest } from "@analysis/metals/episodes";
+import { METALS, type Metal } from "@analysis/metals/reading";
+import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/shared-source";
+import { isoInstant } from "@analysis/json-shapes";
+import { db } from "../../db/client";
+import { fillSources, pools } from "../../db/schema";
+import type { Scope } from "../../scope";
+import { metalReadings } from "./metal-readings";
+import { poolProfiles } from "./pool-profiles";
+import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
+
+export type SourceAlert = {
+  fillSourceId: number;
+  sourceName: string;
+  sourceKind: string;
+  metal: Metal;
+  firstOpeningAt: string;
+  lastOpeningAt: string;
+  /** Pools on the source that opened an episode in the cluster (company-wide). */
+  poolCount: number;
+  activePools: number;
+  poolsRequired: number;
+  /** Only the pools in the member's scope are named; the rest are counted. */
+  pools: Array<{ poolId: number; street: string }>;
+  poolsOutsideScope: number;
+};
+
+export type SharedSourceAlerts = { alerts: SourceAlert[]; sourcesWatched: number };
+
+/**
+ * Shared-source alerts for the fill sources of the member's pools.
+ *
+ * The rule counts every pool on a source, so it is computed on the whole
+ * company's pools of those sources, not just a technician's routes; what
+ * leaves this function names only the pools in the member's scope and
+ * counts the others, so no other route's customer is revealed.
+ */
+export async function sharedSourceAlertList(
+  scope: Scope,
+  params: AnalyticsParams & { sourceIds?: readonly number[] },
+): Promise<SharedSourceAlerts> {
+  const { alerts, sourcesWatched } = await sourceAlertsWithReadings(scope, params, params.metal ? [params.metal] : METALS);
+  return { alerts, sourcesWatched };
+}
+
+/** Readings kept to one metal, as they would have been read for it alone. */
+function onlyMetal(readings: readonly MetalTest[], metal: Metal): MetalTest[] {
+  const kept: MetalTest[] = [];
+  for (const r of readings) {
+    if (!r[metal]) continue;
+    kept.push({ ...r, copper: null, iron: null, manganese: null, [metal]: r[metal] });
+  }
+  return kept;
+}
+
+/**
+ * The alerts, and the readings they were worked out from: every pool of the
+ * company on the watched sources, with the metals asked to be read (at least
+ * the alert's metal), so a caller needing the same rows does not read them again.
+ */
+export async function sourceAlertsWithReadings(
+  scope: Scope,
+  params: AnalyticsParams & { sourceIds?: readonly number[] },
+  metalsToRead: readonly Metal[],
+): Promise<SharedSourceAlerts & { readings: MetalTest[] }> {
+  const visibleSources = await db()
+    .selectDistinct({ id: pools.fillSourceId })
+    .from(pools)
+    .where(
+      and(
+        tenantCondition({ scope }),
+        isNotNull(pools.fillSourceId),
+        params.sourceIds ? inArray(pools.fillSourceId, [...params.sourceIds]) : undefined,
+      ),
+    );
+  const sourceIds = visibleSources.map((s) => s.id!).filter((id) => id !== null);
+  if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0, readings: [] };
+
+  const companyWide = { companyId: scope.companyId };
+  const [sourcePools, sources, active] = await Promise.all([
+    db()
+      .select({ id: pools.id })
+      .from(pools)
+      .where(and(tenantCondition(companyWide), inArray(pools.fillSourceId, sourceIds))),
+    db()
+      .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
+      .from(fillSources)
+      .where(and(eq(fillSources.companyId, scope.companyId), inArray(fillSources.id, sourceIds))),
+    db()
+      .select({ sourceId: pools.fillSourceId, n: count() })
+      .from(pools)
+      .where(and(tenantCondition(companyWide), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
+      .groupBy(pools.fillSourceId),
+  ]);
+  const poolIds = sourcePools.map((p) => p.id);
+  const metals = params.metal ? [params.metal] : METALS;
+  const [readings, book, visible] = await Promise.all([
+    metalReadings(companyWide, { window: params.window, metals: params.metal ? metalsToRead : METALS, poolIds }),
+    poolProfiles(companyWide, { poolIds }),
+    db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, poolIds))),
+  ]);
+  const alertReadings = params.metal && metalsToRead.some((m) => m !== params.metal) ? onlyMetal(readings, params.metal) : readings;
+  const history = analyseMetalHistory(alertReadings, { thresholds: params.thresholds, metals });
+  const activePools = new Map(active.map((a) => [String(a.sourceId), a.n]));
+  const found = sharedSourceAlerts(history.episodes, book.profiles, { activePools });
+  // Lookups by id, built once: a large route book has hundreds of sources.
+  const sourceById = new Map(sources.map((s) => [String(s.id), s]));
+  const streets = new Map(visible.map((p) => [String(p.id), p.street]));
+  return { alerts: found.map((a) => describe(a, sourceById, streets)).reverse(), sourcesWatched: sourceIds.length, readings };
+}
+
+function describe(
+  alert: SharedSourceAlert,
+  sources: ReadonlyMap<string, { name: string; kind: string }>,
+  streets: ReadonlyMap<string, string>,
+): SourceAlert {
+  const source = sources.get(alert.fillSourceId);
+  const named = alert.poolIds.filter((id) => streets.has(id));
+  return {
+    fillSourceId: Number(alert.fillSourceId),
+    sourceName: source?.name ?? "",
+    sourceKind: source?.kind ?? "other",
+    metal: alert.metal,
+    firstOpeningAt: isoInstant(alert.firstOpeningAt)!,
+    lastOpeningAt: isoInstant(alert.lastOpeningAt)!,
+    poolCount: alert.poolIds.length,
+    activePools: alert.activePools,
+    poolsRequired: alert.poolsRequired,
+    pools: named.map((id) => ({ poolId: Number(id), street: streets.get(id)! })),
+    poolsOutsideScope: alert.poolIds.length - named.length,
+  };
+}

@@ -1,0 +1,182 @@
+import { and, inArray, isNotNull, or } from "drizzle-orm";
+import { DAY_MS } from "@analysis/metals/episodes";
+import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
+import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type OutcomeTest } from "@analysis/outcomes/treatments";
+import { CATEGORY_WORDS } from "~/lib/analytics/labels";
+import { isoInstant, jsonInterval, type JsonInterval } from "@analysis/json-shapes";
+import { db } from "../../db/client";
+import { pools, waterTests } from "../../db/schema";
+import type { Scope } from "../../scope";
+import { anyMetalMeasured, treatmentRows, waterTestReadings } from "./metal-readings";
+import { tenantCondition, isWithin, type TimeWindow } from "./tenant-and-window";
+
+export type OutcomeParams = { window: TimeWindow; thresholds: MetalThresholds; metal: Metal; arm: ArmDimension };
+
+export type CurvePoint = { day: number; stillElevated: number; lower: number; upper: number; atRisk: number; cleared: number; censored: number };
+
+export type ArmFigures = {
+  courses: number;
+  pools: number;
+  tooFewToCompare: boolean;
+  /** Percent fall from baseline at the first follow-up 3 to 10 days later. */
+  reduction: { count: number; median: number | null; mean: number | null };
+  /** Kaplan-Meier share of courses still not clear, day by day. */
+  timeToClear: { curve: CurvePoint[]; medianDays: number | null; medianLower: number | null; medianUpper: number | null; cleared: number };
+  clearedPools: number;
+  recurrence: { recurred: number; followed: number; share: JsonInterval | null };
+  totalCost: number;
+  costComplete: boolean;
+  costPerClearedPool: number | null;
+};
+
+export type OutcomeArm = ArmFigures & { arm: string; label: string; byPh: { inside: ArmFigures; outside: ArmFigures; unknown: ArmFigures } };
+
+export type TreatmentOutcomes = {
+  metal: Metal;
+  arm: ArmDimension;
+  rules: { minPoolsToCompare: number; phBand: { low: number; high: number }; followUpDays: number; recurrenceAfterClearDays: number };
+  courses: number;
+  eligibleCourses: number;
+  ineligible: Record<string, number>;
+  arms: OutcomeArm[];
+  escalation: Array<{ poolId: number; street: string; coursesWithoutClearing: number; since: string }>;
+};
+
+function figures(result: ArmResult): ArmFigures {
+  const curve = [
+    { day: 0, stillElevated: 1, lower: 1, upper: 1, atRisk: result.timeToClear.observations, cleared: 0, censored: 0 },
+    ...result.timeToClear.steps.map((s) => ({
+      day: s.time,
+      stillElevated: s.survival,
+      lower: s.lower,
+      upper: s.upper,
+      atRisk: s.atRisk,
+      cleared: s.events,
+      censored: s.censored,
+    })),
+  ];
+  return {
+    courses: result.courses,
+    pools: result.pools,
+    tooFewToCompare: result.tooFewToCompare,
+    reduction: result.reduction,
+    timeToClear: {
+      curve,
+      medianDays: result.timeToClear.median,
+      medianLower: result.timeToClear.medianLower,
+      medianUpper: result.timeToClear.medianUpper,
+      cleared: result.clearedCourses,
+    },
+    clearedPools: result.clearedPools,
+    recurrence: { ...result.recurrence, share: result.recurrence.share ? jsonInterval(result.recurrence.share) : null },
+    totalCost: result.totalCost,
+    costComplete: result.costComplete,
+    costPerClearedPool: result.costPerClearedPool,
+  };
+}
+
+// Tests this long after a treatment still matter: 30 days of follow-up, then
+// 90 days in which a cleared metal may come back, with room for a late visit.
+const FOLLOW_DAYS_AFTER = DEFAULT_OUTCOME_RULES.followUpDays + DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays + 30;
+const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
+
+const COURSE_CATEGORIES = ["sequestrant", "collector_pad", "ph_decreaser"] as const;
+
+/**
+ * Keeps the tests taken from the baseline look-back before to the end of the
+ * recurrence check after any metal treatment of their pool. Tests and
+ * treatments both come ordered by pool and time, so one pass with a moving
+ * pointer into the treatments does it.
+ */
+export function testsNearTreatments(tests: readonly OutcomeTest[], applied: ReadonlyArray<{ poolId: string; appliedAt: number }>): OutcomeTest[] {
+  const before = LOOK_DAYS_BEFORE * DAY_MS;
+  const after = FOLLOW_DAYS_AFTER * DAY_MS;
+  const timesByPool = new Map<string, number[]>();
+  for (const t of applied) {
+    const times = timesByPool.get(t.poolId);
+    if (times) times.push(t.appliedAt);
+    else timesByPool.set(t.poolId, [t.appliedAt]);
+  }
+  const kept: OutcomeTest[] = [];
+  let poolId: string | null = null;
+  let times: number[] = [];
+  let next = 0;
+  for (const test of tests) {
+    if (test.poolId !== poolId) {
+      poolId = test.poolId;
+      times = timesByPool.get(poolId) ?? [];
+      next = 0;
+    }
+    // Treatments whose follow-up ended before this test cannot reach any later test either.
+    while (next < times.length && times[next]! + after < test.takenAt) next++;
+    const earliest = times[next];
+    if (earliest !== undefined && earliest - before <= test.takenAt) kept.push(test);
+  }
+  return kept;
+}
+
+/**
+ * How metal treatments did: per product, category or combination, the fall
+ * at the first follow-up, Kaplan-Meier time to clear, recurrence after
+ * clearing and cost per cleared pool, each also split by pH at treatment.
+ */
+export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
+  // Every metal treatment bounds the tests kept; only those in the window form courses.
+  const everyApplied = await treatmentRows({ scope }, { categories: COURSE_CATEGORIES });
+  const applied = everyApplied.filter((t) => isWithin(t.appliedAt, params.window));
+  const courses = buildCourses(applied);
+  const treatedPools = [...new Set(courses.map((c) => Number(c.poolId)))];
+  const read = await waterTestReadings({ scope }, { poolIds: treatedPools, with: { ph: true }, where: or(anyMetalMeasured(), isNotNull(waterTests.ph)) });
+  const tests = testsNearTreatments(read, everyApplied);
+  const outcomes = courseOutcomes(courses, tests, params.metal, { thresholds: params.thresholds });
+  const summaries = summariseOutcomes(outcomes, params.arm);
+
+  const productNames = new Map(applied.map((t) => [t.productId, t.productName]));
+  // Parts of a combination are named in alphabetical order, whatever their ids.
+  const joinNames = (names: string[]) => names.sort((a, b) => a.localeCompare(b)).join(" + ");
+  const label = (arm: string) => {
+    if (params.arm === "product") return productNames.get(arm) ?? arm;
+    if (params.arm === "category") return CATEGORY_WORDS[arm] ?? arm;
+    if (params.arm === "combination") return joinNames(arm.split(" + ").map((id) => productNames.get(id) ?? id));
+    return joinNames(arm.split(" + ").map((c) => CATEGORY_WORDS[c] ?? c));
+  };
+
+  const ineligible: Record<string, number> = {};
+  for (const o of outcomes) if (o.ineligible) ineligible[o.ineligible] = (ineligible[o.ineligible] ?? 0) + 1;
+
+  const hints = escalationDue(outcomes);
+  const streets = hints.length
+    ? new Map(
+        (await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, hints.map((h) => Number(h.poolId)))))).map(
+          (p) => [p.id, p.street],
+        ),
+      )
+    : new Map<number, string>();
+
+  return {
+    metal: params.metal,
+    arm: params.arm,
+    rules: {
+      minPoolsToCompare: DEFAULT_OUTCOME_RULES.minPoolsToCompare,
+      phBand: DEFAULT_OUTCOME_RULES.phBand,
+      followUpDays: DEFAULT_OUTCOME_RULES.followUpDays,
+      recurrenceAfterClearDays: DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays,
+    },
+    courses: outcomes.length,
+    eligibleCourses: outcomes.filter((o) => o.ineligible === null).length,
+    ineligible,
+    arms: summaries.map((s) => ({
+      arm: s.arm,
+      label: label(s.arm),
+      ...figures(s),
+      byPh: { inside: figures(s.byPh.inside), outside: figures(s.byPh.outside), unknown: figures(s.byPh.unknown) },
+    })),
+    escalation: hints.map((h) => ({
+      poolId: Number(h.poolId),
+      street: streets.get(Number(h.poolId)) ?? "",
+      coursesWithoutClearing: h.coursesWithoutClearing,
+      since: isoInstant(h.since)!,
+    })),
+  };
+}

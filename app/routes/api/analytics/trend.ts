@@ -1,9 +1,0 @@
-import { readAnalyticsRequest } from "~/.server/analytics-request";
-import { metalTrend } from "~/.server/queries/analytics/metal-trend";
-import { trendQuery } from "~/lib/analytics/params";
-import type { Route } from "./+types/trend";
-
-export async function loader({ request, context }: Route.LoaderArgs) {
-  const { scope, query, window } = await readAnalyticsRequest(request, context, "overview", trendQuery, "api");
-  return Response.json(await metalTrend(scope, window, query.metal ?? null));
-}

@@ -1,0 +1,39 @@
+import { redirect } from "react-router";
+import { requireArea } from "~/.server/guard";
+import { refusedAnswer } from "~/.server/command-result";
+import { saveProduct } from "~/.server/routebook/commands/products";
+import { PageHeader } from "~/components/data-table";
+import { ErrorPanel } from "~/components/error-panel";
+import { ProductForm } from "~/components/routebook/simple-forms";
+import { formObject } from "~/lib/forms/fields";
+import { parseProductForm } from "~/lib/forms/routebook";
+import type { Route } from "./+types/products.new";
+
+export const meta: Route.MetaFunction = () => [{ title: "New product · Patina" }];
+
+export async function loader({ context }: Route.LoaderArgs) {
+  requireArea(context, "routebookEdit");
+  return null;
+}
+
+export async function action({ request, context }: Route.ActionArgs) {
+  const scope = requireArea(context, "routebookEdit");
+  const parsed = parseProductForm(formObject(await request.formData()));
+  if (!parsed.ok) return refusedAnswer({ fieldErrors: parsed.fieldErrors, formError: null });
+  const result = await saveProduct(scope, null, parsed.value);
+  if (!result.ok) return refusedAnswer(result);
+  throw redirect("/products");
+}
+
+export default function NewProduct({ actionData }: Route.ComponentProps) {
+  return (
+    <div>
+      <PageHeader title="New product" />
+      <ProductForm product={null} answer={actionData} />
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}

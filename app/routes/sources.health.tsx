@@ -1,0 +1,145 @@
+import { Link } from "react-router";
+import { METALS } from "@analysis/metals/reading";
+import { readAnalyticsRequest } from "~/.server/analytics/request";
+import { sourceHealth, type PoolMetalState } from "~/.server/analytics/queries/source-health";
+import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { SourceTestChart } from "~/components/analytics/source-test-chart";
+import { ErrorPanel } from "~/components/error-panel";
+import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
+import { sourceHealthQuery } from "~/lib/analytics/params";
+import { formatDate } from "~/lib/format";
+import { SOURCE_KIND_LABELS, labelOf } from "~/lib/labels";
+import { METAL_LABELS } from "@analysis/metals/names";
+import type { Route } from "./+types/sources.health";
+
+export const meta: Route.MetaFunction = () => [{ title: "Source health · Patina" }];
+
+const PARAMS = ["from", "to", "route", "metal"] as const;
+
+export async function loader({ request, context }: Route.LoaderArgs) {
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "sources", sourceHealthQuery, "page");
+  const report = await sourceHealth(scope, { window, thresholds, metal: query.metal ?? null });
+  return {
+    search: loaderSearch(request, PARAMS),
+    timeZone: scope.timeZone,
+    technician: scope.role === "technician",
+    report,
+  };
+}
+
+export const shouldRevalidate = onlyOnNewPath;
+
+const STATE_WORDS: Record<PoolMetalState, string> = { open: "▲ episode open", clear: "● no open episode", "not-tested": "○ not tested" };
+const STATE_CLASS: Record<PoolMetalState, string> = { open: "text-alert font-medium", clear: "text-verdigris-700", "not-tested": "text-muted" };
+
+export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
+  const params = useSearchObject(PARAMS);
+  const query = useSeededQuery(analyticsQueries.sources(params), { search: loaderData.search, data: loaderData.report });
+  const report = query.data;
+  const { timeZone, technician } = loaderData;
+  const flagged = report.sources.filter((s) => s.flagged);
+
+  return (
+    <div className="space-y-6">
+      <header>
+        <h1 className="text-2xl font-semibold tracking-tight">Source health</h1>
+        <p className="text-muted">
+          {technician
+            ? "The fill sources of the pools on your routes, and which of your pools share a source that set off an alert."
+            : "Each fill source with its pools, their metal state, the source's own water tests and its alerts."}
+        </p>
+      </header>
+      <FilterBar metal />
+      <QueryState isFetching={query.isFetching} error={query.error} />
+
+      <p role="status" className={`rounded-xl border p-4 ${flagged.length ? "border-alert/50 bg-white" : "border-line bg-white"}`}>
+        {flagged.length === 0
+          ? "No fill source set off a shared-source alert in this window."
+          : `${flagged.length} flagged ${flagged.length === 1 ? "source" : "sources"}: ${flagged.map((s) => s.name).join(", ")}. ${
+              technician ? "Your pools on them" : "Pools you can see on them"
+            }: ${report.flaggedPoolsInScope}.`}
+      </p>
+
+      {report.sources.length === 0 ? (
+        <p className="rounded-xl border border-line bg-white p-4 text-muted">
+          {technician ? "No pool on your routes is linked to a fill source yet." : "No fill source is recorded in the route book yet."}
+        </p>
+      ) : (
+        <ul className="space-y-4">
+          {report.sources.map((source) => (
+            <li key={source.fillSourceId} className="space-y-3 rounded-xl border border-line bg-white p-4">
+              <div className="flex flex-wrap items-baseline justify-between gap-2">
+                <h2 className="text-lg font-semibold">
+                  {source.name}
+                  {source.flagged ? <span className="ml-2 rounded bg-alert px-2 py-0.5 text-xs font-semibold text-white">flagged</span> : null}
+                </h2>
+                <span className="text-sm text-muted">
+                  {labelOf(SOURCE_KIND_LABELS, source.kind)} · {source.activePools} active pools in the company
+                </span>
+              </div>
+              {source.alerts.length > 0 ? (
+                <ul className="space-y-1 text-sm">
+                  {source.alerts.map((a) => (
+                    <li key={`${a.metal}-${a.firstOpeningAt}`}>
+                      <span className="font-medium">{METAL_LABELS[a.metal]}</span>: {a.poolCount} pools opened an episode between{" "}
+                      {formatDate(a.firstOpeningAt, timeZone)} and {formatDate(a.lastOpeningAt, timeZone)}
+                      {a.pools.length > 0 ? ` (${technician ? "on your routes" : "pools"}: ${a.pools.map((p) => p.street).join(", ")})` : ""}
+                      {a.poolsOutsideScope > 0 ? `, ${a.poolsOutsideScope} on other routes` : ""}.
+                    </li>
+                  ))}
+                </ul>
+              ) : null}
+              {source.pools.length === 0 ? (
+                <p className="text-sm text-muted">No active pool in your view draws from this source.</p>
+              ) : (
+                <div className="overflow-x-auto">
+                  <table className="w-full text-left text-sm">
+                    <caption className="sr-only">Pools on {source.name} and their metal state</caption>
+                    <thead className="border-b border-line text-muted">
+                      <tr>
+                        <th scope="col" className="py-1 pr-3 font-medium">Pool</th>
+                        {METALS.map((m) => (
+                          <th key={m} scope="col" className="py-1 pr-3 font-medium">
+                            {METAL_LABELS[m]}
+                          </th>
+                        ))}
+                      </tr>
+                    </thead>
+                    <tbody className="divide-y divide-line">
+                      {source.pools.map((p) => (
+                        <tr key={p.poolId}>
+                          <td className="py-1 pr-3">
+                            <Link to={`/pools/${p.poolId}`} className="font-medium text-verdigris-700 underline">
+                              {p.street}
+                            </Link>
+                            <span className="block text-xs text-muted">{p.routeName ?? "no route"}</span>
+                          </td>
+                          {METALS.map((m) => (
+                            <td key={m} className={`py-1 pr-3 ${STATE_CLASS[p.metals[m].state]}`}>
+                              {STATE_WORDS[p.metals[m].state]}
+                            </td>
+                          ))}
+                        </tr>
+                      ))}
+                    </tbody>
+                  </table>
+                </div>
+              )}
+              {source.sourceTests.length > 0 || source.flagged || source.kind !== "municipal" ? (
+                <SourceTestChart name={source.name} tests={source.sourceTests} />
+              ) : null}
+            </li>
+          ))}
+        </ul>
+      )}
+      <p className="text-xs text-muted">
+        A shared-source alert: at least 3 pools, and at least a quarter of the source's active pools, opened an episode of the same metal within
+        21 days (common practice).
+      </p>
+    </div>
+  );
+}
+
+export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
+  return <ErrorPanel error={error} />;
+}
