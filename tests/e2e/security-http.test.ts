@@ -102,6 +102,7 @@ const SPECS: Record<string, Spec> = {
   "routes/reset-password.tsx": { kind: "public" },
   "routes/unsubscribe.$token.tsx": { kind: "public" },
   "routes/app-layout.tsx": { kind: "layout" },
+  "routes/api-layout.ts": { kind: "layout" },
   "routes/_index.tsx": area("home"),
   "routes/team.tsx": area("team"),
   "routes/settings.tsx": area("settings"),
@@ -315,10 +316,11 @@ function expectedStatus(
 ): Expectation {
   if (spec.kind !== "area")
     throw new Error("only area routes have a computed expectation");
-  // A POST-only route answers GET with 405 before asking who calls: the method names nothing.
-  if (method === "GET" && spec.postOnly) return [405];
   const role = roleOf(who);
+  // The layouts' middleware asks for a session before any route code runs.
   if (role === null) return api ? [401] : [302];
+  // A POST-only route answers a signed-in GET with 405 before its role check: the method names nothing.
+  if (method === "GET" && spec.postOnly) return [405];
   const areaOfRequest =
     method === "POST" ? (spec.actionArea ?? spec.area) : spec.area;
   if (!(AREA_ROLES[areaOfRequest] as readonly RoleName[]).includes(role))
