@@ -1,6 +1,6 @@
 import { execFileSync, type ChildProcess } from "node:child_process";
 import { resetTestDatabase, TEST_DATABASE_URL } from "../fixtures/database";
-import { startBuiltServer } from "../fixtures/server";
+import { BROWSER_TEST_SMTP_URL, startBuiltServer } from "../fixtures/server";
 
 let server: ChildProcess | undefined;
 
@@ -10,7 +10,8 @@ export default async function setup() {
     env: { ...process.env, DATABASE_URL: TEST_DATABASE_URL },
     stdio: "inherit",
   });
-  server = await startBuiltServer(TEST_DATABASE_URL);
+  // The global setup does not get the project's env, so the mail URL is passed on by hand.
+  server = await startBuiltServer(TEST_DATABASE_URL, { env: { PATINA_SMTP_URL: BROWSER_TEST_SMTP_URL } });
   return async () => {
     server?.kill("SIGTERM");
   };

@@ -5,13 +5,13 @@ import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { type MailSink, readStoredMail, startMailSink } from "../../.dev/mail-sink";
 import { launchBrowser, phoneContext } from "../fixtures/browser";
-import { BROWSER_TEST_URL } from "../fixtures/server";
+import { BROWSER_TEST_SMTP_URL, BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
-// The built server sends to PATINA_SMTP_URL (inherited from this run). This file
+// The built server sends to BROWSER_TEST_SMTP_URL. This file
 // listens there itself unless a sink started by the test script already does;
 // that one's folder is then read from PATINA_MAIL_SINK_DIR.
-const smtpPort = Number(new URL(process.env.PATINA_SMTP_URL ?? "smtp://127.0.0.1:2525").port);
+const smtpPort = Number(new URL(BROWSER_TEST_SMTP_URL).port);
 
 let browser: Browser;
 let ownSink: (MailSink & { dir: string }) | null = null;
