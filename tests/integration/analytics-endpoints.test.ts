@@ -12,16 +12,8 @@ import * as summaryApi from "~/routes/api.analytics.summary";
 import * as trendApi from "~/routes/api.analytics.trend";
 import * as recurringPage from "~/routes/recurring";
 import * as poolPage from "~/routes/pools.$poolId";
-import {
-  addTest,
-  createCompany,
-  createFillSource,
-  createMember,
-  createPool,
-  createRoute,
-  type FixtureMember,
-  requestAs,
-} from "../fixtures/company";
+import { addTest, type FixtureMember, requestAs } from "../fixtures/company";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute, type RouteFunction } from "../fixtures/route-call";
 
 // The fixed route book (company time zone UTC; default levels, common practice
@@ -43,13 +35,27 @@ import { callRoute, type RouteFunction } from "../fixtures/route-call";
 //
 // A pool of another company reads iron 0.90 in March: it must never appear.
 
-let owner: FixtureMember;
-let manager: FixtureMember;
-let analyst: FixtureMember;
-let technician: FixtureMember;
-let otherOwner: FixtureMember;
-const P: Record<string, number> = {};
-let S1 = 0;
+const book = routeBookPerFile({
+  routes: { r1: "Route one", r2: { name: "Route two", weekdays: "2" } },
+  sources: { S1: { name: "Well one", kind: "shared_well" }, s2: "Town main" },
+  pools: {
+    P1: { route: "r1", street: "1 Alder Way", source: "S1" },
+    P2: { route: "r1", street: "2 Alder Way", source: "S1" },
+    P3: { route: "r2", street: "3 Birch Way", source: "S1" },
+    P4: { route: "r2", street: "4 Birch Way", source: "s2" },
+    P5: { route: "r1", street: "5 Alder Way", source: "s2" },
+  },
+  members: { owner: "owner", manager: "manager", analyst: "analyst", technician: { role: "technician", routes: ["r1"] } },
+});
+const { owner, manager, analyst, technician } = book.member;
+const P = book.pool;
+const elsewhere = routeBookPerFile({
+  routes: { elsewhere: "Elsewhere" },
+  sources: { theirs: { name: "Their well", kind: "shared_well" } },
+  pools: { X1: { route: "elsewhere", source: "theirs" } },
+  members: { owner: "owner" },
+});
+const otherOwner = elsewhere.member.owner;
 let seqA = 0;
 let padB = 0;
 
@@ -58,16 +64,7 @@ const balanced = { ph: 7.5, temperatureC: 28.9, calciumHardness: 300, totalAlkal
 const scaleForming = { ph: 8.0, temperatureC: 28.9, calciumHardness: 400, totalAlkalinity: 150 };
 
 beforeAll(async () => {
-  const companyId = await createCompany();
-  const r1 = await createRoute(companyId, "Route one", "1");
-  const r2 = await createRoute(companyId, "Route two", "2");
-  S1 = await createFillSource(companyId, "Well one", "shared_well");
-  const s2 = await createFillSource(companyId, "Town main", "municipal");
-  P.P1 = await createPool(companyId, { routeId: r1, accountCode: "P1", street: "1 Alder Way", fillSourceId: S1 });
-  P.P2 = await createPool(companyId, { routeId: r1, accountCode: "P2", street: "2 Alder Way", fillSourceId: S1 });
-  P.P3 = await createPool(companyId, { routeId: r2, accountCode: "P3", street: "3 Birch Way", fillSourceId: S1 });
-  P.P4 = await createPool(companyId, { routeId: r2, accountCode: "P4", street: "4 Birch Way", fillSourceId: s2 });
-  P.P5 = await createPool(companyId, { routeId: r1, accountCode: "P5", street: "5 Alder Way", fillSourceId: s2 });
+  const { companyId } = book;
   const at = (day: string) => `2025-${day}T10:00:00Z`;
 
   await addTest(companyId, P.P1, at("01-01"), { iron: 0.05 });
@@ -115,18 +112,8 @@ beforeAll(async () => {
       { companyId, poolId: P.P2, productId: padB, appliedAt: new Date(at("03-08")), amount: 1, unit: "each", cost: 25 },
     ]);
 
-  owner = await createMember(companyId, "owner");
-  manager = await createMember(companyId, "manager");
-  analyst = await createMember(companyId, "analyst");
-  technician = await createMember(companyId, "technician", [r1]);
-
-  const other = await createCompany();
-  const otherRoute = await createRoute(other, "Elsewhere", "1");
-  const otherSource = await createFillSource(other, "Their well", "shared_well");
-  const otherPool = await createPool(other, { routeId: otherRoute, accountCode: "X1", fillSourceId: otherSource });
-  await addTest(other, otherPool, at("03-05"), { iron: 0.9, ...corrosive });
-  await addTest(other, otherPool, at("03-25"), { iron: 0.95 });
-  otherOwner = await createMember(other, "owner");
+  await addTest(elsewhere.companyId, elsewhere.pool.X1, at("03-05"), { iron: 0.9, ...corrosive });
+  await addTest(elsewhere.companyId, elsewhere.pool.X1, at("03-25"), { iron: 0.95 });
 });
 
 afterAll(closeDatabase);
@@ -367,7 +354,7 @@ describe("GET /api/analytics/alerts", () => {
     // P1's 06-01 opening stands alone. Town main: one copper opening only.
     expect(body.alerts).toHaveLength(1);
     expect(body.alerts[0]).toMatchObject({
-      fillSourceId: S1,
+      fillSourceId: book.source.S1,
       sourceName: "Well one",
       metal: "iron",
       firstOpeningAt: "2025-03-01T10:00:00.000Z",
