@@ -125,6 +125,12 @@ const get = async (fn: RouteFunction, member: FixtureMember | null, path: string
   const outcome = await callRoute(fn, requestAs(member, path), params);
   return { status: outcome.status, body: outcome.body as Body };
 };
+/** The body of an answer that must be a 200. */
+const getOk = async (...args: Parameters<typeof get>) => {
+  const { status, body } = await get(...args);
+  expect(status).toBe(200);
+  return body;
+};
 
 const YEAR = 365.25;
 // Every pool is observed from 01-01 to 12-31: 364 days.
@@ -167,8 +173,7 @@ describe("guard and errors", () => {
 
 describe("GET /api/analytics/groups", () => {
   it("by fill source for iron: openings per pool-year with exact intervals, small groups marked", async () => {
-    const { status, body } = await get(groupsApi.loader, owner, "/api/analytics/groups?grouping=fill-source&metal=iron");
-    expect(status).toBe(200);
+    const body = await getOk(groupsApi.loader, owner, "/api/analytics/groups?grouping=fill-source&metal=iron");
     expect(body.pools).toBe(5); // the other company's pool is not counted
     expect(body.openings).toBe(4); // P1 x2, P2, P3
     const well = body.groups.find((g: Body) => g.label === "Well one");
@@ -227,8 +232,7 @@ describe("GET /api/analytics/groups", () => {
 
 describe("GET /api/analytics/recurring", () => {
   it("lists recurring and chronic pools with their episodes", async () => {
-    const { status, body } = await get(recurringApi.loader, analyst, "/api/analytics/recurring");
-    expect(status).toBe(200);
+    const body = await getOk(recurringApi.loader, analyst, "/api/analytics/recurring");
     // P1: two iron openings 92 days apart (recurring) and a 213-day episode (chronic).
     // P3: one iron episode open 286 days (chronic). P2 and P5: one 14-day episode each.
     expect(body.recurringPools).toBe(1);
@@ -307,8 +311,7 @@ describe("GET /api/analytics/recurring", () => {
 
   it("gives the page's first paint only the first pools listed at the company's levels, with the counts of the whole list", async () => {
     // Listed at the default levels: P1 (recurring, chronic) and P3 (chronic); P2 and P5 have one 14-day episode each.
-    const { status, body } = await get(recurringPage.loader, analyst, "/recurring");
-    expect(status).toBe(200);
+    const body = await getOk(recurringPage.loader, analyst, "/recurring");
     expect(body.data.firstListed).toEqual({ recurringPools: 1, chronicPools: 2, listedPools: 2 });
     expect(body.data.readings.map((r: Body) => r.poolId)).toEqual([P.P1, P.P3]);
     // P3: 01-01 -> 03-20 is 31 + 28 + 19 = 78 days; 03-20 -> 12-31 is 12 (to 04-01) + 244 (April to November) + 30 = 286 days.
@@ -455,8 +458,7 @@ describe("GET /api/analytics/trend", () => {
 
 describe("GET /api/analytics/outcomes", () => {
   it("follows each product's courses on iron: reduction, time to clear, recurrence, cost", async () => {
-    const { status, body } = await get(outcomesApi.loader, manager, "/api/analytics/outcomes?metal=iron&arm=product");
-    expect(status).toBe(200);
+    const body = await getOk(outcomesApi.loader, manager, "/api/analytics/outcomes?metal=iron&arm=product");
     // Courses: P1 Seq A on 03-01; P2 Seq A + Pad B on 03-08 (same day: one course).
     expect(body.courses).toBe(2);
     expect(body.eligibleCourses).toBe(2);
@@ -512,8 +514,7 @@ describe("GET /api/analytics/outcomes", () => {
 
 describe("GET /api/analytics/pools/:poolId/evidence", () => {
   it("lists evidence for each episode, with its reason", async () => {
-    const { status, body } = await get(evidenceApi.loader, technician, `/api/analytics/pools/${P.P1}/evidence`, { poolId: String(P.P1) });
-    expect(status).toBe(200);
+    const body = await getOk(evidenceApi.loader, technician, `/api/analytics/pools/${P.P1}/evidence`, { poolId: String(P.P1) });
     expect(body.episodes).toHaveLength(2);
     const [later, earlier] = body.episodes; // newest first
     // Both: iron on a shared well. The 03-01 onset also falls inside Well one's alert (03-01..03-20).
@@ -523,8 +524,7 @@ describe("GET /api/analytics/pools/:poolId/evidence", () => {
   });
 
   it("is shown on the pool page with the same episodes", async () => {
-    const { status, body } = await get(poolPage.loader, technician, `/pools/${P.P1}`, { poolId: String(P.P1) });
-    expect(status).toBe(200);
+    const body = await getOk(poolPage.loader, technician, `/pools/${P.P1}`, { poolId: String(P.P1) });
     expect(body.metalEvidence.episodes).toHaveLength(2);
     expect(body.metalEvidence.episodes[0].evidence.map((e: Body) => e.kind)).toEqual(["iron-with-well-water"]);
   });
