@@ -12,18 +12,7 @@ import type { MetalReading } from "../../analysis/metals/reading";
 import type { PoolProfile } from "../../analysis/metals/route-book";
 import { groupComparison } from "../../analysis/stats/groups";
 import { sharedSourceAlerts } from "../../analysis/metals/shared-source";
-
-/** Deterministic 32-bit generator (mulberry32) so every run sees the same data. */
-function seededRandom(seed: number): () => number {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
+import { seededRandom } from "../fixtures/seeded-random";
 
 /**
  * Weekly tests for pools with about two years of history each. Each pool

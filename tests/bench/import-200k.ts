@@ -15,6 +15,7 @@ import { once } from "node:events";
 import { performance } from "node:perf_hooks";
 import type { Connection } from "mysql2";
 import type { Scope } from "~/.server/scope";
+import { seededRandom } from "../fixtures/seeded-random";
 
 const ROWS = Number(process.argv[2] ?? 200_000);
 const POOLS = 1_000;
@@ -38,18 +39,6 @@ const sample = () => {
 };
 const sampler = setInterval(sample, 20);
 const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`;
-
-/** Deterministic 32-bit generator (mulberry32): every run sees the same file. */
-function seededRandom(seed: number) {
-  let a = seed >>> 0;
-  return () => {
-    a = (a + 0x6d2b79f5) >>> 0;
-    let t = a;
-    t = Math.imul(t ^ (t >>> 15), t | 1);
-    t ^= t + Math.imul(t ^ (t >>> 7), t | 61);
-    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
-  };
-}
 
 /** A messy spreadsheet export: °F, µg/L copper, "<0.1", "n/a", and one unreadable pH in every 1,000 rows. */
 function generateFile(rows: number): Uint8Array {

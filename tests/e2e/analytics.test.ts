@@ -1,19 +1,14 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import type { Page } from "playwright-core";
+import { afterAll, describe, expect, it } from "vitest";
 import type { DemoUserKey } from "../../drizzle/seed/names";
-import { launchBrowser } from "../fixtures/browser";
+import { browserPerFile } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
+const browser = browserPerFile();
 
 afterAll(async () => {
   for (const page of pages.values()) await page.context().close();
-  await browser?.close();
 });
 
 // Sign-in is rate limited, so each member signs in once and keeps their page.
@@ -25,7 +20,7 @@ async function signedIn(key: DemoUserKey, path: string): Promise<Page> {
     await open.goto(`${BROWSER_TEST_URL}${path}`);
     return open;
   }
-  const context = await browser.newContext({ viewport: { width: 1200, height: 900 } });
+  const context = await browser().newContext({ viewport: { width: 1200, height: 900 } });
   const page = await context.newPage();
   pages.set(key, page);
   await signInAs(page, key, path);

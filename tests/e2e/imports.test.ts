@@ -1,23 +1,14 @@
 import { fileURLToPath } from "node:url";
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { DEMO_USERS } from "../../drizzle/seed/names";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 describe("an analyst imports an old log", () => {
   it("uploads a file, changes one column's meaning and imports it", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await signInAs(page, "analyst");
     await page.getByRole("navigation", { name: "Main" }).getByRole("link", { name: "Imports" }).click();

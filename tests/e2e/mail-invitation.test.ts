@@ -1,10 +1,9 @@
 import { mkdtemp, rm } from "node:fs/promises";
 import { tmpdir } from "node:os";
 import path from "node:path";
-import type { Browser } from "playwright-core";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { type MailSink, readStoredMail, startMailSink } from "../../.dev/mail-sink";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_SMTP_URL, BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
@@ -13,11 +12,10 @@ import { signInAs } from "../fixtures/sign-in";
 // that one's folder is then read from PATINA_MAIL_SINK_DIR.
 const smtpPort = Number(new URL(BROWSER_TEST_SMTP_URL).port);
 
-let browser: Browser;
+const browser = browserPerFile();
 let ownSink: (MailSink & { dir: string }) | null = null;
 
 beforeAll(async () => {
-  browser = await launchBrowser();
   const dir = await mkdtemp(path.join(tmpdir(), "patina-e2e-mail-"));
   try {
     ownSink = { ...(await startMailSink({ port: smtpPort, storeDir: dir })), dir };
@@ -28,7 +26,6 @@ beforeAll(async () => {
 });
 
 afterAll(async () => {
-  await browser?.close();
   if (ownSink) {
     await ownSink.stop();
     await rm(ownSink.dir, { recursive: true, force: true });
@@ -38,7 +35,7 @@ afterAll(async () => {
 describe("an invitation sent from the team page", () => {
   it("is mailed, and its link signs the new member up in the owner's company with the chosen role", async () => {
     const invitee = `e2e-${Date.now()}@fixture.example`;
-    const ownerContext = await phoneContext(browser);
+    const ownerContext = await phoneContext(browser());
     const page = await ownerContext.newPage();
     await signInAs(page, "owner", "/team");
     await page.getByRole("heading", { level: 2, name: "Invite someone" }).waitFor();
@@ -71,7 +68,7 @@ describe("an invitation sent from the team page", () => {
       expect(received[0]!.text).toContain(link!);
     }
 
-    const inviteeContext = await phoneContext(browser);
+    const inviteeContext = await phoneContext(browser());
     const invitePage = await inviteeContext.newPage();
     await invitePage.goto(link!.replace(/^http:\/\/[^/]+/, BROWSER_TEST_URL));
     await invitePage.getByRole("heading", { name: /Join / }).waitFor();

@@ -1,18 +1,10 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 /** The names of the menu entries marked as the current page. */
 async function currentEntries(page: Page): Promise<string[]> {
@@ -21,7 +13,7 @@ async function currentEntries(page: Page): Promise<string[]> {
 
 describe("the main menu", () => {
   it("marks Fill sources on the list and on a source's page, and Source health only on its own page", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await signInAs(page, "owner");
     await expect.poll(() => new URL(page.url()).pathname).toBe("/");

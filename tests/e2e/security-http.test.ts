@@ -12,14 +12,8 @@ import { db } from "~/.server/db/client";
 import { products } from "~/.server/db/schema";
 import { type Area, AREA_ROLES, type RoleName } from "~/lib/roles";
 import routeConfig from "../../app/routes";
-import {
-  createCompany,
-  createFillSource,
-  createMember,
-  createPool,
-  createRoute,
-  type FixtureMember,
-} from "../fixtures/company";
+import { createCompany, createMember, type FixtureMember } from "../fixtures/company";
+import { createRouteBook } from "../fixtures/route-book";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 
 // ---------------------------------------------------------------- routes, from the route config
@@ -195,50 +189,44 @@ function hiddenFrom(who: Who): string[] {
 }
 
 beforeAll(async () => {
-  const companyA = await createCompany(A.company);
-  const routeA = await createRoute(companyA, A.route, "1");
-  const otherRouteA = await createRoute(companyA, "Second loop", "2");
-  ids.routeA = routeA;
-  ids.sourceA = await createFillSource(companyA, A.well, "shared_well");
-  ids.poolA = await createPool(companyA, {
-    routeId: routeA,
-    accountCode: "AM-1",
-    street: A.street,
-    fillSourceId: ids.sourceA,
+  const a = await createRouteBook({
+    company: A.company,
+    routes: { main: A.route, second: { name: "Second loop", weekdays: "2" } },
+    sources: { well: { name: A.well, kind: "shared_well" } },
+    pools: {
+      main: { route: "main", accountCode: "AM-1", street: A.street, source: "well" },
+      second: { route: "second", accountCode: "AM-2", street: "3 Quiet Close" },
+    },
+    members: {
+      owner: "owner",
+      manager: "manager",
+      analyst: "analyst",
+      technician: { role: "technician", routes: ["main"] },
+      offRoute: { role: "technician", routes: ["second"] },
+    },
   });
-  await createPool(companyA, {
-    routeId: otherRouteA,
-    accountCode: "AM-2",
-    street: "3 Quiet Close",
-  });
+  ids.routeA = a.route.main;
+  ids.sourceA = a.source.well;
+  ids.poolA = a.pool.main;
   const [product] = await db()
     .insert(products)
-    .values({ companyId: companyA, name: A.product, category: "sequestrant" })
+    .values({ companyId: a.companyId, name: A.product, category: "sequestrant" })
     .$returningId();
   ids.productA = product!.id;
 
-  const companyB = await createCompany(B.company);
-  const routeB = await createRoute(companyB, B.route, "1");
-  const sourceB = await createFillSource(companyB, B.well, "shared_well");
-  await createPool(companyB, {
-    routeId: routeB,
-    accountCode: "BM-1",
-    street: B.street,
-    fillSourceId: sourceB,
+  const b = await createRouteBook({
+    company: B.company,
+    routes: { main: B.route },
+    sources: { well: { name: B.well, kind: "shared_well" } },
+    pools: { main: { route: "main", accountCode: "BM-1", street: B.street, source: "well" } },
+    members: { owner: "owner" },
   });
 
   members.set("anonymous", null);
-  for (const role of ["owner", "manager", "analyst"] as const)
-    members.set(role, await createMember(companyA, role));
-  members.set(
-    "technician",
-    await createMember(companyA, "technician", [routeA]),
-  );
-  members.set(
-    "technician-off-route",
-    await createMember(companyA, "technician", [otherRouteA]),
-  );
-  members.set("other-company-owner", await createMember(companyB, "owner"));
+  for (const role of ["owner", "manager", "analyst", "technician"] as const)
+    members.set(role, a.member[role]);
+  members.set("technician-off-route", a.member.offRoute);
+  members.set("other-company-owner", b.member.owner);
 });
 
 // ---------------------------------------------------------------- requests
@@ -394,19 +382,13 @@ describe("access matrix generated from app/routes.ts", () => {
       const path = urlOf(leaf, spec);
       const api = leaf.path.startsWith("/api/");
       for (const who of IDENTITIES) {
+        const probePost = (expected: number[]) =>
+          check(leaf, who, "action", path, samePost(), expected);
         if (spec.kind === "public") {
           // Open to all; signed-in members may be sent on. Only a 500 or a leak fails.
           if (leaf.hasLoader || !leaf.resource)
             await check(leaf, who, "page", path, {}, [200, 302, 400, 404, 410]);
-          if (leaf.hasAction)
-            await check(
-              leaf,
-              who,
-              "action",
-              path,
-              samePost(),
-              [302, 400, 401, 404, 410, 429],
-            );
+          if (leaf.hasAction) await probePost([302, 400, 401, 404, 410, 429]);
           continue;
         }
         if (spec.kind === "auth-api") {
@@ -448,14 +430,7 @@ describe("access matrix generated from app/routes.ts", () => {
           }
         }
         if (leaf.hasAction)
-          await check(
-            leaf,
-            who,
-            "action",
-            path,
-            samePost(),
-            expectedStatus(spec, who, api, "POST"),
-          );
+          await probePost(expectedStatus(spec, who, api, "POST"));
       }
     }
     const wrong = rows

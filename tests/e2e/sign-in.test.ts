@@ -1,19 +1,10 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import { DEMO_USERS } from "../../drizzle/seed/names";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { demoEmail, demoMember, submitSignIn } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 const HOME_HEADINGS: Record<string, RegExp> = {
   owner: /The company at a glance/,
@@ -25,7 +16,7 @@ const HOME_HEADINGS: Record<string, RegExp> = {
 describe("each demo member signs in on a phone and sees their home page", () => {
   for (const member of DEMO_USERS) {
     it(`${member.key} (${member.role})`, async () => {
-      const context = await phoneContext(browser);
+      const context = await phoneContext(browser());
       const page = await context.newPage();
       const requestsElsewhere: string[] = [];
       page.on("request", (request) => {
@@ -53,7 +44,7 @@ describe("each demo member signs in on a phone and sees their home page", () => 
   }
 
   it("a wrong password gets a message on the page", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await page.goto(`${BROWSER_TEST_URL}/sign-in`);
     await submitSignIn(page, demoEmail(demoMember("owner")), "not-the-password");

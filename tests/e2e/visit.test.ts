@@ -1,22 +1,14 @@
-import type { Browser, BrowserContext, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import type { BrowserContext, Page } from "playwright-core";
+import { afterAll, describe, expect, it } from "vitest";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 describe("a technician logs a visit on a phone", () => {
   it("saves readings and a treatment, and sees them on the pool page", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await signInAsTechnician(page);
 
@@ -31,18 +23,10 @@ describe("a technician logs a visit on a phone", () => {
     // The live saturation index needs the page's script: wait until it has loaded.
     await page.waitForLoadState("networkidle");
 
-    await page.locator('input[name="ph"]').fill("7.5");
-    await page.locator('input[name="freeChlorine"]').fill("3");
-    await page.locator('input[name="totalAlkalinity"]').fill("90");
-    await page.locator('input[name="calciumHardness"]').fill("250");
-    await page.getByText("°F", { exact: true }).click();
-    await page.locator('input[name="temperature"]').fill("80");
-    await page.locator('input[name="copper"]').fill("<0.05");
+    await typeReadings(page, { ph: "7.5", freeChlorine: "3", totalAlkalinity: "90", calciumHardness: "250", temperature: "80", copper: "<0.05" });
     // pH 7.5 + TF(80 degF: 0.65) + CF(250: 2.0) + AF(90: 1.96) - 12.1 = 0.01: shown before saving.
     await expect.poll(() => page.locator("output").innerText()).toContain("balanced");
-    await page.getByLabel("Clean").check();
-    await page.getByLabel("Product 1").selectOption({ index: 1 });
-    await page.getByLabel("Amount").fill("2");
+    await noteCleanTreatment(page, "2");
     expect(await page.locator('input[inputmode="decimal"]').count()).toBeGreaterThan(10);
 
     await page.getByRole("button", { name: "Save visit" }).click();
@@ -56,6 +40,21 @@ describe("a technician logs a visit on a phone", () => {
     await context.close();
   });
 });
+
+/** Types each reading into its field, in order; the temperature in °F. */
+async function typeReadings(page: Page, readings: Record<string, string>) {
+  for (const [name, value] of Object.entries(readings)) {
+    if (name === "temperature") await page.getByText("°F", { exact: true }).click();
+    await page.locator(`input[name="${name}"]`).fill(value);
+  }
+}
+
+/** A clean hardness endpoint and a treatment with the first product of the list. */
+async function noteCleanTreatment(page: Page, amount: string) {
+  await page.getByLabel("Clean").check();
+  await page.getByLabel("Product 1").selectOption({ index: 1 });
+  await page.getByLabel("Amount").fill(amount);
+}
 
 async function signInAsTechnician(page: Page) {
   await signInAs(page, "tech1", "/pools");
@@ -83,7 +82,7 @@ describe("the visit form on a slow phone", () => {
   });
 
   it("keeps what was typed before the page's script arrived, and saves it", async () => {
-    context = await phoneContext(browser);
+    context = await phoneContext(browser());
     const page = await context.newPage();
     await signInAsTechnician(page);
     const visitUrl = await visitUrlOfPool(page, 1);
@@ -105,15 +104,8 @@ describe("the visit form on a slow phone", () => {
     await form.waitFor();
     expect(await form.getAttribute("data-live")).toBe("off");
 
-    await page.locator('input[name="ph"]').fill("7.3");
-    await page.locator('input[name="totalAlkalinity"]').fill("90");
-    await page.locator('input[name="calciumHardness"]').fill("250");
-    await page.getByText("°F", { exact: true }).click();
-    await page.locator('input[name="temperature"]').fill("80");
-    await page.locator('input[name="iron"]').fill("<0.05");
-    await page.getByLabel("Clean").check();
-    await page.getByLabel("Product 1").selectOption({ index: 1 });
-    await page.getByLabel("Amount").fill("3");
+    await typeReadings(page, { ph: "7.3", totalAlkalinity: "90", calciumHardness: "250", temperature: "80", iron: "<0.05" });
+    await noteCleanTreatment(page, "3");
     expect(await form.getAttribute("data-live")).toBe("off");
 
     releaseScripts();
@@ -133,15 +125,14 @@ describe("the visit form on a slow phone", () => {
   });
 
   it("works as a plain form without any script: refusals are shown beside the field and the typed values kept", async () => {
-    const noScript = await browser.newContext({ viewport: { width: 390, height: 844 }, javaScriptEnabled: false });
+    const noScript = await browser().newContext({ viewport: { width: 390, height: 844 }, javaScriptEnabled: false });
     await noScript.addCookies(await context.cookies());
     const page = await noScript.newPage();
     await page.goto(`${BROWSER_TEST_URL}/pools`);
     const visitUrl = await visitUrlOfPool(page, 2);
     await page.goto(visitUrl);
 
-    await page.locator('input[name="ph"]').fill("15");
-    await page.locator('input[name="freeChlorine"]').fill("2.5");
+    await typeReadings(page, { ph: "15", freeChlorine: "2.5" });
     await page.getByRole("button", { name: "Save visit" }).click();
     await page.locator("#ph-error").waitFor();
     expect(await page.locator("#ph-error").innerText()).toBe("pH: 15 is above the highest accepted value, 14.");

@@ -12,16 +12,8 @@ import * as summaryApi from "~/routes/api.analytics.summary";
 import * as trendApi from "~/routes/api.analytics.trend";
 import * as recurringPage from "~/routes/recurring";
 import * as poolPage from "~/routes/pools.$poolId";
-import {
-  addTest,
-  createCompany,
-  createFillSource,
-  createMember,
-  createPool,
-  createRoute,
-  type FixtureMember,
-  requestAs,
-} from "../fixtures/company";
+import { addTest, type FixtureMember, requestAs } from "../fixtures/company";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute, type RouteFunction } from "../fixtures/route-call";
 
 // The fixed route book (company time zone UTC; default levels, common practice
@@ -43,13 +35,27 @@ import { callRoute, type RouteFunction } from "../fixtures/route-call";
 //
 // A pool of another company reads iron 0.90 in March: it must never appear.
 
-let owner: FixtureMember;
-let manager: FixtureMember;
-let analyst: FixtureMember;
-let technician: FixtureMember;
-let otherOwner: FixtureMember;
-const P: Record<string, number> = {};
-let S1 = 0;
+const book = routeBookPerFile({
+  routes: { r1: "Route one", r2: { name: "Route two", weekdays: "2" } },
+  sources: { S1: { name: "Well one", kind: "shared_well" }, s2: "Town main" },
+  pools: {
+    P1: { route: "r1", street: "1 Alder Way", source: "S1" },
+    P2: { route: "r1", street: "2 Alder Way", source: "S1" },
+    P3: { route: "r2", street: "3 Birch Way", source: "S1" },
+    P4: { route: "r2", street: "4 Birch Way", source: "s2" },
+    P5: { route: "r1", street: "5 Alder Way", source: "s2" },
+  },
+  members: { owner: "owner", manager: "manager", analyst: "analyst", technician: { role: "technician", routes: ["r1"] } },
+});
+const { owner, manager, analyst, technician } = book.member;
+const P = book.pool;
+const elsewhere = routeBookPerFile({
+  routes: { elsewhere: "Elsewhere" },
+  sources: { theirs: { name: "Their well", kind: "shared_well" } },
+  pools: { X1: { route: "elsewhere", source: "theirs" } },
+  members: { owner: "owner" },
+});
+const otherOwner = elsewhere.member.owner;
 let seqA = 0;
 let padB = 0;
 
@@ -58,16 +64,7 @@ const balanced = { ph: 7.5, temperatureC: 28.9, calciumHardness: 300, totalAlkal
 const scaleForming = { ph: 8.0, temperatureC: 28.9, calciumHardness: 400, totalAlkalinity: 150 };
 
 beforeAll(async () => {
-  const companyId = await createCompany();
-  const r1 = await createRoute(companyId, "Route one", "1");
-  const r2 = await createRoute(companyId, "Route two", "2");
-  S1 = await createFillSource(companyId, "Well one", "shared_well");
-  const s2 = await createFillSource(companyId, "Town main", "municipal");
-  P.P1 = await createPool(companyId, { routeId: r1, accountCode: "P1", street: "1 Alder Way", fillSourceId: S1 });
-  P.P2 = await createPool(companyId, { routeId: r1, accountCode: "P2", street: "2 Alder Way", fillSourceId: S1 });
-  P.P3 = await createPool(companyId, { routeId: r2, accountCode: "P3", street: "3 Birch Way", fillSourceId: S1 });
-  P.P4 = await createPool(companyId, { routeId: r2, accountCode: "P4", street: "4 Birch Way", fillSourceId: s2 });
-  P.P5 = await createPool(companyId, { routeId: r1, accountCode: "P5", street: "5 Alder Way", fillSourceId: s2 });
+  const { companyId } = book;
   const at = (day: string) => `2025-${day}T10:00:00Z`;
 
   await addTest(companyId, P.P1, at("01-01"), { iron: 0.05 });
@@ -115,18 +112,8 @@ beforeAll(async () => {
       { companyId, poolId: P.P2, productId: padB, appliedAt: new Date(at("03-08")), amount: 1, unit: "each", cost: 25 },
     ]);
 
-  owner = await createMember(companyId, "owner");
-  manager = await createMember(companyId, "manager");
-  analyst = await createMember(companyId, "analyst");
-  technician = await createMember(companyId, "technician", [r1]);
-
-  const other = await createCompany();
-  const otherRoute = await createRoute(other, "Elsewhere", "1");
-  const otherSource = await createFillSource(other, "Their well", "shared_well");
-  const otherPool = await createPool(other, { routeId: otherRoute, accountCode: "X1", fillSourceId: otherSource });
-  await addTest(other, otherPool, at("03-05"), { iron: 0.9, ...corrosive });
-  await addTest(other, otherPool, at("03-25"), { iron: 0.95 });
-  otherOwner = await createMember(other, "owner");
+  await addTest(elsewhere.companyId, elsewhere.pool.X1, at("03-05"), { iron: 0.9, ...corrosive });
+  await addTest(elsewhere.companyId, elsewhere.pool.X1, at("03-25"), { iron: 0.95 });
 });
 
 afterAll(closeDatabase);
@@ -137,6 +124,12 @@ type Body = Record<string, any>;
 const get = async (fn: RouteFunction, member: FixtureMember | null, path: string, params: Record<string, string> = {}) => {
   const outcome = await callRoute(fn, requestAs(member, path), params);
   return { status: outcome.status, body: outcome.body as Body };
+};
+/** The body of an answer that must be a 200. */
+const getOk = async (...args: Parameters<typeof get>) => {
+  const { status, body } = await get(...args);
+  expect(status).toBe(200);
+  return body;
 };
 
 const YEAR = 365.25;
@@ -180,8 +173,7 @@ describe("guard and errors", () => {
 
 describe("GET /api/analytics/groups", () => {
   it("by fill source for iron: openings per pool-year with exact intervals, small groups marked", async () => {
-    const { status, body } = await get(groupsApi.loader, owner, "/api/analytics/groups?grouping=fill-source&metal=iron");
-    expect(status).toBe(200);
+    const body = await getOk(groupsApi.loader, owner, "/api/analytics/groups?grouping=fill-source&metal=iron");
     expect(body.pools).toBe(5); // the other company's pool is not counted
     expect(body.openings).toBe(4); // P1 x2, P2, P3
     const well = body.groups.find((g: Body) => g.label === "Well one");
@@ -240,8 +232,7 @@ describe("GET /api/analytics/groups", () => {
 
 describe("GET /api/analytics/recurring", () => {
   it("lists recurring and chronic pools with their episodes", async () => {
-    const { status, body } = await get(recurringApi.loader, analyst, "/api/analytics/recurring");
-    expect(status).toBe(200);
+    const body = await getOk(recurringApi.loader, analyst, "/api/analytics/recurring");
     // P1: two iron openings 92 days apart (recurring) and a 213-day episode (chronic).
     // P3: one iron episode open 286 days (chronic). P2 and P5: one 14-day episode each.
     expect(body.recurringPools).toBe(1);
@@ -320,8 +311,7 @@ describe("GET /api/analytics/recurring", () => {
 
   it("gives the page's first paint only the first pools listed at the company's levels, with the counts of the whole list", async () => {
     // Listed at the default levels: P1 (recurring, chronic) and P3 (chronic); P2 and P5 have one 14-day episode each.
-    const { status, body } = await get(recurringPage.loader, analyst, "/recurring");
-    expect(status).toBe(200);
+    const body = await getOk(recurringPage.loader, analyst, "/recurring");
     expect(body.data.firstListed).toEqual({ recurringPools: 1, chronicPools: 2, listedPools: 2 });
     expect(body.data.readings.map((r: Body) => r.poolId)).toEqual([P.P1, P.P3]);
     // P3: 01-01 -> 03-20 is 31 + 28 + 19 = 78 days; 03-20 -> 12-31 is 12 (to 04-01) + 244 (April to November) + 30 = 286 days.
@@ -367,7 +357,7 @@ describe("GET /api/analytics/alerts", () => {
     // P1's 06-01 opening stands alone. Town main: one copper opening only.
     expect(body.alerts).toHaveLength(1);
     expect(body.alerts[0]).toMatchObject({
-      fillSourceId: S1,
+      fillSourceId: book.source.S1,
       sourceName: "Well one",
       metal: "iron",
       firstOpeningAt: "2025-03-01T10:00:00.000Z",
@@ -468,8 +458,7 @@ describe("GET /api/analytics/trend", () => {
 
 describe("GET /api/analytics/outcomes", () => {
   it("follows each product's courses on iron: reduction, time to clear, recurrence, cost", async () => {
-    const { status, body } = await get(outcomesApi.loader, manager, "/api/analytics/outcomes?metal=iron&arm=product");
-    expect(status).toBe(200);
+    const body = await getOk(outcomesApi.loader, manager, "/api/analytics/outcomes?metal=iron&arm=product");
     // Courses: P1 Seq A on 03-01; P2 Seq A + Pad B on 03-08 (same day: one course).
     expect(body.courses).toBe(2);
     expect(body.eligibleCourses).toBe(2);
@@ -525,8 +514,7 @@ describe("GET /api/analytics/outcomes", () => {
 
 describe("GET /api/analytics/pools/:poolId/evidence", () => {
   it("lists evidence for each episode, with its reason", async () => {
-    const { status, body } = await get(evidenceApi.loader, technician, `/api/analytics/pools/${P.P1}/evidence`, { poolId: String(P.P1) });
-    expect(status).toBe(200);
+    const body = await getOk(evidenceApi.loader, technician, `/api/analytics/pools/${P.P1}/evidence`, { poolId: String(P.P1) });
     expect(body.episodes).toHaveLength(2);
     const [later, earlier] = body.episodes; // newest first
     // Both: iron on a shared well. The 03-01 onset also falls inside Well one's alert (03-01..03-20).
@@ -536,8 +524,7 @@ describe("GET /api/analytics/pools/:poolId/evidence", () => {
   });
 
   it("is shown on the pool page with the same episodes", async () => {
-    const { status, body } = await get(poolPage.loader, technician, `/pools/${P.P1}`, { poolId: String(P.P1) });
-    expect(status).toBe(200);
+    const body = await getOk(poolPage.loader, technician, `/pools/${P.P1}`, { poolId: String(P.P1) });
     expect(body.metalEvidence.episodes).toHaveLength(2);
     expect(body.metalEvidence.episodes[0].evidence.map((e: Body) => e.kind)).toEqual(["iron-with-well-water"]);
   });

@@ -9,44 +9,27 @@ import * as poolPage from "~/routes/pools.$poolId";
 import * as settings from "~/routes/settings";
 import * as signIn from "~/routes/sign-in";
 import * as team from "~/routes/team";
-import {
-  addTest,
-  createCompany,
-  createMember,
-  createRouteWithPool,
-  type FixtureMember,
-  requestAs,
-} from "../fixtures/company";
+import { addTest, createCompany, createMember, createRouteWithPool, type FixtureMember, requestAs } from "../fixtures/company";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute } from "../fixtures/route-call";
 
-let owner: FixtureMember;
-let manager: FixtureMember;
-let technician: FixtureMember;
-let analyst: FixtureMember;
+const book = routeBookPerFile({
+  routes: { monday: "Monday loop", tuesday: { name: "Tuesday loop", weekdays: "2" } },
+  pools: { onOwnRoute: { route: "monday", accountCode: "G-1" }, onOtherRoute: { route: "tuesday", accountCode: "G-2" } },
+  members: { owner: "owner", manager: "manager", technician: { role: "technician", routes: ["monday"] }, analyst: "analyst" },
+});
+const { owner, manager, technician, analyst } = book.member;
 let otherOwner: FixtureMember;
-let poolOnOwnRoute: number;
-let poolOnOtherRoute: number;
 let poolOfOtherCompany: number;
-let tuesdayRouteId: number;
 
 beforeAll(async () => {
-  const companyId = await createCompany();
-  const monday = await createRouteWithPool(companyId, "Monday loop", "G-1", "1");
-  poolOnOwnRoute = monday.poolId;
-  const tuesday = await createRouteWithPool(companyId, "Tuesday loop", "G-2", "2");
-  poolOnOtherRoute = tuesday.poolId;
-  tuesdayRouteId = tuesday.routeId;
+  const { companyId, pool } = book;
   // Pool G-1: copper 0.40 opens a case (>= 0.3), 0.20 is not below 0.1, so it stays open.
-  await addTest(companyId, poolOnOwnRoute, "2026-01-05T09:00:00Z", { copper: 0.4, ph: 7.4 });
-  await addTest(companyId, poolOnOwnRoute, "2026-01-12T09:00:00Z", { copper: 0.2, ph: 7.5 });
+  await addTest(companyId, pool.onOwnRoute, "2026-01-05T09:00:00Z", { copper: 0.4, ph: 7.4 });
+  await addTest(companyId, pool.onOwnRoute, "2026-01-12T09:00:00Z", { copper: 0.2, ph: 7.5 });
   // Pool G-2: iron 0.30 opens (>= 0.2), 0.05 is below 0.1 and closes it.
-  await addTest(companyId, poolOnOtherRoute, "2026-01-06T09:00:00Z", { iron: 0.3 });
-  await addTest(companyId, poolOnOtherRoute, "2026-01-13T09:00:00Z", { iron: 0.05 });
-
-  owner = await createMember(companyId, "owner");
-  manager = await createMember(companyId, "manager");
-  technician = await createMember(companyId, "technician", [monday.routeId]);
-  analyst = await createMember(companyId, "analyst");
+  await addTest(companyId, pool.onOtherRoute, "2026-01-06T09:00:00Z", { iron: 0.3 });
+  await addTest(companyId, pool.onOtherRoute, "2026-01-13T09:00:00Z", { iron: 0.05 });
 
   const otherCompany = await createCompany();
   poolOfOtherCompany = (await createRouteWithPool(otherCompany, "Elsewhere", "X-1")).poolId;
@@ -123,22 +106,22 @@ describe("roles", () => {
 
 describe("technicians see only their routes' pools", () => {
   it("opens a pool on their own route, by page and by API", async () => {
-    const page = await callRoute(poolPage.loader, requestAs(technician, `/pools/${poolOnOwnRoute}`), {
-      poolId: String(poolOnOwnRoute),
+    const page = await callRoute(poolPage.loader, requestAs(technician, `/pools/${book.pool.onOwnRoute}`), {
+      poolId: String(book.pool.onOwnRoute),
     });
     expect(page.status).toBe(200);
-    const api = await callRoute(apiPool.loader, requestAs(technician, `/api/pools/${poolOnOwnRoute}`), {
-      poolId: String(poolOnOwnRoute),
+    const api = await callRoute(apiPool.loader, requestAs(technician, `/api/pools/${book.pool.onOwnRoute}`), {
+      poolId: String(book.pool.onOwnRoute),
     });
     expect(api.status).toBe(200);
     expect(api.body).toMatchObject({ pool: { accountCode: "G-1" } });
   });
 
   it("cannot read a pool on another route, by page or by API", async () => {
-    const params = { poolId: String(poolOnOtherRoute) };
-    const page = await callRoute(poolPage.loader, requestAs(technician, `/pools/${poolOnOtherRoute}`), params);
+    const params = { poolId: String(book.pool.onOtherRoute) };
+    const page = await callRoute(poolPage.loader, requestAs(technician, `/pools/${book.pool.onOtherRoute}`), params);
     expect(page.status).toBe(404);
-    const api = await callRoute(apiPool.loader, requestAs(technician, `/api/pools/${poolOnOtherRoute}`), params);
+    const api = await callRoute(apiPool.loader, requestAs(technician, `/api/pools/${book.pool.onOtherRoute}`), params);
     expect(api.status).toBe(404);
     expect(api.body).toMatchObject({ error: { code: "not_found" } });
   });
@@ -167,7 +150,7 @@ describe("companies never see each other", () => {
       pools: 2,
       tests: 4,
       openCasesByMetal: { copper: 1, iron: 0, manganese: 0 },
-      openCases: [{ poolId: poolOnOwnRoute, metal: "copper", lastElevatedValue: 0.4 }],
+      openCases: [{ poolId: book.pool.onOwnRoute, metal: "copper", lastElevatedValue: 0.4 }],
     });
     const other = await callRoute(apiSummary.loader, requestAs(otherOwner, "/api/summary"));
     expect(other.body).toMatchObject({ pools: 1, tests: 1, openCasesByMetal: { copper: 1 } });
@@ -186,7 +169,7 @@ describe("the home page's route count", () => {
   it("counts routes in use only: archiving the Tuesday loop leaves the owner one route", async () => {
     const before = await callRoute(apiSummary.loader, requestAs(owner, "/api/summary"));
     expect(before.body).toMatchObject({ routes: 2 });
-    await db().update(routes).set({ active: false }).where(eq(routes.id, tuesdayRouteId));
+    await db().update(routes).set({ active: false }).where(eq(routes.id, book.route.tuesday));
     const after = await callRoute(apiSummary.loader, requestAs(owner, "/api/summary"));
     expect(after.body).toMatchObject({ routes: 1 });
     // The technician works the Monday loop only.

@@ -1,43 +1,26 @@
 import mysql from "mysql2/promise";
-import { count, eq } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
-import { importBatches, importUploads, waterTests } from "~/.server/db/schema";
+import { importUploads } from "~/.server/db/schema";
 import type { Scope } from "~/.server/scope";
 import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
 import { storeUpload } from "~/.server/imports/uploads";
 import { TEST_DATABASE_URL } from "../fixtures/database";
-import { createCompany, createMember, createPool } from "../fixtures/company";
-import { useScratchUploadDir } from "./imports-helpers";
+import { analystWithPools, hourlyReadingsFile, storedCounts, useScratchUploadDir } from "./imports-helpers";
 
 const ROWS = 5_000;
 const POOLS = 10;
 let scope: Scope;
 let other: mysql.Connection;
 
-/** A file written for this test: 5,000 hourly readings spread over 10 pools, all valid. */
-function largeFile(): Uint8Array {
-  const lines = ["Account,Date,pH,Cu"];
-  const start = Date.UTC(2023, 0, 1);
-  for (let i = 0; i < ROWS; i++) {
-    const at = new Date(start + i * 3_600_000).toISOString().slice(0, 16).replace("T", " ");
-    lines.push(`AT-${i % POOLS},${at},7.${i % 10},0.${i % 5}`);
-  }
-  return new TextEncoder().encode(lines.join("\n"));
-}
-
-async function stored() {
-  const [tests] = await db().select({ n: count() }).from(waterTests).where(eq(waterTests.companyId, scope.companyId));
-  const [batches] = await db().select({ n: count() }).from(importBatches).where(eq(importBatches.companyId, scope.companyId));
-  return { tests: tests!.n, batches: batches!.n };
-}
+/** 5,000 hourly readings spread over 10 pools, all valid. */
+const largeFile = () => hourlyReadingsFile("AT", ROWS, POOLS, Date.UTC(2023, 0, 1));
+const stored = () => storedCounts(scope.companyId);
 
 beforeAll(async () => {
   useScratchUploadDir();
-  const companyId = await createCompany();
-  for (let p = 0; p < POOLS; p++) await createPool(companyId, { routeId: null, accountCode: `AT-${p}` });
-  const member = await createMember(companyId, "analyst");
-  scope = { userId: member.userId, userName: "Test analyst", email: member.email, companyId, companyName: "", timeZone: "UTC", role: "analyst", routeIds: null };
+  ({ scope } = await analystWithPools("AT", POOLS));
   other = await mysql.createConnection({ uri: TEST_DATABASE_URL, timezone: "Z" });
 });
 

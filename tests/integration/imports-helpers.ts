@@ -1,14 +1,44 @@
 import { readFileSync, mkdtempSync } from "node:fs";
 import { tmpdir } from "node:os";
 import { join } from "node:path";
+import { count, eq } from "drizzle-orm";
+import { db } from "~/.server/db/client";
+import { importBatches, waterTests } from "~/.server/db/schema";
+import type { Scope } from "~/.server/scope";
 import { callRoute } from "../fixtures/route-call";
-import { type FixtureMember, requestAs } from "../fixtures/company";
+import { createCompany, createMember, createPool, type FixtureMember, requestAs } from "../fixtures/company";
 import * as uploadsApi from "~/routes/api.imports.uploads";
 import * as checkPage from "~/routes/imports.$uploadId";
 
 /** Uploads go to a folder of this run's own. */
 export function useScratchUploadDir() {
   process.env.PATINA_UPLOAD_DIR = mkdtempSync(join(tmpdir(), "patina-imports-"));
+}
+
+/** An analyst, with their scope, in a company of its own whose pools, on no route, are `${prefix}-0` to `${prefix}-${pools - 1}`. */
+export async function analystWithPools(prefix: string, pools: number): Promise<{ member: FixtureMember; scope: Scope }> {
+  const companyId = await createCompany();
+  for (let p = 0; p < pools; p++) await createPool(companyId, { routeId: null, accountCode: `${prefix}-${p}` });
+  const member = await createMember(companyId, "analyst");
+  const scope: Scope = { userId: member.userId, userName: "Test analyst", email: member.email, companyId, companyName: "", timeZone: "UTC", role: "analyst", routeIds: null };
+  return { member, scope };
+}
+
+/** A file written for a test: `rows` hourly readings from `start` (ms), pool after pool of `${prefix}-n`, all valid. */
+export function hourlyReadingsFile(prefix: string, rows: number, pools: number, start: number): Uint8Array {
+  const lines = ["Account,Date,pH,Cu"];
+  for (let i = 0; i < rows; i++) {
+    const at = new Date(start + i * 3_600_000).toISOString().slice(0, 16).replace("T", " ");
+    lines.push(`${prefix}-${i % pools},${at},7.${i % 10},0.${i % 5}`);
+  }
+  return new TextEncoder().encode(lines.join("\n"));
+}
+
+/** How many water tests and import batches the company has stored. */
+export async function storedCounts(companyId: number) {
+  const [tests] = await db().select({ n: count() }).from(waterTests).where(eq(waterTests.companyId, companyId));
+  const [batches] = await db().select({ n: count() }).from(importBatches).where(eq(importBatches.companyId, companyId));
+  return { tests: tests!.n, batches: batches!.n };
 }
 
 export function fixtureBytes(name: string): Uint8Array<ArrayBuffer> {

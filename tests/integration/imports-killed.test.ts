@@ -1,7 +1,7 @@
 import { type ChildProcess, spawn } from "node:child_process";
 import { once } from "node:events";
 import { hostname } from "node:os";
-import { count, eq } from "drizzle-orm";
+import { eq } from "drizzle-orm";
 import { afterEach, beforeAll, describe, expect, it } from "vitest";
 import { db } from "~/.server/db/client";
 import { importBatches, importUploads, waterTests } from "~/.server/db/schema";
@@ -9,8 +9,8 @@ import type { Scope } from "~/.server/scope";
 import { releaseDeadClaims, STOPPED_MESSAGE } from "~/.server/imports/claims";
 import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
 import { storeUpload } from "~/.server/imports/uploads";
-import { createCompany, createMember, createPool, type FixtureMember } from "../fixtures/company";
-import { checkPageData, postCheckForm, useScratchUploadDir } from "./imports-helpers";
+import type { FixtureMember } from "../fixtures/company";
+import { analystWithPools, checkPageData, hourlyReadingsFile, postCheckForm, storedCounts, useScratchUploadDir } from "./imports-helpers";
 
 const ROWS = 3_000;
 const POOLS = 6;
@@ -19,21 +19,8 @@ let member: FixtureMember;
 let child: ChildProcess | null = null;
 
 /** 3,000 hourly readings over 6 pools, all valid: three chunks of 1,000. */
-function file(): Uint8Array {
-  const lines = ["Account,Date,pH,Cu"];
-  const start = Date.UTC(2022, 0, 1);
-  for (let i = 0; i < ROWS; i++) {
-    const at = new Date(start + i * 3_600_000).toISOString().slice(0, 16).replace("T", " ");
-    lines.push(`KT-${i % POOLS},${at},7.${i % 10},0.${i % 5}`);
-  }
-  return new TextEncoder().encode(lines.join("\n"));
-}
-
-async function stored() {
-  const [tests] = await db().select({ n: count() }).from(waterTests).where(eq(waterTests.companyId, scope.companyId));
-  const [batches] = await db().select({ n: count() }).from(importBatches).where(eq(importBatches.companyId, scope.companyId));
-  return { tests: tests!.n, batches: batches!.n };
-}
+const file = () => hourlyReadingsFile("KT", ROWS, POOLS, Date.UTC(2022, 0, 1));
+const stored = () => storedCounts(scope.companyId);
 
 async function uploadRow(uploadId: string) {
   const [row] = await db().select().from(importUploads).where(eq(importUploads.id, uploadId));
@@ -68,10 +55,7 @@ async function kill(process: ChildProcess) {
 
 beforeAll(async () => {
   useScratchUploadDir();
-  const companyId = await createCompany();
-  for (let p = 0; p < POOLS; p++) await createPool(companyId, { routeId: null, accountCode: `KT-${p}` });
-  member = await createMember(companyId, "analyst");
-  scope = { userId: member.userId, userName: "Test analyst", email: member.email, companyId, companyName: "", timeZone: "UTC", role: "analyst", routeIds: null };
+  ({ member, scope } = await analystWithPools("KT", POOLS));
 });
 
 afterEach(async () => {

@@ -1,64 +1,42 @@
 import { eq } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 
 import { db } from "~/.server/db/client";
 import { alertEvents, companies, mailOutbox, memberships, pools, mailPreferences } from "~/.server/db/schema";
 import { afterWaterTestsSaved, recordAlertsForPool } from "~/.server/mail/alerts";
 import { deliverDueMail } from "~/.server/mail/outbox";
 import { preferencesFor } from "~/.server/mail/preferences";
-import {
-  addTest,
-  createCompany,
-  createFillSource,
-  createMember,
-  createPool,
-  createRoute,
-  type FixtureMember,
-} from "../fixtures/company";
-import { mailTo, startTestSink } from "../fixtures/mail-sink";
+import { addTest, createCompany, createMember, type FixtureMember } from "../fixtures/company";
+import { mailSinkPerFile, mailTo } from "../fixtures/mail-sink";
+import { routeBookPerFile } from "../fixtures/route-book";
 
-// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2603";
+const sink = mailSinkPerFile(2603);
 
-let sink: Awaited<ReturnType<typeof startTestSink>>;
-let companyId: number;
+/** A pool of the east route filled from the shared well. */
+const onTheWell = (key: string) => ({ route: "east", accountCode: `AL-${key}`, street: `${key.toUpperCase()} Heron Walk`, source: "ridgeback" }) as const;
+const book = routeBookPerFile({
+  company: "Alert company",
+  routes: { east: "Tuesday east" },
+  sources: { ridgeback: { name: "Ridgeback shared well", kind: "shared_well" } },
+  pools: { p1: onTheWell("p1"), p2: onTheWell("p2"), p3: onTheWell("p3"), p4: onTheWell("p4"), p5: onTheWell("p5") },
+  members: { manager1: "manager", manager2: "manager", quietManager: "manager", owner: "owner", technician: { role: "technician", routes: ["east"] } },
+});
+const { pool } = book;
+const { manager1, manager2, quietManager, owner, technician } = book.member;
 let otherCompanyManager: FixtureMember;
-let manager1: FixtureMember;
-let manager2: FixtureMember;
-let quietManager: FixtureMember;
-let owner: FixtureMember;
-let technician: FixtureMember;
-let sourceId: number;
-const pool: Record<"p1" | "p2" | "p3" | "p4" | "p5", number> = { p1: 0, p2: 0, p3: 0, p4: 0, p5: 0 };
 
 // Every figure below is worked out from this fixed "now".
 const NOW = new Date("2026-06-20T12:00:00Z");
 
 beforeAll(async () => {
-  sink = await startTestSink(2603);
-  companyId = await createCompany("Alert company");
-  const routeId = await createRoute(companyId, "Tuesday east");
-  sourceId = await createFillSource(companyId, "Ridgeback shared well", "shared_well");
-  for (const key of Object.keys(pool) as Array<keyof typeof pool>) {
-    pool[key] = await createPool(companyId, { routeId, accountCode: `AL-${key}`, street: `${key.toUpperCase()} Heron Walk`, fillSourceId: sourceId });
-  }
   // P5 is on the source but no longer served: it does not count as active.
   await db().update(pools).set({ active: false }).where(eq(pools.id, pool.p5));
-  manager1 = await createMember(companyId, "manager");
-  manager2 = await createMember(companyId, "manager");
-  quietManager = await createMember(companyId, "manager");
-  owner = await createMember(companyId, "owner");
-  technician = await createMember(companyId, "technician", [routeId]);
   const [quiet] = await db().select().from(memberships).where(eq(memberships.userId, quietManager.userId));
   await preferencesFor(quiet!.id);
   await db().update(mailPreferences).set({ alerts: false }).where(eq(mailPreferences.membershipId, quiet!.id));
 
   const other = await createCompany("Alert company elsewhere");
   otherCompanyManager = await createMember(other, "manager");
-});
-
-afterAll(async () => {
-  await sink.dispose();
 });
 
 async function outboxCount(recipient: string) {
@@ -68,11 +46,11 @@ async function outboxCount(recipient: string) {
 describe("metal alerts by e-mail", () => {
   it("a new test opening an episode that makes the pool recurring sends one mail per event to each manager", async () => {
     // Copper: elevated at 0.30 mg/L, clear below 0.10 (common-practice defaults).
-    await addTest(companyId, pool.p1, "2026-01-10T15:00:00Z", { copper: 0.4 }); // opens case 1 (too old to announce)
-    await addTest(companyId, pool.p1, "2026-01-20T15:00:00Z", { copper: 0.05 }); // 0.05 < 0.10 closes it
-    await addTest(companyId, pool.p1, "2026-06-15T15:00:00Z", { copper: 0.35 }); // opens case 2: 156 days later, inside 365
+    await addTest(book.companyId, pool.p1, "2026-01-10T15:00:00Z", { copper: 0.4 }); // opens case 1 (too old to announce)
+    await addTest(book.companyId, pool.p1, "2026-01-20T15:00:00Z", { copper: 0.05 }); // 0.05 < 0.10 closes it
+    await addTest(book.companyId, pool.p1, "2026-06-15T15:00:00Z", { copper: 0.35 }); // opens case 2: 156 days later, inside 365
 
-    const recorded = await recordAlertsForPool(companyId, pool.p1, { now: NOW });
+    const recorded = await recordAlertsForPool(book.companyId, pool.p1, { now: NOW });
     expect(recorded.map((r) => r.kind).sort()).toEqual(["episode_opened", "pool_recurring"]);
     // Recipients: the two managers with alerts on; not the quiet manager, the owner (alertOwners unset) or the technician.
     for (const r of recorded) expect(r.recipients.sort()).toEqual([manager1.email, manager2.email].sort());
@@ -98,23 +76,23 @@ describe("metal alerts by e-mail", () => {
   });
 
   it("running again, or saving the same pool twice, records nothing new and sends nothing twice", async () => {
-    expect(await recordAlertsForPool(companyId, pool.p1, { now: NOW })).toEqual([]);
-    expect(await afterWaterTestsSaved(companyId, [pool.p1, pool.p1], { now: NOW })).toEqual([]);
+    expect(await recordAlertsForPool(book.companyId, pool.p1, { now: NOW })).toEqual([]);
+    expect(await afterWaterTestsSaved(book.companyId, [pool.p1, pool.p1], { now: NOW })).toEqual([]);
     await deliverDueMail();
     expect(await mailTo(sink, manager1.email)).toHaveLength(2);
     expect(await outboxCount(manager1.email)).toBe(2);
-    const events = await db().select().from(alertEvents).where(eq(alertEvents.companyId, companyId));
+    const events = await db().select().from(alertEvents).where(eq(alertEvents.companyId, book.companyId));
     expect(events).toHaveLength(2);
   });
 
   it("three pools on one fill source opening iron within 21 days raise one shared-source alert, owners included when asked", async () => {
-    await db().update(companies).set({ settings: { alertOwners: true } }).where(eq(companies.id, companyId));
+    await db().update(companies).set({ settings: { alertOwners: true } }).where(eq(companies.id, book.companyId));
     // Iron: elevated at 0.20 mg/L. Openings on 8, 12 and 18 June: 10 days apart at most, inside 21.
-    await addTest(companyId, pool.p2, "2026-06-08T14:00:00Z", { iron: 0.25 });
-    await addTest(companyId, pool.p3, "2026-06-12T14:00:00Z", { iron: 0.3 });
-    await addTest(companyId, pool.p4, "2026-06-18T14:00:00Z", { iron: 0.22 });
+    await addTest(book.companyId, pool.p2, "2026-06-08T14:00:00Z", { iron: 0.25 });
+    await addTest(book.companyId, pool.p3, "2026-06-12T14:00:00Z", { iron: 0.3 });
+    await addTest(book.companyId, pool.p4, "2026-06-18T14:00:00Z", { iron: 0.22 });
 
-    const recorded = await afterWaterTestsSaved(companyId, [pool.p2, pool.p3, pool.p4], { now: NOW });
+    const recorded = await afterWaterTestsSaved(book.companyId, [pool.p2, pool.p3, pool.p4], { now: NOW });
     expect(recorded.map((r) => r.kind).sort()).toEqual(["episode_opened", "episode_opened", "episode_opened", "shared_source"]);
     const expectedRecipients = [manager1.email, manager2.email, owner.email].sort();
     for (const r of recorded) expect(r.recipients.sort()).toEqual(expectedRecipients);
@@ -130,20 +108,20 @@ describe("metal alerts by e-mail", () => {
     expect(shared.text).toMatch(/First case opened:\s+8 Jun 2026/);
     expect(shared.text).toMatch(/Latest case opened:\s+18 Jun 2026/);
     for (const street of ["P2 Heron Walk", "P3 Heron Walk", "P4 Heron Walk"]) expect(shared.text).toContain(street);
-    expect(shared.html).toContain(`http://localhost:3000/sources/${sourceId}`);
+    expect(shared.html).toContain(`http://localhost:3000/sources/${book.source.ridgeback}`);
     expect(shared.html).toContain("<caption");
     expect(await mailTo(sink, manager1.email)).toHaveLength(2 + 4);
   });
 
   it("a fourth pool joining the same wave is a new episode, not a second shared-source alert", async () => {
-    await addTest(companyId, pool.p1, "2026-06-19T14:00:00Z", { iron: 0.31 });
-    const recorded = await afterWaterTestsSaved(companyId, [pool.p1], { now: NOW });
+    await addTest(book.companyId, pool.p1, "2026-06-19T14:00:00Z", { iron: 0.31 });
+    const recorded = await afterWaterTestsSaved(book.companyId, [pool.p1], { now: NOW });
     expect(recorded.map((r) => r.kind)).toEqual(["episode_opened"]);
     const shared = await db().select().from(alertEvents).where(eq(alertEvents.kind, "shared_source"));
-    expect(shared.filter((e) => e.companyId === companyId)).toHaveLength(1);
+    expect(shared.filter((e) => e.companyId === book.companyId)).toHaveLength(1);
     await deliverDueMail();
     expect(await mailTo(sink, manager1.email)).toHaveLength(2 + 4 + 1);
-    expect(await afterWaterTestsSaved(companyId, [pool.p1, pool.p2, pool.p3, pool.p4], { now: NOW })).toEqual([]);
+    expect(await afterWaterTestsSaved(book.companyId, [pool.p1, pool.p2, pool.p3, pool.p4], { now: NOW })).toEqual([]);
   });
 
   it("records nothing for a company that does not exist, and does not throw", async () => {

@@ -1,67 +1,65 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 
 import { db } from "~/.server/db/client";
 import { products, treatments } from "~/.server/db/schema";
 import { digestWeek, sendWeeklyDigests } from "~/.server/mail/digest";
 import { deliverDueMail } from "~/.server/mail/outbox";
 import * as unsubscribePage from "~/routes/unsubscribe.$token";
-import {
-  addTest,
-  createCompany,
-  createFillSource,
-  createMember,
-  createPool,
-  createRoute,
-  type FixtureMember,
-} from "../fixtures/company";
-import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
+import { addTest } from "../fixtures/company";
+import { linkIn, mailSinkPerFile, mailTo } from "../fixtures/mail-sink";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute } from "../fixtures/route-call";
 
-// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2604";
-
-let sink: Awaited<ReturnType<typeof startTestSink>>;
-let companyId: number;
-let owner: FixtureMember;
-let manager: FixtureMember;
-let technician: FixtureMember;
+const sink = mailSinkPerFile(2604);
 
 // Monday 22 June 2026, noon UTC (the company's time zone): the digest covers 15 June noon to now.
 const NOW = new Date("2026-06-22T12:00:00Z");
 const DAY = 86_400_000;
 
-beforeAll(async () => {
-  sink = await startTestSink(2604);
-  companyId = await createCompany("Digest company");
-  const northLoop = await createRoute(companyId, "North loop");
-  const quarryRun = await createRoute(companyId, "Quarry run");
-  const pine = await createFillSource(companyId, "Pine municipal", "municipal");
-  const quarry = await createFillSource(companyId, "Quarry well", "shared_well");
-  const pool = async (code: string, routeId: number, fillSourceId: number) =>
-    createPool(companyId, { routeId, accountCode: `DG-${code}`, street: `DG-${code} Digest Lane`, fillSourceId });
-  const [a, b, c, g, h, i] = await Promise.all(["A", "B", "C", "G", "H", "I"].map((code) => pool(code, northLoop, pine)));
-  const [d, e, f] = await Promise.all(["D", "E", "F"].map((code) => pool(code, quarryRun, quarry)));
+const digestPool = (route: "northLoop" | "quarryRun", source: "pine" | "quarry", code: string) =>
+  ({ route, source, accountCode: `DG-${code}`, street: `DG-${code} Digest Lane` }) as const;
+const book = routeBookPerFile({
+  company: "Digest company",
+  routes: { northLoop: "North loop", quarryRun: "Quarry run" },
+  sources: { pine: { name: "Pine municipal", kind: "municipal" }, quarry: { name: "Quarry well", kind: "shared_well" } },
+  pools: {
+    a: digestPool("northLoop", "pine", "A"),
+    b: digestPool("northLoop", "pine", "B"),
+    c: digestPool("northLoop", "pine", "C"),
+    g: digestPool("northLoop", "pine", "G"),
+    h: digestPool("northLoop", "pine", "H"),
+    i: digestPool("northLoop", "pine", "I"),
+    d: digestPool("quarryRun", "quarry", "D"),
+    e: digestPool("quarryRun", "quarry", "E"),
+    f: digestPool("quarryRun", "quarry", "F"),
+  },
+  members: { owner: "owner", manager: "manager", technician: { role: "technician", routes: ["northLoop"] } },
+});
+const { owner, manager, technician } = book.member;
 
+beforeAll(async () => {
+  const { companyId } = book;
+  const { a, b, c, d, e, f, g, h, i } = book.pool;
   // A: copper case open since 1 June (elevated at 0.30), highest 0.60.
-  await addTest(companyId, a!, "2026-06-01T12:00:00Z", { copper: 0.5 });
-  await addTest(companyId, a!, "2026-06-18T12:00:00Z", { copper: 0.6 });
+  await addTest(companyId, a, "2026-06-01T12:00:00Z", { copper: 0.5 });
+  await addTest(companyId, a, "2026-06-18T12:00:00Z", { copper: 0.6 });
   // B: iron case 1-10 Feb, again on 17 June: 136 days apart, so B became recurring this week.
-  await addTest(companyId, b!, "2026-02-01T12:00:00Z", { iron: 0.3 });
-  await addTest(companyId, b!, "2026-02-10T12:00:00Z", { iron: 0.05 });
-  await addTest(companyId, b!, "2026-06-17T12:00:00Z", { iron: 0.25 });
+  await addTest(companyId, b, "2026-02-01T12:00:00Z", { iron: 0.3 });
+  await addTest(companyId, b, "2026-02-10T12:00:00Z", { iron: 0.05 });
+  await addTest(companyId, b, "2026-06-17T12:00:00Z", { iron: 0.25 });
   // C: iron 0.40, sequestrant an hour later, 0.10 five days on, clear (0.05 < 0.10) on 20 June.
-  await addTest(companyId, c!, "2026-06-12T10:00:00Z", { iron: 0.4 });
+  await addTest(companyId, c, "2026-06-12T10:00:00Z", { iron: 0.4 });
   const [product] = await db()
     .insert(products)
     .values({ companyId, name: "Sequestrant S", category: "sequestrant" })
     .$returningId();
   await db()
     .insert(treatments)
-    .values({ companyId, poolId: c!, productId: product!.id, appliedAt: new Date("2026-06-12T11:00:00Z"), amount: 1, unit: "L" });
-  await addTest(companyId, c!, "2026-06-17T10:00:00Z", { iron: 0.1 });
-  await addTest(companyId, c!, "2026-06-20T10:00:00Z", { iron: 0.05 });
+    .values({ companyId, poolId: c, productId: product!.id, appliedAt: new Date("2026-06-12T11:00:00Z"), amount: 1, unit: "L" });
+  await addTest(companyId, c, "2026-06-17T10:00:00Z", { iron: 0.1 });
+  await addTest(companyId, c, "2026-06-20T10:00:00Z", { iron: 0.05 });
   // D, E, F on Quarry well: three copper cases each in the year to 21 June 2026.
-  for (const poolId of [d!, e!, f!]) {
+  for (const poolId of [d, e, f]) {
     for (const [at, copper] of [
       ["2025-06-22", 0.05],
       ["2025-09-01", 0.4],
@@ -76,24 +74,16 @@ beforeAll(async () => {
     }
   }
   // G, H, I: three quiet years.
-  for (const poolId of [g!, h!, i!]) {
+  for (const poolId of [g, h, i]) {
     await addTest(companyId, poolId, "2023-06-22T12:00:00Z", { copper: 0.02 });
     await addTest(companyId, poolId, "2026-06-21T12:00:00Z", { copper: 0.02 });
   }
-
-  owner = await createMember(companyId, "owner");
-  manager = await createMember(companyId, "manager");
-  technician = await createMember(companyId, "technician", [northLoop]);
-});
-
-afterAll(async () => {
-  await sink.dispose();
 });
 
 describe("the weekly digest", () => {
   it("goes to owners and managers once per week, with the week's figures in HTML tables and plain text", async () => {
     expect(digestWeek(NOW, "UTC")).toBe("2026-W26");
-    const run = await sendWeeklyDigests(NOW, { companyIds: [companyId] });
+    const run = await sendWeeklyDigests(NOW, { companyIds: [book.companyId] });
     expect(run).toEqual({ companies: 1, queued: 2 });
     await deliverDueMail();
 
@@ -133,16 +123,16 @@ describe("the weekly digest", () => {
     expect(html).toContain('<th scope="col"');
     expect(html).toContain("Stop receiving the weekly digest");
 
-    expect((await sendWeeklyDigests(NOW, { companyIds: [companyId] })).queued).toBe(0);
+    expect((await sendWeeklyDigests(NOW, { companyIds: [book.companyId] })).queued).toBe(0);
     await deliverDueMail();
     expect(await mailTo(sink, owner.email)).toHaveLength(1);
   });
 
   it("waits for Monday morning when run on a schedule", async () => {
     const sunday = new Date("2026-07-05T12:00:00Z");
-    expect(await sendWeeklyDigests(sunday, { onlyDue: true, companyIds: [companyId] })).toEqual({ companies: 0, queued: 0 });
+    expect(await sendWeeklyDigests(sunday, { onlyDue: true, companyIds: [book.companyId] })).toEqual({ companies: 0, queued: 0 });
     const earlyMonday = new Date("2026-06-29T06:59:00Z");
-    expect(await sendWeeklyDigests(earlyMonday, { onlyDue: true, companyIds: [companyId] })).toEqual({ companies: 0, queued: 0 });
+    expect(await sendWeeklyDigests(earlyMonday, { onlyDue: true, companyIds: [book.companyId] })).toEqual({ companies: 0, queued: 0 });
   });
 
   it("the unsubscribe link turns the digest off for that member only", async () => {
@@ -157,7 +147,7 @@ describe("the weekly digest", () => {
     expect(bogus.status).toBe(404);
 
     const nextWeek = new Date(NOW.getTime() + 7 * DAY);
-    expect(await sendWeeklyDigests(nextWeek, { companyIds: [companyId] })).toEqual({ companies: 1, queued: 1 });
+    expect(await sendWeeklyDigests(nextWeek, { companyIds: [book.companyId] })).toEqual({ companies: 1, queued: 1 });
     await deliverDueMail();
     expect(await mailTo(sink, owner.email)).toHaveLength(2);
     expect(await mailTo(sink, manager.email)).toHaveLength(1);

@@ -1,6 +1,6 @@
 import { createHash } from "node:crypto";
 import { eq } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 
 import { db } from "~/.server/db/client";
 import { invitations, mailOutbox, memberships, user } from "~/.server/db/schema";
@@ -12,31 +12,17 @@ import * as mailboxPage from "~/routes/mailbox";
 import * as mailboxMessagePage from "~/routes/mailbox.$messageId";
 import * as teamInvitations from "~/routes/team.invitations";
 import * as teamPage from "~/routes/team";
-import { createCompany, createMember, type FixtureMember, requestAs } from "../fixtures/company";
-import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
+import { createMember, type FixtureMember, requestAs } from "../fixtures/company";
+import { linkIn, mailSinkPerFile, mailTo } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute, callRouteRaw, scopeFor } from "../fixtures/route-call";
 
-// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2601";
-
-let sink: Awaited<ReturnType<typeof startTestSink>>;
-let companyA: number;
-let companyB: number;
-let ownerA: FixtureMember;
-let ownerB: FixtureMember;
-
-beforeAll(async () => {
-  sink = await startTestSink(2601);
-  companyA = await createCompany("Invitations A");
-  companyB = await createCompany("Invitations B");
-  ownerA = await createMember(companyA, "owner");
-  ownerB = await createMember(companyB, "owner");
-});
-
-afterAll(async () => {
-  await sink.dispose();
-});
+const sink = mailSinkPerFile(2601);
+const companyA = routeBookPerFile({ company: "Invitations A", members: { owner: "owner" } });
+const companyB = routeBookPerFile({ company: "Invitations B", members: { owner: "owner" } });
+const ownerA = companyA.member.owner;
+const ownerB = companyB.member.owner;
 
 async function invite(owner: FixtureMember, email: string, role: string) {
   return callRoute(
@@ -104,11 +90,11 @@ describe("invitations by e-mail", () => {
       new Request("http://localhost:3000/", { headers: { Cookie: cookie } }),
       "overview",
     );
-    expect(scope).toMatchObject({ companyId: companyA, role: "manager", email, userName: "Wren Tallis" });
+    expect(scope).toMatchObject({ companyId: companyA.companyId, role: "manager", email, userName: "Wren Tallis" });
 
     const [created] = await db().select().from(user).where(eq(user.email, email));
     const joined = await db().select().from(memberships).where(eq(memberships.userId, created!.id));
-    expect(joined.map((m) => [m.companyId, m.role])).toEqual([[companyA, "manager"]]);
+    expect(joined.map((m) => [m.companyId, m.role])).toEqual([[companyA.companyId, "manager"]]);
   });
 
   it("a used link is refused the second time", async () => {
@@ -159,14 +145,14 @@ describe("invitations by e-mail", () => {
     const response = await acceptForCookie(token, { name: "Crossing", password: "crossing-password-1" });
     const cookie = response.headers.getSetCookie().map((c) => c.split(";")[0]).join("; ");
     const scope = await scopeFor(new Request("http://localhost:3000/", { headers: { Cookie: cookie } }), "team");
-    expect(scope.companyId).toBe(companyA);
-    expect(scope.companyId).not.toBe(companyB);
+    expect(scope.companyId).toBe(companyA.companyId);
+    expect(scope.companyId).not.toBe(companyB.companyId);
     // Spent: the same token cannot open a way into any company now.
     expect((await accept(token, { name: "Again", password: "crossing-password-2" })).status).toBe(410);
   });
 
   it("only owners invite, bad input names the field, and a member cannot be invited twice", async () => {
-    const technician = await createMember(companyA, "technician");
+    const technician = await createMember(companyA.companyId, "technician");
     const refused = await invite(technician, "someone@fixture.example", "manager");
     expect(refused.status).toBe(403);
 
@@ -224,7 +210,7 @@ describe("invitations by e-mail", () => {
     const openB = await callRoute(mailboxMessagePage.loader, requestAs(ownerB, `/mailbox/${row!.id}`), { messageId: String(row!.id) });
     expect(openB.status).toBe(404);
 
-    const managerA = await createMember(companyA, "manager");
+    const managerA = await createMember(companyA.companyId, "manager");
     expect((await callRoute(mailboxPage.loader, requestAs(managerA, "/mailbox"))).status).toBe(403);
     expect((await callRoute(mailboxPage.loader, requestAs(null, "/mailbox"))).status).toBe(302);
     await deliverDueMail();

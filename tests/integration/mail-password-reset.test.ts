@@ -1,5 +1,5 @@
 import { eq } from "drizzle-orm";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { beforeAll, describe, expect, it } from "vitest";
 
 import { db } from "~/.server/db/client";
 import { mailOutbox } from "~/.server/db/schema";
@@ -7,24 +7,16 @@ import { deliverDueMail } from "~/.server/mail/outbox";
 import * as forgotPage from "~/routes/forgot-password";
 import * as resetPage from "~/routes/reset-password";
 import { createCompany, createMember, FIXTURE_PASSWORD, type FixtureMember, signIn } from "../fixtures/company";
-import { linkIn, mailTo, startTestSink } from "../fixtures/mail-sink";
+import { linkIn, mailSinkPerFile, mailTo } from "../fixtures/mail-sink";
 import { formData } from "../fixtures/forms";
 import { callRoute } from "../fixtures/route-call";
 import { fromSocket } from "../fixtures/client-address";
 
-// Read when the first mail is sent (the environment is parsed lazily), so after the imports is early enough.
-process.env.PATINA_SMTP_URL = "smtp://127.0.0.1:2602";
-
-let sink: Awaited<ReturnType<typeof startTestSink>>;
+const sink = mailSinkPerFile(2602);
 let member: FixtureMember;
 
 beforeAll(async () => {
-  sink = await startTestSink(2602);
   member = await createMember(await createCompany("Reset company"), "technician");
-});
-
-afterAll(async () => {
-  await sink.dispose();
 });
 
 /** Each test asks from its own documentation-range address, so their rate limits stay apart. */

@@ -5,34 +5,20 @@ import { equipment, pools } from "~/.server/db/schema";
 import * as poolEdit from "~/routes/pools.$poolId.edit";
 import * as poolNew from "~/routes/pools.new";
 import * as poolList from "~/routes/pools";
-import {
-  createCompany,
-  createMember,
-  createOtherCompanyPool,
-  createRoute,
-  createRouteWithPool,
-  type FixtureMember,
-  requestAs,
-} from "../fixtures/company";
+import { createOtherCompanyPool, createRoute, requestAs } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute } from "../fixtures/route-call";
 
-let companyId: number;
-let manager: FixtureMember;
-let technician: FixtureMember;
-let analyst: FixtureMember;
-let routeId: number;
-let otherRouteId: number;
-let existingPool: number;
+const book = routeBookPerFile({
+  routes: { pool: "Pool loop", other: { name: "Other loop", weekdays: "2" } },
+  pools: { existing: { route: "pool", accountCode: "P-1" }, other: { route: "other", accountCode: "P-2" } },
+  members: { manager: "manager", technician: { role: "technician", routes: ["pool"] }, analyst: "analyst" },
+});
+const { manager, technician, analyst } = book.member;
 let otherCompanyPool: number;
 
 beforeAll(async () => {
-  companyId = await createCompany();
-  ({ routeId, poolId: existingPool } = await createRouteWithPool(companyId, "Pool loop", "P-1", "1"));
-  ({ routeId: otherRouteId } = await createRouteWithPool(companyId, "Other loop", "P-2", "2"));
-  manager = await createMember(companyId, "manager");
-  technician = await createMember(companyId, "technician", [routeId]);
-  analyst = await createMember(companyId, "analyst");
   otherCompanyPool = await createOtherCompanyPool("X-1");
 });
 
@@ -49,17 +35,17 @@ const base = {
 };
 
 async function poolByAccount(accountCode: string) {
-  const [row] = await db().select().from(pools).where(and(eq(pools.companyId, companyId), eq(pools.accountCode, accountCode)));
+  const [row] = await db().select().from(pools).where(and(eq(pools.companyId, book.companyId), eq(pools.accountCode, accountCode)));
   return row;
 }
 
 describe("creating a pool", () => {
   it("stores a volume typed in gallons as litres (company units: US)", async () => {
-    const outcome = await postForm(poolNew.action, manager, "/pools/new", { ...base, routeId: String(routeId), volumeMode: "direct", volume: "10000" });
+    const outcome = await postForm(poolNew.action, manager, "/pools/new", { ...base, routeId: String(book.route.pool), volumeMode: "direct", volume: "10000" });
     const stored = await poolByAccount("P-10");
     expect(outcome).toMatchObject({ status: 302, location: `/pools/${stored?.id}` });
     // 10,000 US gal x 3.785411784 L/gal (NIST Handbook 44) = 37,854.1 L, stored whole: 37,854.
-    expect(stored).toMatchObject({ volumeLitres: 37_854, routeId, surface: "plaster", sanitiser: "salt_generator", active: true });
+    expect(stored).toMatchObject({ volumeLitres: 37_854, routeId: book.route.pool, surface: "plaster", sanitiser: "salt_generator", active: true });
   });
 
   it("works the volume out from shape and dimensions", async () => {
@@ -128,12 +114,12 @@ describe("editing and archiving a pool", () => {
     postForm(poolEdit.action, member, `/pools/${poolId}/edit`, fields, { poolId: String(poolId) });
 
   it("archives a pool (active unticked) and keeps it", async () => {
-    const outcome = await edit(existingPool, { intent: "save-pool", ...base, accountCode: "P-1", routeId: String(routeId) });
+    const outcome = await edit(book.pool.existing, { intent: "save-pool", ...base, accountCode: "P-1", routeId: String(book.route.pool) });
     expect(outcome.status).toBe(302);
-    const archived = await edit(existingPool, { intent: "save-pool", ...base, accountCode: "P-1", routeId: String(routeId), active: "" });
+    const archived = await edit(book.pool.existing, { intent: "save-pool", ...base, accountCode: "P-1", routeId: String(book.route.pool), active: "" });
     expect(archived.status).toBe(302);
     expect((await poolByAccount("P-1"))?.active).toBe(false);
-    await db().update(pools).set({ active: true }).where(eq(pools.id, existingPool));
+    await db().update(pools).set({ active: true }).where(eq(pools.id, book.pool.existing));
   });
 
   it("answers 404 for another company's pool", async () => {
@@ -143,15 +129,15 @@ describe("editing and archiving a pool", () => {
   });
 
   it("fits equipment, replaces it keeping the old one's history, and stores a repeated replace once", async () => {
-    const added = await edit(existingPool, { intent: "add-equipment", kind: "heater", exchangerMetal: "copper", installedOn: "2012-04-01" });
+    const added = await edit(book.pool.existing, { intent: "add-equipment", kind: "heater", exchangerMetal: "copper", installedOn: "2012-04-01" });
     expect(added.body).toMatchObject({ ok: true, repeated: false });
-    const repeat = await edit(existingPool, { intent: "add-equipment", kind: "heater", exchangerMetal: "copper", installedOn: "2012-04-01" });
+    const repeat = await edit(book.pool.existing, { intent: "add-equipment", kind: "heater", exchangerMetal: "copper", installedOn: "2012-04-01" });
     expect(repeat.body).toMatchObject({ ok: true, repeated: true });
-    const [old] = await db().select().from(equipment).where(eq(equipment.poolId, existingPool));
+    const [old] = await db().select().from(equipment).where(eq(equipment.poolId, book.pool.existing));
     const replace = { intent: "replace-equipment", equipmentId: String(old!.id), kind: "heater", exchangerMetal: "titanium", installedOn: "2025-06-15" };
-    expect((await edit(existingPool, replace)).body).toMatchObject({ ok: true, repeated: false });
-    expect((await edit(existingPool, replace)).body).toMatchObject({ ok: true, repeated: true });
-    const items = await db().select().from(equipment).where(eq(equipment.poolId, existingPool)).orderBy(equipment.id);
+    expect((await edit(book.pool.existing, replace)).body).toMatchObject({ ok: true, repeated: false });
+    expect((await edit(book.pool.existing, replace)).body).toMatchObject({ ok: true, repeated: true });
+    const items = await db().select().from(equipment).where(eq(equipment.poolId, book.pool.existing)).orderBy(equipment.id);
     expect(items.map((i) => [i.exchangerMetal, i.installedOn, i.removedOn])).toEqual([
       ["copper", "2012-04-01", "2025-06-15"],
       ["titanium", "2025-06-15", null],
@@ -159,14 +145,14 @@ describe("editing and archiving a pool", () => {
   });
 
   it("refuses equipment without a kind, or installed in the future", async () => {
-    const noKind = await edit(existingPool, { intent: "add-equipment", installedOn: "2020-01-01" });
+    const noKind = await edit(book.pool.existing, { intent: "add-equipment", installedOn: "2020-01-01" });
     expect(fieldErrors(noKind).kind).toBe("Kind: choose one.");
-    const future = await edit(existingPool, { intent: "add-equipment", kind: "pump", installedOn: "2999-01-01" });
+    const future = await edit(book.pool.existing, { intent: "add-equipment", kind: "pump", installedOn: "2999-01-01" });
     expect(fieldErrors(future).installedOn).toMatch(/^Installed on: 2999-01-01 is later than today/);
   });
 
   it("refuses equipment changes to technicians", async () => {
-    expect((await edit(existingPool, { intent: "add-equipment", kind: "pump" }, technician)).status).toBe(403);
+    expect((await edit(book.pool.existing, { intent: "add-equipment", kind: "pump" }, technician)).status).toBe(403);
   });
 });
 
@@ -178,7 +164,7 @@ describe("the pool list", () => {
   });
 
   it("filters by route and sorts by account both ways", async () => {
-    const byRoute = (await callRoute(poolList.loader, requestAs(manager, `/pools?route=${otherRouteId}`))).body as { rows: Array<{ accountCode: string }> };
+    const byRoute = (await callRoute(poolList.loader, requestAs(manager, `/pools?route=${book.route.other}`))).body as { rows: Array<{ accountCode: string }> };
     expect(byRoute.rows.map((r) => r.accountCode)).toEqual(["P-2"]);
     const asc = (await callRoute(poolList.loader, requestAs(manager, "/pools?sort=account&dir=asc"))).body as { rows: Array<{ accountCode: string }> };
     const desc = (await callRoute(poolList.loader, requestAs(manager, "/pools?sort=account&dir=desc"))).body as { rows: Array<{ accountCode: string }> };

@@ -4,20 +4,16 @@ import { closeDatabase, db } from "~/.server/db/client";
 import { products } from "~/.server/db/schema";
 import * as productEdit from "~/routes/products.$productId.edit";
 import * as productNew from "~/routes/products.new";
-import { createCompany, createMember, type FixtureMember } from "../fixtures/company";
+import { createCompany } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
+import { routeBookPerFile } from "../fixtures/route-book";
 
-let companyId: number;
-let owner: FixtureMember;
-let technician: FixtureMember;
+const book = routeBookPerFile({ members: { owner: "owner", technician: "technician" } });
+const { owner, technician } = book.member;
 let otherCompanyProduct: number;
 
 beforeAll(async () => {
-  companyId = await createCompany();
-  owner = await createMember(companyId, "owner");
-  technician = await createMember(companyId, "technician");
-  const other = await createCompany();
-  const [made] = await db().insert(products).values({ companyId: other, name: "Theirs", category: "other" }).$returningId();
+  const [made] = await db().insert(products).values({ companyId: await createCompany(), name: "Theirs", category: "other" }).$returningId();
   otherCompanyProduct = made!.id;
 });
 
@@ -26,7 +22,7 @@ afterAll(closeDatabase);
 const valid = { name: "Clear-hold", category: "sequestrant", labelDose: "16", doseUnit: "fl oz", doseBasis: "per_10k_gal", unitCost: "0.85", active: "on" };
 
 async function named(name: string) {
-  return db().select().from(products).where(and(eq(products.companyId, companyId), eq(products.name, name)));
+  return db().select().from(products).where(and(eq(products.companyId, book.companyId), eq(products.name, name)));
 }
 
 describe("products", () => {

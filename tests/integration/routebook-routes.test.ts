@@ -5,36 +5,32 @@ import { routes, routeTechnicians } from "~/.server/db/schema";
 import * as routeEdit from "~/routes/routes.$routeId.edit";
 import * as routeList from "~/routes/routes";
 import * as routeNew from "~/routes/routes.new";
-import { createCompany, createMember, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
+import { createCompany, createRoute, requestAs } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute } from "../fixtures/route-call";
 
-let companyId: number;
-let owner: FixtureMember;
-let manager: FixtureMember;
-let technician: FixtureMember;
-let otherTechnician: FixtureMember;
-let analyst: FixtureMember;
-let ownRoute: number;
+const book = routeBookPerFile({
+  routes: { alpha: "Alpha loop", beta: { name: "Beta loop", weekdays: "2" } },
+  members: {
+    owner: "owner",
+    manager: "manager",
+    technician: { role: "technician", routes: ["alpha"] },
+    otherTechnician: "technician",
+    analyst: "analyst",
+  },
+});
+const { owner, manager, technician, otherTechnician, analyst } = book.member;
 let otherCompanyRoute: number;
 
 beforeAll(async () => {
-  companyId = await createCompany();
-  ownRoute = await createRoute(companyId, "Alpha loop", "1");
-  await createRoute(companyId, "Beta loop", "2");
-  owner = await createMember(companyId, "owner");
-  manager = await createMember(companyId, "manager");
-  technician = await createMember(companyId, "technician", [ownRoute]);
-  otherTechnician = await createMember(companyId, "technician");
-  analyst = await createMember(companyId, "analyst");
-  const other = await createCompany();
-  otherCompanyRoute = await createRoute(other, "Elsewhere loop", "1");
+  otherCompanyRoute = await createRoute(await createCompany(), "Elsewhere loop", "1");
 });
 
 afterAll(closeDatabase);
 
 async function routeNamed(name: string) {
-  return db().select().from(routes).where(and(eq(routes.companyId, companyId), eq(routes.name, name)));
+  return db().select().from(routes).where(and(eq(routes.companyId, book.companyId), eq(routes.name, name)));
 }
 
 describe("creating a route", () => {
@@ -99,17 +95,17 @@ describe("changing a route", () => {
     const outcome = await postForm(
       routeEdit.action,
       owner,
-      `/routes/${ownRoute}/edit`,
+      `/routes/${book.route.alpha}/edit`,
       { name: "Alpha loop renamed", serviceWeekdays: ["1", "4"], technicianIds: otherTechnician.userId, active: "on" },
-      { routeId: String(ownRoute) },
+      { routeId: String(book.route.alpha) },
     );
     expect(outcome.status).toBe(302);
     const [stored] = await routeNamed("Alpha loop renamed");
     expect(stored?.serviceWeekdays).toBe("1,4");
-    const assigned = await db().select().from(routeTechnicians).where(eq(routeTechnicians.routeId, ownRoute));
+    const assigned = await db().select().from(routeTechnicians).where(eq(routeTechnicians.routeId, book.route.alpha));
     expect(assigned.map((a) => a.userId)).toEqual([otherTechnician.userId]);
     // Put the first technician back for the listing test below.
-    await db().insert(routeTechnicians).values({ routeId: ownRoute, userId: technician.userId });
+    await db().insert(routeTechnicians).values({ routeId: book.route.alpha, userId: technician.userId });
   });
 
   it("answers 404 for another company's route, and changes nothing there", async () => {
@@ -129,7 +125,7 @@ describe("the route list", () => {
     const body = outcome.body as { rows: Array<{ id: number }>; total: number };
     // Their routes: Alpha (given at the start, put back above) and Gamma (assigned on creation); not Beta or Zeta.
     const [gamma] = await routeNamed("Gamma loop");
-    expect(body.rows.map((r) => r.id)).toEqual([ownRoute, gamma!.id]);
+    expect(body.rows.map((r) => r.id)).toEqual([book.route.alpha, gamma!.id]);
   });
 
   it("sorts by name both ways and searches", async () => {

@@ -3,20 +3,17 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { closeDatabase, db } from "~/.server/db/client";
 import { companies } from "~/.server/db/schema";
 import * as settings from "~/routes/settings";
-import { createCompany, createMember, type FixtureMember } from "../fixtures/company";
+import { createCompany } from "../fixtures/company";
 import { fieldErrors, postForm } from "../fixtures/forms";
+import { routeBookPerFile } from "../fixtures/route-book";
 
-let companyId: number;
+const book = routeBookPerFile({ members: { owner: "owner", manager: "manager" } });
+const { owner, manager } = book.member;
 let otherCompanyId: number;
-let owner: FixtureMember;
-let manager: FixtureMember;
 
 beforeAll(async () => {
-  companyId = await createCompany();
   otherCompanyId = await createCompany();
-  await db().update(companies).set({ settings: { alertOwners: true } }).where(eq(companies.id, companyId));
-  owner = await createMember(companyId, "owner");
-  manager = await createMember(companyId, "manager");
+  await db().update(companies).set({ settings: { alertOwners: true } }).where(eq(companies.id, book.companyId));
 });
 
 afterAll(closeDatabase);
@@ -40,7 +37,7 @@ describe("company settings", () => {
   it("saves thresholds, balance band, units and time zone, keeping other settings", async () => {
     const outcome = await postForm(settings.action, owner, "/settings", valid);
     expect(outcome.body).toMatchObject({ ok: true });
-    const saved = await company(companyId);
+    const saved = await company(book.companyId);
     expect(saved).toMatchObject({ unitSystem: "metric", timeZone: "Europe/Lisbon" });
     expect(saved.settings).toMatchObject({
       alertOwners: true,
@@ -53,7 +50,7 @@ describe("company settings", () => {
 
   it("saving the same form twice leaves the same settings", async () => {
     await postForm(settings.action, owner, "/settings", valid);
-    expect((await company(companyId)).settings).toMatchObject({ metalThresholds: { copper: { elevated: 0.4 } } });
+    expect((await company(book.companyId)).settings).toMatchObject({ metalThresholds: { copper: { elevated: 0.4 } } });
   });
 
   it("refuses elevated below clear, a zero clear level and an unknown time zone, naming the fields", async () => {
@@ -66,7 +63,7 @@ describe("company settings", () => {
     const errors = fieldErrors(outcome);
     expect(errors.timeZone).toBe('Time zone: "Mars/Olympus" is not a known time zone (e.g. America/New_York).');
     expect(errors.unitSystem).toBe('Units: "imperial" is not one of us, metric.');
-    expect((await company(companyId)).timeZone).toBe("Europe/Lisbon");
+    expect((await company(book.companyId)).timeZone).toBe("Europe/Lisbon");
   });
 
   it("reports every field's own problem and every cross-field problem in one answer", async () => {
@@ -87,12 +84,12 @@ describe("company settings", () => {
       balanceHigh: "Balanced up to: 0 must be above 0.",
       timeZone: 'Time zone: "Mars/Olympus" is not a known time zone (e.g. America/New_York).',
     });
-    expect((await company(companyId)).timeZone).toBe("Europe/Lisbon");
+    expect((await company(book.companyId)).timeZone).toBe("Europe/Lisbon");
   });
 
   it("is refused to managers", async () => {
     const outcome = await postForm(settings.action, manager, "/settings", { ...valid, timeZone: "UTC" });
     expect(outcome.status).toBe(403);
-    expect((await company(companyId)).timeZone).toBe("Europe/Lisbon");
+    expect((await company(book.companyId)).timeZone).toBe("Europe/Lisbon");
   });
 });

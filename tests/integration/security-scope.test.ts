@@ -1,54 +1,27 @@
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
+import { afterAll, describe, expect, it } from "vitest";
 import { closeDatabase } from "~/.server/db/client";
 import * as apiPool from "~/routes/api.pools.$poolId";
 import * as apiTrend from "~/routes/api.analytics.trend";
 import * as poolPage from "~/routes/pools.$poolId";
 import * as sourcePage from "~/routes/sources.$sourceId";
 import * as sourcesPage from "~/routes/sources";
-import {
-  createCompany,
-  createFillSource,
-  createMember,
-  createPool,
-  createRoute,
-  type FixtureMember,
-  requestAs,
-} from "../fixtures/company";
+import { type FixtureMember, requestAs } from "../fixtures/company";
+import { routeBookPerFile } from "../fixtures/route-book";
 import { callRoute } from "../fixtures/route-call";
 
-let technician: FixtureMember;
-let manager: FixtureMember;
-let ownWell: number;
-let neighbourWell: number;
-let poolId: number;
-
-beforeAll(async () => {
-  const companyId = await createCompany();
-  const ownRoute = await createRoute(companyId, "Own loop", "1");
-  const otherRoute = await createRoute(companyId, "Other loop", "2");
-  ownWell = await createFillSource(
-    companyId,
-    "Well at 4 Own Lane",
-    "shared_well",
-  );
-  neighbourWell = await createFillSource(
-    companyId,
-    "Well at 9 Private Road",
-    "shared_well",
-  );
-  poolId = await createPool(companyId, {
-    routeId: ownRoute,
-    accountCode: "SC-1",
-    fillSourceId: ownWell,
-  });
-  await createPool(companyId, {
-    routeId: otherRoute,
-    accountCode: "SC-2",
-    fillSourceId: neighbourWell,
-  });
-  technician = await createMember(companyId, "technician", [ownRoute]);
-  manager = await createMember(companyId, "manager");
+const book = routeBookPerFile({
+  routes: { own: "Own loop", other: { name: "Other loop", weekdays: "2" } },
+  sources: {
+    ownWell: { name: "Well at 4 Own Lane", kind: "shared_well" },
+    neighbourWell: { name: "Well at 9 Private Road", kind: "shared_well" },
+  },
+  pools: {
+    own: { route: "own", accountCode: "SC-1", source: "ownWell" },
+    other: { route: "other", accountCode: "SC-2", source: "neighbourWell" },
+  },
+  members: { technician: { role: "technician", routes: ["own"] }, manager: "manager" },
 });
+const { technician, manager } = book.member;
 
 afterAll(closeDatabase);
 
@@ -69,21 +42,21 @@ describe("technicians see only the fill sources of their routes' pools", () => {
   it("on the source page: another route's well is not found, with its tests", async () => {
     const own = await callRoute(
       sourcePage.loader,
-      requestAs(technician, `/sources/${ownWell}`),
-      { sourceId: String(ownWell) },
+      requestAs(technician, `/sources/${book.source.ownWell}`),
+      { sourceId: String(book.source.ownWell) },
     );
     expect(own.status).toBe(200);
     const other = await callRoute(
       sourcePage.loader,
-      requestAs(technician, `/sources/${neighbourWell}`),
-      { sourceId: String(neighbourWell) },
+      requestAs(technician, `/sources/${book.source.neighbourWell}`),
+      { sourceId: String(book.source.neighbourWell) },
     );
     expect(other.status).toBe(404);
     expect(JSON.stringify(other.body)).not.toContain("Private Road");
     const asManager = await callRoute(
       sourcePage.loader,
-      requestAs(manager, `/sources/${neighbourWell}`),
-      { sourceId: String(neighbourWell) },
+      requestAs(manager, `/sources/${book.source.neighbourWell}`),
+      { sourceId: String(book.source.neighbourWell) },
     );
     expect(asManager.status).toBe(200);
   });
@@ -120,8 +93,8 @@ describe("ids are plain positive integers", () => {
     });
     const plain = await callRoute(
       apiPool.loader,
-      requestAs(manager, `/api/pools/${poolId}`),
-      { poolId: String(poolId) },
+      requestAs(manager, `/api/pools/${book.pool.own}`),
+      { poolId: String(book.pool.own) },
     );
     expect(plain.status).toBe(200);
   });

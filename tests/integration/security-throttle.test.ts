@@ -14,7 +14,8 @@ import {
   FIXTURE_PASSWORD,
   type FixtureMember,
 } from "../fixtures/company";
-import { callRoute, type Outcome } from "../fixtures/route-call";
+import { postFormFrom } from "../fixtures/forms";
+import type { Outcome } from "../fixtures/route-call";
 
 let companyId: number;
 
@@ -24,48 +25,11 @@ beforeAll(async () => {
 
 afterAll(closeDatabase);
 
-function signInFrom(
-  socket: string,
-  email: string,
-  password: string,
-  forwardedFor?: string,
-): Promise<Outcome> {
-  const headers = new Headers({
-    "Content-Type": "application/x-www-form-urlencoded",
-  });
-  if (forwardedFor) headers.set("X-Forwarded-For", forwardedFor);
-  return callRoute(
-    signInPage.action,
-    new Request("http://localhost:3000/sign-in", {
-      method: "POST",
-      headers,
-      body: new URLSearchParams({ email, password, next: "/" }),
-    }),
-    {},
-    fromSocket(socket),
-  );
-}
+const signInFrom = (socket: string, email: string, password: string, forwardedFor?: string) =>
+  postFormFrom(socket, signInPage.action, "/sign-in", { email, password, next: "/" }, forwardedFor);
 
-function askForLinkFrom(
-  socket: string,
-  email: string,
-  forwardedFor?: string,
-): Promise<Outcome> {
-  const headers = new Headers({
-    "Content-Type": "application/x-www-form-urlencoded",
-  });
-  if (forwardedFor) headers.set("X-Forwarded-For", forwardedFor);
-  return callRoute(
-    forgotPage.action,
-    new Request("http://localhost:3000/forgot-password", {
-      method: "POST",
-      headers,
-      body: new URLSearchParams({ email }),
-    }),
-    {},
-    fromSocket(socket),
-  );
-}
+const askForLinkFrom = (socket: string, email: string, forwardedFor?: string) =>
+  postFormFrom(socket, forgotPage.action, "/forgot-password", { email }, forwardedFor);
 
 const formError = (outcome: Outcome) =>
   (outcome.body as { formError: string | null }).formError;

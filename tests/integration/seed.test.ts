@@ -52,6 +52,16 @@ afterAll(async () => {
 
 type MetalReading = { poolId: number; sampledAt: Date; value: number };
 
+/** Every reading of the metal in the seeded company, in no particular order. */
+async function metalReadings({ db, summary }: Seeded, metal: "iron" | "copper"): Promise<MetalReading[]> {
+  const value = schema.waterTests[metal];
+  const rows = await db
+    .select({ poolId: schema.waterTests.poolId, sampledAt: schema.waterTests.sampledAt, value })
+    .from(schema.waterTests)
+    .where(and(eq(schema.waterTests.companyId, summary.companyId), isNotNull(value)));
+  return rows.map((r) => ({ ...r, value: r.value ?? 0 }));
+}
+
 /** Episode openings per pool: open at >= elevated, close at the first later reading < clear. */
 function episodeOpenings(readings: MetalReading[], elevated: number, clear: number): Map<number, number> {
   const openings = new Map<number, number>();
@@ -107,13 +117,7 @@ describe("demo seed", () => {
     expect(ironWell).toBeDefined();
 
     const pools = await db.select().from(schema.pools).where(eq(schema.pools.companyId, summary.companyId));
-    const readings = (
-      await db
-        .select({ poolId: schema.waterTests.poolId, sampledAt: schema.waterTests.sampledAt, value: schema.waterTests.iron })
-        .from(schema.waterTests)
-        .where(and(eq(schema.waterTests.companyId, summary.companyId), isNotNull(schema.waterTests.iron)))
-    ).map((r) => ({ ...r, value: r.value ?? 0 }));
-    const openings = episodeOpenings(readings, 0.2, 0.1);
+    const openings = episodeOpenings(await metalReadings(seeded[0]!, "iron"), 0.2, 0.1);
     const onIronWell = pools.filter((p) => p.fillSourceId === ironWell!.id).map((p) => p.id);
     const onMunicipal = pools.filter((p) => p.fillSourceId === municipal!.id).map((p) => p.id);
 
@@ -138,13 +142,7 @@ describe("demo seed", () => {
         .filter((h) => (h.exchangerMetal === "copper" || h.exchangerMetal === "cupronickel") && new Date(h.installedOn!) <= tenYearsBefore)
         .map((h) => h.poolId),
     );
-    const readings = (
-      await db
-        .select({ poolId: schema.waterTests.poolId, sampledAt: schema.waterTests.sampledAt, value: schema.waterTests.copper })
-        .from(schema.waterTests)
-        .where(and(eq(schema.waterTests.companyId, summary.companyId), isNotNull(schema.waterTests.copper)))
-    ).map((r) => ({ ...r, value: r.value ?? 0 }));
-    const openings = episodeOpenings(readings, 0.3, 0.1);
+    const openings = episodeOpenings(await metalReadings(seeded[0]!, "copper"), 0.3, 0.1);
     const withOld = pools.map((p) => p.id).filter((id) => oldCopper.has(id));
     const without = pools.map((p) => p.id).filter((id) => !oldCopper.has(id));
 
