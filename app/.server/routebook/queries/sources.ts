@@ -4,7 +4,7 @@ import type { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { fillSources, pools, routes, sourceTests } from "../../db/schema";
 import { type Scope, poolsInScope, sourcesInScope } from "../../scope";
-import { listOrder, withTotal } from "./list-page";
+import { listPage } from "./list-page";
 
 export const SOURCE_SORTS = ["name", "kind", "pools", "lastTest"] as const;
 export type SourceSort = (typeof SOURCE_SORTS)[number];
@@ -27,15 +27,12 @@ export async function listSources(
     filters.kind ? eq(fillSources.kind, filters.kind) : undefined,
     filters.active === null ? undefined : eq(fillSources.active, filters.active),
   );
-  const order = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest }[params.sort];
-  const page = db()
+  const sorts = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest };
+  const select = db()
     .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, active: fillSources.active, poolCount, lastTest })
     .from(fillSources)
-    .where(where)
-    .orderBy(...listOrder(params.dir, order, fillSources.id))
-    .limit(params.limit)
-    .offset(params.offset);
-  const { rows, total } = await withTotal(page, fillSources, where);
+    .$dynamic();
+  const { rows, total } = await listPage(select, { table: fillSources, where, sorts, params });
   return { rows: rows.map((r) => ({ ...r, lastTest: r.lastTest ? String(r.lastTest).slice(0, 10) : null })), total };
 }
 
