@@ -1,5 +1,5 @@
 import { asc, type AnyColumn, count, desc, type SQL, type SQLWrapper } from "drizzle-orm";
-import type { MySqlSelect, MySqlTable } from "drizzle-orm/mysql-core";
+import type { AnyMySqlColumn, MySqlSelect, MySqlTable } from "drizzle-orm/mysql-core";
 import type { ListParams } from "~/lib/list-params";
 import { db } from "../../db/client";
 
@@ -28,4 +28,22 @@ export async function listPage<Select extends MySqlSelect, Sort extends string>(
     .offset(params.offset);
   const [rows, [total]] = await Promise.all([page, db().select({ n: count() }).from(table).where(where)]);
   return { rows: rows as Awaited<Select>, total: total?.n ?? 0 };
+}
+
+type NamedTable = MySqlTable & {
+  id: AnyMySqlColumn<{ data: number; notNull: true }>;
+  name: AnyMySqlColumn<{ data: string; notNull: true }>;
+  active: AnyMySqlColumn<{ data: boolean; notNull: true }>;
+};
+
+/**
+ * Names for pickers and filters, in name order: routes or fill sources under
+ * `where`. Archived ones are flagged; pickers leave them out.
+ */
+export function nameOptions(table: NamedTable, where: SQL) {
+  return db()
+    .select({ id: table.id, name: table.name, active: table.active })
+    .from(table)
+    .where(where)
+    .orderBy(asc(table.name));
 }

@@ -3,7 +3,7 @@ import { likePattern, type ListParams } from "~/lib/list-params";
 import { db } from "../../db/client";
 import { memberships, pools, routes, routeTechnicians, user } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { listPage } from "./list-page";
+import { listPage, nameOptions } from "./list-page";
 
 export const ROUTE_SORTS = ["name", "weekdays", "pools"] as const;
 export type RouteSort = (typeof ROUTE_SORTS)[number];
@@ -61,11 +61,7 @@ export async function companyTechnicians(scope: Scope) {
     .orderBy(asc(user.name));
 }
 
-/** Route names for pickers and filters, in the member's scope; archived ones are flagged, pickers leave them out. */
+/** Route names for pickers and filters, in the member's scope. */
 export async function routeOptions(scope: Scope) {
-  return db()
-    .select({ id: routes.id, name: routes.name, active: routes.active })
-    .from(routes)
-    .where(routesInScope(scope))
-    .orderBy(asc(routes.name));
+  return nameOptions(routes, routesInScope(scope));
 }

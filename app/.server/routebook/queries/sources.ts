@@ -4,7 +4,7 @@ import type { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { fillSources, pools, routes, sourceTests } from "../../db/schema";
 import { type Scope, poolsInScope, sourcesInScope } from "../../scope";
-import { listPage } from "./list-page";
+import { listPage, nameOptions } from "./list-page";
 
 export const SOURCE_SORTS = ["name", "kind", "pools", "lastTest"] as const;
 export type SourceSort = (typeof SOURCE_SORTS)[number];
@@ -76,11 +76,7 @@ export async function sourceDetail(scope: Scope, sourceId: number) {
 
 export type SourceDetail = NonNullable<Awaited<ReturnType<typeof sourceDetail>>>;
 
-/** Source names for pickers and filters; archived ones are flagged, pickers leave them out. */
+/** Source names for pickers and filters, in the member's scope. */
 export async function sourceOptions(scope: Scope) {
-  return db()
-    .select({ id: fillSources.id, name: fillSources.name, active: fillSources.active })
-    .from(fillSources)
-    .where(sourcesInScope(scope))
-    .orderBy(asc(fillSources.name));
+  return nameOptions(fillSources, sourcesInScope(scope));
 }
