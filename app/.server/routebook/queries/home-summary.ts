@@ -4,6 +4,7 @@ import { db } from "../../db/client";
 import { pools, routes, waterTests } from "../../db/schema";
 import { utcDate } from "../../db/values";
 import { type Scope, poolsInScope } from "../../scope";
+import { poolStopColumns } from "./pools";
 
 export type OpenMetalCase = {
   poolId: number;
@@ -147,11 +148,7 @@ export type TodayStop = {
 export async function stopsForWeekday(scope: Scope, isoWeekday: number): Promise<TodayStop[]> {
   const rows = await db()
     .select({
-      poolId: pools.id,
-      customerName: pools.customerName,
-      street: pools.street,
-      neighbourhood: pools.neighbourhood,
-      routeName: routes.name,
+      ...poolStopColumns,
       // The (pool_id, sampled_at) index answers this per pool without a scan.
       lastVisitAt: sql<Date | null>`(SELECT MAX(w.sampled_at) FROM water_tests w WHERE w.pool_id = ${pools.id})`,
     })

@@ -82,18 +82,20 @@ export async function poolForEdit(scope: Scope, poolId: number) {
   return { pool, equipment: items };
 }
 
+/** A pool as the visit picker and the day's stops name it (pools joined with their route). */
+export const poolStopColumns = {
+  poolId: pools.id,
+  customerName: pools.customerName,
+  street: pools.street,
+  neighbourhood: pools.neighbourhood,
+  routeName: routes.name,
+};
+
 /** Pools matching a search, for the visit picker. */
 export async function searchPools(scope: Scope, q: string, limit = 20) {
   const pattern = likePattern(q);
   return db()
-    .select({
-      poolId: pools.id,
-      accountCode: pools.accountCode,
-      customerName: pools.customerName,
-      street: pools.street,
-      neighbourhood: pools.neighbourhood,
-      routeName: routes.name,
-    })
+    .select({ ...poolStopColumns, accountCode: pools.accountCode })
     .from(pools)
     .leftJoin(routes, eq(routes.id, pools.routeId))
     .where(
