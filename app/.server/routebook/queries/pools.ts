@@ -4,7 +4,7 @@ import type { SURFACES } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { equipment, fillSources, pools, routes } from "../../db/schema";
-import { type Scope, poolsInScope } from "../../scope";
+import { activePoolsInScope, type Scope, poolsInScope } from "../../scope";
 import { listPage } from "./list-page";
 
 export const POOL_SORTS = ["account", "customer", "street", "neighbourhood", "route", "volume", "lastTest"] as const;
@@ -100,8 +100,7 @@ export async function searchPools(scope: Scope, q: string, limit = 20) {
     .leftJoin(routes, eq(routes.id, pools.routeId))
     .where(
       and(
-        poolsInScope(scope),
-        eq(pools.active, true),
+        activePoolsInScope(scope),
         or(like(pools.accountCode, pattern), like(pools.customerName, pattern), like(pools.street, pattern)),
       ),
     )
