@@ -20,18 +20,19 @@ type Source = { headers: string[]; page: (afterId: number, size: number) => Prom
 const PAGE_SIZE = 5000;
 
 /**
- * A data set's page reader: the rows of `select` (its select, from and joins,
- * made `$dynamic()`) under `where` whose id comes after the last page's, in
- * id order, each written out as its id and CSV cells.
+ * A data set's page reader: the rows of `select` (its select, from and joins)
+ * under `where` whose `id` comes after the last page's, in id order, each
+ * written out as its id and CSV cells.
  */
 function pagesInIdOrder<Select extends MySqlSelect>(
-  select: () => Select,
   id: AnyColumn,
   where: SQL | undefined,
+  select: () => { $dynamic(): Select },
   line: (row: Awaited<Select>[number]) => { id: number; cells: CsvCell[] },
 ): Source["page"] {
   return async (afterId, size) => {
     const rows = (await select()
+      .$dynamic()
       .where(and(where, gt(id, afterId)))
       .orderBy(asc(id))
       .limit(size)) as Awaited<Select>;
@@ -52,14 +53,13 @@ function source(scope: Scope, dataset: Dataset): Source {
           "manganese_below_detection", "hardness_endpoint", "stain", "stain_colour", "pad_tint", "note", "import_batch_id",
         ],
         page: pagesInIdOrder(
+          waterTests.id,
+          and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId)),
           () =>
             db()
               .select({ t: waterTests, accountCode: pools.accountCode, street: pools.street })
               .from(waterTests)
-              .innerJoin(pools, eq(pools.id, waterTests.poolId))
-              .$dynamic(),
-          waterTests.id,
-          and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId)),
+              .innerJoin(pools, eq(pools.id, waterTests.poolId)),
           ({ t, accountCode, street }) => ({
             id: t.id,
             cells: [
@@ -75,15 +75,14 @@ function source(scope: Scope, dataset: Dataset): Source {
       return {
         headers: ["treatment_id", "account_code", "street", "applied_at_utc", "product", "category", "amount", "unit", "cost", "water_test_id", "import_batch_id"],
         page: pagesInIdOrder(
+          treatments.id,
+          and(poolsInScope(scope), eq(treatments.companyId, scope.companyId)),
           () =>
             db()
               .select({ t: treatments, accountCode: pools.accountCode, street: pools.street, product: products.name, category: products.category })
               .from(treatments)
               .innerJoin(pools, eq(pools.id, treatments.poolId))
-              .innerJoin(products, eq(products.id, treatments.productId))
-              .$dynamic(),
-          treatments.id,
-          and(poolsInScope(scope), eq(treatments.companyId, scope.companyId)),
+              .innerJoin(products, eq(products.id, treatments.productId)),
           ({ t, accountCode, street, product, category }) => ({
             id: t.id,
             cells: [t.id, accountCode, street, t.appliedAt, product, category, t.amount, t.unit, t.cost, t.waterTestId, t.importBatchId],
@@ -94,15 +93,14 @@ function source(scope: Scope, dataset: Dataset): Source {
       return {
         headers: ["pool_id", "account_code", "customer_name", "customer_phone", "customer_email", "street", "neighbourhood", "postal_code", "route", "fill_source", "volume_litres", "surface", "sanitiser", "active"],
         page: pagesInIdOrder(
+          pools.id,
+          poolsInScope(scope),
           () =>
             db()
               .select({ p: pools, route: routes.name, source: fillSources.name })
               .from(pools)
               .leftJoin(routes, eq(routes.id, pools.routeId))
-              .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-              .$dynamic(),
-          pools.id,
-          poolsInScope(scope),
+              .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId)),
           ({ p, route, source: fill }) => ({
             id: p.id,
             cells: [
@@ -116,9 +114,9 @@ function source(scope: Scope, dataset: Dataset): Source {
       return {
         headers: ["product_id", "name", "category", "label_dose", "dose_unit", "dose_basis", "unit_cost", "active"],
         page: pagesInIdOrder(
-          () => db().select().from(products).$dynamic(),
           products.id,
           eq(products.companyId, scope.companyId),
+          () => db().select().from(products),
           (p) => ({ id: p.id, cells: [p.id, p.name, p.category, p.labelDose, p.doseUnit, p.doseBasis, p.unitCost, p.active] }),
         ),
       };
@@ -126,9 +124,9 @@ function source(scope: Scope, dataset: Dataset): Source {
       return {
         headers: ["fill_source_id", "name", "kind", "notes"],
         page: pagesInIdOrder(
-          () => db().select().from(fillSources).$dynamic(),
           fillSources.id,
           eq(fillSources.companyId, scope.companyId),
+          () => db().select().from(fillSources),
           (s) => ({ id: s.id, cells: [s.id, s.name, s.kind, s.notes] }),
         ),
       };
