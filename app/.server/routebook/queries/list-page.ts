@@ -14,14 +14,18 @@ export type ListQuery<Sort extends string> = {
 
 /**
  * One page of a list together with the number of all rows matching the same
- * condition. `select` is the list's select, from and joins, made `$dynamic()`;
- * the page is ordered by the chosen sort in the chosen direction, then by id,
- * so pages never overlap.
+ * condition. `select` is the list's select, from and joins; the page is
+ * ordered by the chosen sort in the chosen direction, then by id, so pages
+ * never overlap.
  */
-export async function listPage<Select extends MySqlSelect, Sort extends string>(select: Select, list: ListQuery<Sort>) {
+export async function listPage<Select extends MySqlSelect, Sort extends string>(
+  select: { $dynamic(): Select },
+  list: ListQuery<Sort>,
+) {
   const { table, where, sorts, params } = list;
   const sortedBy = sorts[params.sort];
   const page = select
+    .$dynamic()
     .where(where)
     .orderBy(params.dir === "desc" ? desc(sortedBy) : asc(sortedBy), asc(table.id))
     .limit(params.limit)

@@ -62,8 +62,7 @@ export async function listPools(scope: Scope, params: ListParams<PoolSort>, filt
     })
     .from(pools)
     .leftJoin(routes, eq(routes.id, pools.routeId))
-    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-    .$dynamic();
+    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId));
   const { rows, total } = await listPage(select, { table: pools, where, sorts, params });
   return { rows: rows.map((r) => ({ ...r, lastTest: utcDate(r.lastTest) })), total };
 }

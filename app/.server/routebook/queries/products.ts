@@ -23,7 +23,7 @@ export async function listProducts(scope: Scope, params: ListParams<ProductSort>
     filters.active === null ? undefined : eq(products.active, filters.active),
   );
   const sorts = { name: products.name, category: products.category, labelDose: products.labelDose, unitCost: products.unitCost };
-  return listPage(db().select().from(products).$dynamic(), { table: products, where, sorts, params });
+  return listPage(db().select().from(products), { table: products, where, sorts, params });
 }
 
 export async function productForEdit(scope: Scope, productId: number) {

@@ -33,8 +33,7 @@ export async function listRoutes(scope: Scope, params: ListParams<RouteSort>, fi
   const sorts = { name: routes.name, weekdays: routes.serviceWeekdays, pools: poolCount };
   const select = db()
     .select({ id: routes.id, name: routes.name, serviceWeekdays: routes.serviceWeekdays, active: routes.active, technicians, poolCount })
-    .from(routes)
-    .$dynamic();
+    .from(routes);
   return listPage(select, { table: routes, where, sorts, params });
 }
 

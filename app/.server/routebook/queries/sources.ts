@@ -30,8 +30,7 @@ export async function listSources(
   const sorts = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest };
   const select = db()
     .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, active: fillSources.active, poolCount, lastTest })
-    .from(fillSources)
-    .$dynamic();
+    .from(fillSources);
   const { rows, total } = await listPage(select, { table: fillSources, where, sorts, params });
   return { rows: rows.map((r) => ({ ...r, lastTest: r.lastTest ? String(r.lastTest).slice(0, 10) : null })), total };
 }
