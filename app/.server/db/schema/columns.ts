@@ -17,7 +17,7 @@ export const belongsTo = (name: string, parent: () => MySqlColumn) =>
 /** A millisecond instant; datetime(3) instead of timestamp keeps it valid past 2038. */
 export const instant = (name: string) => datetime(name, { fsp: 3 });
 
-/** An instant the database sets to the current time when the row is written. */
+/** An instant that defaults to the database's current time when the row is inserted. */
 export const instantNow = (name: string) => instant(name).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
 
 export const createdAt = () => instantNow("created_at");
@@ -30,7 +30,7 @@ export const decimalNumber = (name: string, precision: number, scale: number) =>
 /** A required yes/no column with its default. */
 export const flag = (name: string, initially: boolean) => boolean(name).notNull().default(initially);
 
-/** Archived rows keep their history but leave the day's lists and forms. */
+/** In use; archived rows (false) keep their history but leave the day's lists and forms. */
 export const active = () => flag("active", true);
 
 /** The three metals in mg/L, each with its "below detection" mark (a "<x" reading stores x). */
