@@ -195,12 +195,7 @@ export function compareGroups(observations: readonly GroupObservation[], rulesOv
 }
 
 /** Observations and comparison in one call, for one grouping key. */
-export function groupComparison(
-  pools: readonly PoolProfile[],
-  tests: readonly Pick<MetalTest, "poolId" | "takenAt">[],
-  episodes: readonly Episode[],
-  key: GroupingKey,
-  options: ObservationOptions = {},
-): GroupStatistics[] {
-  return compareGroups(groupObservations(pools, tests, episodes, key, options), options.rules);
+export function groupComparison(...input: Parameters<typeof groupObservations>): GroupStatistics[] {
+  const options = input[4];
+  return compareGroups(groupObservations(...input), options?.rules);
 }

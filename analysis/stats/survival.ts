@@ -47,22 +47,15 @@ export function kaplanMeier(
   const level = options.level ?? DEFAULT_CONFIDENCE;
   const interval = options.interval ?? "log-log";
   const z = normalCriticalValue(level);
-  const sorted = [...observations].sort((a, b) => a.time - b.time);
   const steps: SurvivalStep[] = [];
-  let atRisk = sorted.length;
+  let atRisk = observations.length;
   let survival = 1;
   let greenwoodSum = 0;
   let totalEvents = 0;
-  let i = 0;
-  while (i < sorted.length) {
-    const time = sorted[i]!.time;
-    let events = 0;
-    let censored = 0;
-    while (i < sorted.length && sorted[i]!.time === time) {
-      if (sorted[i]!.event) events++;
-      else censored++;
-      i++;
-    }
+  for (const tied of tiedTimes([observations])) {
+    const { time } = tied;
+    const events = tied.events[0]!;
+    const censored = tied.leaving[0]! - events;
     if (events > 0) {
       survival *= 1 - events / atRisk;
       greenwoodSum += atRisk > events ? events / (atRisk * (atRisk - events)) : Infinity;
@@ -76,7 +69,7 @@ export function kaplanMeier(
   const firstAtOrBelowHalf = (pick: (s: SurvivalStep) => number) => steps.find((s) => s.events > 0 && pick(s) <= 0.5)?.time ?? null;
   return {
     steps,
-    observations: sorted.length,
+    observations: observations.length,
     events: totalEvents,
     median: firstAtOrBelowHalf((s) => s.survival),
     // The lower band falls to one half first, so it gives the earlier limit.
@@ -109,6 +102,31 @@ export function survivalAt(curve: KaplanMeierCurve, time: number): number {
   return value;
 }
 
+/** One distinct time of the observations, with each group's events and departures (events and censorings) then. */
+interface TiedTime {
+  time: number;
+  events: number[];
+  leaving: number[];
+}
+
+/** The groups' observations pooled and sorted by time, one entry per distinct time. */
+function tiedTimes(groups: readonly (readonly SurvivalObservation[])[]): TiedTime[] {
+  const pooled = groups
+    .flatMap((observations, group) => observations.map((o) => ({ time: o.time, event: o.event, group })))
+    .sort((a, b) => a.time - b.time);
+  const times: TiedTime[] = [];
+  for (const o of pooled) {
+    let current = times.at(-1);
+    if (current?.time !== o.time) {
+      current = { time: o.time, events: groups.map(() => 0), leaving: groups.map(() => 0) };
+      times.push(current);
+    }
+    current.leaving[o.group]! += 1;
+    if (o.event) current.events[o.group]! += 1;
+  }
+  return times;
+}
+
 export interface LogRankResult {
   chiSquare: number;
   pValue: number;
@@ -121,34 +139,15 @@ export interface LogRankResult {
  * variance at each event time, ties included), chi-square on 1 degree of freedom.
  */
 export function logRankTest(groupA: readonly SurvivalObservation[], groupB: readonly SurvivalObservation[]): LogRankResult {
-  const all = [
-    ...groupA.map((o) => ({ ...o, group: 0 })),
-    ...groupB.map((o) => ({ ...o, group: 1 })),
-  ].sort((a, b) => a.time - b.time);
   let riskA = groupA.length;
   let riskB = groupB.length;
   let observedA = 0;
   let expectedA = 0;
   let observedB = 0;
   let variance = 0;
-  let i = 0;
-  while (i < all.length) {
-    const time = all[i]!.time;
-    let eventsA = 0;
-    let eventsB = 0;
-    let leavingA = 0;
-    let leavingB = 0;
-    while (i < all.length && all[i]!.time === time) {
-      const o = all[i]!;
-      if (o.group === 0) {
-        leavingA++;
-        if (o.event) eventsA++;
-      } else {
-        leavingB++;
-        if (o.event) eventsB++;
-      }
-      i++;
-    }
+  for (const tied of tiedTimes([groupA, groupB])) {
+    const [eventsA, eventsB] = tied.events as [number, number];
+    const [leavingA, leavingB] = tied.leaving as [number, number];
     const events = eventsA + eventsB;
     const risk = riskA + riskB;
     if (events > 0 && risk > 0) {

@@ -34,6 +34,15 @@ export function isDuplicateKey(error: unknown, keyName?: string): boolean {
   return false;
 }
 
+/** A unique key of the company's rows, with the form field and message that answer a clash on it. */
+export type UniqueKeyClash = { key: string; field: string; message: string };
+
+/** A clash on the given unique key becomes a 409 on its field; any other error is thrown on. */
+export function refuseClash(error: unknown, clash: UniqueKeyClash): ServiceRefusal {
+  if (isDuplicateKey(error, clash.key)) return conflict(clash.field, clash.message);
+  throw error;
+}
+
 /** A refusal as a form action's answer: field errors for the form, with the service's status. */
 export function refusedAnswer(refused: Pick<ServiceRefusal, "fieldErrors" | "formError"> & { status?: number }) {
   return data(

@@ -30,6 +30,11 @@ export function poolsInScope(scope: Scope): SQL {
   return and(company, inArray(pools.routeId, scope.routeIds))!;
 }
 
+/** Pools in the member's scope that are still served (not archived). */
+export function activePoolsInScope(scope: Scope): SQL {
+  return and(poolsInScope(scope), eq(pools.active, true))!;
+}
+
 /**
  * Fill sources a member may see: the company's, and for technicians only the
  * sources of their routes' pools (a private well is named after its address).

@@ -1,3 +1,5 @@
+import type { Metal, MetalReading } from "@analysis/metals/reading";
+
 /**
  * Raw SQL results arrive with DATETIME as "YYYY-MM-DD HH:MM:SS.fff" text (the
  * server runs in UTC); query-builder results arrive as Date. Both become Date.
@@ -12,4 +14,16 @@ export function utcDate(value: unknown): Date | null {
 /** A stored calendar date ("YYYY-MM-DD") as the epoch milliseconds of its UTC midnight. */
 export function dayToMs(day: string | null): number | null {
   return day ? Date.parse(`${day}T00:00:00Z`) : null;
+}
+
+/** A test's three stored metals from its readings: a metal not read is NULL, and not below detection. */
+export function metalColumnValues(readings: Partial<Record<Metal, MetalReading | null>>) {
+  return {
+    copper: readings.copper?.value ?? null,
+    copperBelowDetection: readings.copper?.belowDetection ?? false,
+    iron: readings.iron?.value ?? null,
+    ironBelowDetection: readings.iron?.belowDetection ?? false,
+    manganese: readings.manganese?.value ?? null,
+    manganeseBelowDetection: readings.manganese?.belowDetection ?? false,
+  };
 }

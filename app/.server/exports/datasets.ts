@@ -1,4 +1,5 @@
-import { and, asc, eq, gt } from "drizzle-orm";
+import { and, type AnyColumn, asc, eq, gt, type SQL } from "drizzle-orm";
+import type { MySqlSelect } from "drizzle-orm/mysql-core";
 import { db } from "../db/client";
 import { fillSources, pools, products, routes, treatments, waterTests } from "../db/schema";
 import { type Scope, poolsInScope } from "../scope";
@@ -18,8 +19,26 @@ type Source = { headers: string[]; page: (afterId: number, size: number) => Prom
 
 const PAGE_SIZE = 5000;
 
-function lastIdOf<T extends { id: number }>(rows: T[]): number | null {
-  return rows.length > 0 ? rows[rows.length - 1]!.id : null;
+/**
+ * A data set's page reader: the rows of `select` (its select, from and joins)
+ * under `where` whose `id` comes after the last page's, in id order, each
+ * written out as its id and CSV cells.
+ */
+function pagesInIdOrder<Select extends MySqlSelect>(
+  id: AnyColumn,
+  where: SQL | undefined,
+  select: () => { $dynamic(): Select },
+  line: (row: Awaited<Select>[number]) => { id: number; cells: CsvCell[] },
+): Source["page"] {
+  return async (afterId, size) => {
+    const rows = (await select()
+      .$dynamic()
+      .where(and(where, gt(id, afterId)))
+      .orderBy(asc(id))
+      .limit(size)) as Awaited<Select>;
+    const lines = rows.map(line);
+    return { lastId: lines.at(-1)?.id ?? null, rows: lines.map((l) => l.cells) };
+  };
 }
 
 /** Each data set reads in id order, one page at a time, always inside the member's scope. */
@@ -33,94 +52,83 @@ function source(scope: Scope, dataset: Dataset): Source {
           "copper_mg_l", "copper_below_detection", "iron_mg_l", "iron_below_detection", "manganese_mg_l",
           "manganese_below_detection", "hardness_endpoint", "stain", "stain_colour", "pad_tint", "note", "import_batch_id",
         ],
-        page: async (afterId, size) => {
-          const rows = await db()
-            .select({ t: waterTests, accountCode: pools.accountCode, street: pools.street })
-            .from(waterTests)
-            .innerJoin(pools, eq(pools.id, waterTests.poolId))
-            .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId), gt(waterTests.id, afterId)))
-            .orderBy(asc(waterTests.id))
-            .limit(size);
-          return {
-            lastId: rows.length > 0 ? rows[rows.length - 1]!.t.id : null,
-            rows: rows.map(({ t, accountCode, street }) => [
+        page: pagesInIdOrder(
+          waterTests.id,
+          and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId)),
+          () =>
+            db()
+              .select({ t: waterTests, accountCode: pools.accountCode, street: pools.street })
+              .from(waterTests)
+              .innerJoin(pools, eq(pools.id, waterTests.poolId)),
+          ({ t, accountCode, street }) => ({
+            id: t.id,
+            cells: [
               t.id, accountCode, street, t.sampledAt, t.freeChlorine, t.combinedChlorine, t.ph, t.totalAlkalinity,
               t.calciumHardness, t.cyanuricAcid, t.salt, t.tds, t.temperatureC, t.copper, t.copperBelowDetection, t.iron,
               t.ironBelowDetection, t.manganese, t.manganeseBelowDetection, t.hardnessEndpoint, t.stain, t.stainColour,
               t.padTint, t.note, t.importBatchId,
-            ]),
-          };
-        },
+            ],
+          }),
+        ),
       };
     case "treatments":
       return {
         headers: ["treatment_id", "account_code", "street", "applied_at_utc", "product", "category", "amount", "unit", "cost", "water_test_id", "import_batch_id"],
-        page: async (afterId, size) => {
-          const rows = await db()
-            .select({ t: treatments, accountCode: pools.accountCode, street: pools.street, product: products.name, category: products.category })
-            .from(treatments)
-            .innerJoin(pools, eq(pools.id, treatments.poolId))
-            .innerJoin(products, eq(products.id, treatments.productId))
-            .where(and(poolsInScope(scope), eq(treatments.companyId, scope.companyId), gt(treatments.id, afterId)))
-            .orderBy(asc(treatments.id))
-            .limit(size);
-          return {
-            lastId: rows.length > 0 ? rows[rows.length - 1]!.t.id : null,
-            rows: rows.map(({ t, accountCode, street, product, category }) => [
-              t.id, accountCode, street, t.appliedAt, product, category, t.amount, t.unit, t.cost, t.waterTestId, t.importBatchId,
-            ]),
-          };
-        },
+        page: pagesInIdOrder(
+          treatments.id,
+          and(poolsInScope(scope), eq(treatments.companyId, scope.companyId)),
+          () =>
+            db()
+              .select({ t: treatments, accountCode: pools.accountCode, street: pools.street, product: products.name, category: products.category })
+              .from(treatments)
+              .innerJoin(pools, eq(pools.id, treatments.poolId))
+              .innerJoin(products, eq(products.id, treatments.productId)),
+          ({ t, accountCode, street, product, category }) => ({
+            id: t.id,
+            cells: [t.id, accountCode, street, t.appliedAt, product, category, t.amount, t.unit, t.cost, t.waterTestId, t.importBatchId],
+          }),
+        ),
       };
     case "pools":
       return {
         headers: ["pool_id", "account_code", "customer_name", "customer_phone", "customer_email", "street", "neighbourhood", "postal_code", "route", "fill_source", "volume_litres", "surface", "sanitiser", "active"],
-        page: async (afterId, size) => {
-          const rows = await db()
-            .select({ p: pools, route: routes.name, source: fillSources.name })
-            .from(pools)
-            .leftJoin(routes, eq(routes.id, pools.routeId))
-            .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-            .where(and(poolsInScope(scope), gt(pools.id, afterId)))
-            .orderBy(asc(pools.id))
-            .limit(size);
-          return {
-            lastId: rows.length > 0 ? rows[rows.length - 1]!.p.id : null,
-            rows: rows.map(({ p, route, source: fill }) => [
+        page: pagesInIdOrder(
+          pools.id,
+          poolsInScope(scope),
+          () =>
+            db()
+              .select({ p: pools, route: routes.name, source: fillSources.name })
+              .from(pools)
+              .leftJoin(routes, eq(routes.id, pools.routeId))
+              .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId)),
+          ({ p, route, source: fill }) => ({
+            id: p.id,
+            cells: [
               p.id, p.accountCode, p.customerName, p.customerPhone, p.customerEmail, p.street, p.neighbourhood, p.postalCode,
               route, fill, p.volumeLitres, p.surface, p.sanitiser, p.active,
-            ]),
-          };
-        },
+            ],
+          }),
+        ),
       };
     case "products":
       return {
         headers: ["product_id", "name", "category", "label_dose", "dose_unit", "dose_basis", "unit_cost", "active"],
-        page: async (afterId, size) => {
-          const rows = await db()
-            .select()
-            .from(products)
-            .where(and(eq(products.companyId, scope.companyId), gt(products.id, afterId)))
-            .orderBy(asc(products.id))
-            .limit(size);
-          return {
-            lastId: lastIdOf(rows),
-            rows: rows.map((p) => [p.id, p.name, p.category, p.labelDose, p.doseUnit, p.doseBasis, p.unitCost, p.active]),
-          };
-        },
+        page: pagesInIdOrder(
+          products.id,
+          eq(products.companyId, scope.companyId),
+          () => db().select().from(products),
+          (p) => ({ id: p.id, cells: [p.id, p.name, p.category, p.labelDose, p.doseUnit, p.doseBasis, p.unitCost, p.active] }),
+        ),
       };
     case "fill-sources":
       return {
         headers: ["fill_source_id", "name", "kind", "notes"],
-        page: async (afterId, size) => {
-          const rows = await db()
-            .select()
-            .from(fillSources)
-            .where(and(eq(fillSources.companyId, scope.companyId), gt(fillSources.id, afterId)))
-            .orderBy(asc(fillSources.id))
-            .limit(size);
-          return { lastId: lastIdOf(rows), rows: rows.map((s) => [s.id, s.name, s.kind, s.notes]) };
-        },
+        page: pagesInIdOrder(
+          fillSources.id,
+          eq(fillSources.companyId, scope.companyId),
+          () => db().select().from(fillSources),
+          (s) => ({ id: s.id, cells: [s.id, s.name, s.kind, s.notes] }),
+        ),
       };
   }
 }

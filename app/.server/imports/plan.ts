@@ -1,4 +1,5 @@
-import { and, eq, gte, inArray, lte } from "drizzle-orm";
+import { and, eq, gte, inArray, lte, type SQL } from "drizzle-orm";
+import type { AnyMySqlColumn } from "drizzle-orm/mysql-core";
 import { DateOrderEvidence, type DateOrderFinding } from "~/lib/imports/dates";
 import type { ImportOptions } from "~/lib/imports/options";
 import { accountKey, addressKey, productKey, unknownPoolKey } from "~/lib/imports/match-keys";
@@ -257,44 +258,57 @@ function knownPoolSpan(rows: PlannedRows, treatmentsOnly: boolean) {
   return { ids: [...ids], from: new Date(min), to: new Date(max) };
 }
 
-/** Tests already stored for the file's pools within the file's time span, as pool|instant keys. */
-async function existingTests(scope: Scope, rows: PlannedRows) {
-  const { ids, from, to } = knownPoolSpan(rows, false);
+type PoolSpan = ReturnType<typeof knownPoolSpan>;
+
+/** Where a stored table keeps the owning company, the pool and the time of a row. */
+type PoolTimeColumns = { companyId: AnyMySqlColumn; poolId: AnyMySqlColumn; at: AnyMySqlColumn };
+
+/**
+ * Keys of the rows already stored for the span's pools within its time span,
+ * read 1,000 pool ids per statement so the IN list stays short.
+ */
+async function storedKeys<Row>(
+  scope: Scope,
+  span: PoolSpan,
+  columns: PoolTimeColumns,
+  read: (where: SQL | undefined) => Promise<Row[]>,
+  keyOf: (row: Row) => string,
+) {
   const keys = new Set<string>();
-  for (let i = 0; i < ids.length; i += 1000) {
-    const found = await db()
-      .select({ poolId: waterTests.poolId, sampledAt: waterTests.sampledAt })
-      .from(waterTests)
-      .where(
-        and(
-          eq(waterTests.companyId, scope.companyId),
-          inArray(waterTests.poolId, ids.slice(i, i + 1000)),
-          gte(waterTests.sampledAt, from),
-          lte(waterTests.sampledAt, to),
-        ),
-      );
-    for (const row of found) keys.add(instantKey(row.poolId, row.sampledAt.getTime()));
+  for (let i = 0; i < span.ids.length; i += 1000) {
+    const where = and(
+      eq(columns.companyId, scope.companyId),
+      inArray(columns.poolId, span.ids.slice(i, i + 1000)),
+      gte(columns.at, span.from),
+      lte(columns.at, span.to),
+    );
+    for (const row of await read(where)) keys.add(keyOf(row));
   }
   return keys;
 }
 
+/** Tests already stored for the file's pools within the file's time span, as pool|instant keys. */
+async function existingTests(scope: Scope, rows: PlannedRows) {
+  return storedKeys(
+    scope,
+    knownPoolSpan(rows, false),
+    { companyId: waterTests.companyId, poolId: waterTests.poolId, at: waterTests.sampledAt },
+    (where) => db().select({ poolId: waterTests.poolId, sampledAt: waterTests.sampledAt }).from(waterTests).where(where),
+    (row) => instantKey(row.poolId, row.sampledAt.getTime()),
+  );
+}
+
 /** Treatments already stored: the same pool, time, product and amount count as the same treatment. */
 async function existingTreatmentKeys(scope: Scope, rows: PlannedRows) {
-  const { ids, from, to } = knownPoolSpan(rows, true);
-  const keys = new Set<string>();
-  for (let i = 0; i < ids.length; i += 1000) {
-    const found = await db()
-      .select({ poolId: treatments.poolId, appliedAt: treatments.appliedAt, productId: treatments.productId, amount: treatments.amount })
-      .from(treatments)
-      .where(
-        and(
-          eq(treatments.companyId, scope.companyId),
-          inArray(treatments.poolId, ids.slice(i, i + 1000)),
-          gte(treatments.appliedAt, from),
-          lte(treatments.appliedAt, to),
-        ),
-      );
-    for (const row of found) keys.add(`${instantKey(row.poolId, row.appliedAt.getTime())}|${row.productId}|${row.amount}`);
-  }
-  return keys;
+  return storedKeys(
+    scope,
+    knownPoolSpan(rows, true),
+    { companyId: treatments.companyId, poolId: treatments.poolId, at: treatments.appliedAt },
+    (where) =>
+      db()
+        .select({ poolId: treatments.poolId, appliedAt: treatments.appliedAt, productId: treatments.productId, amount: treatments.amount })
+        .from(treatments)
+        .where(where),
+    (row) => `${instantKey(row.poolId, row.appliedAt.getTime())}|${row.productId}|${row.amount}`,
+  );
 }

@@ -1,5 +1,5 @@
 import { z } from "zod";
-import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
+import { METALS, type MetalThresholds } from "@analysis/metals/reading";
 import { GROUPING_KEYS } from "@analysis/stats/groups";
 import { isCalendarDay, plainPositiveInt } from "../strict-params";
 
@@ -11,8 +11,18 @@ import { isCalendarDay, plainPositiveInt } from "../strict-params";
 
 const ISO_DAY = /^\d{4}-\d{2}-\d{2}$/;
 
+/** An empty parameter ("" or null) is read as left out. */
+const blankAsAbsent = (v: unknown) => (v === "" || v === null ? undefined : v);
+
+const oneOf = <T extends string>(values: readonly T[]) =>
+  z.enum(values as [T, ...T[]], { error: `must be one of ${values.join(", ")}` });
+
+/** One of `values`, or `fallback` when left out or empty. */
+const choiceOr = <T extends string>(values: readonly T[], fallback: NoInfer<T>) =>
+  z.preprocess((v) => blankAsAbsent(v) ?? fallback, oneOf(values));
+
 const day = z.preprocess(
-  (v) => (v === "" || v === null ? undefined : v),
+  blankAsAbsent,
   z
     .string()
     .regex(ISO_DAY, { error: "must be a date written YYYY-MM-DD" })
@@ -31,7 +41,7 @@ const positiveId = (name: string) =>
   );
 
 const level = z.preprocess(
-  (v) => (v === "" || v === null ? undefined : v),
+  blankAsAbsent,
   z.coerce
     .number({ error: "must be a number in mg/L" })
     .gt(0, { error: "must be above 0 mg/L" })
@@ -41,7 +51,7 @@ const level = z.preprocess(
 
 const wholeDays = (max: number) =>
   z.preprocess(
-    (v) => (v === "" || v === null ? undefined : v),
+    blankAsAbsent,
     z.coerce
       .number({ error: "must be a number of days" })
       .int({ error: "must be a whole number of days" })
@@ -50,10 +60,7 @@ const wholeDays = (max: number) =>
       .optional(),
   );
 
-export const metalParam = z.preprocess(
-  (v) => (v === "" || v === null ? undefined : v),
-  z.enum(METALS as [Metal, ...Metal[]], { error: `must be one of ${METALS.join(", ")}` }).optional(),
-);
+export const metalParam = z.preprocess(blankAsAbsent, oneOf(METALS).optional());
 
 /** Date window and route: every analytics question takes these. */
 export const windowShape = {
@@ -79,10 +86,7 @@ export const groupsQuery = z
     ...windowShape,
     ...thresholdShape,
     metal: metalParam,
-    grouping: z.preprocess(
-      (v) => (v === "" || v === null || v === undefined ? "fill-source" : v),
-      z.enum(GROUPING_KEYS as [string, ...string[]], { error: `must be one of ${GROUPING_KEYS.join(", ")}` }),
-    ),
+    grouping: choiceOr(GROUPING_KEYS, "fill-source"),
   })
   .refine(fromBeforeTo, fromBeforeToIssue);
 
@@ -94,7 +98,7 @@ export const recurringQuery = z
     recurrenceWindowDays: wholeDays(3650),
     chronicAfterDays: wholeDays(3650),
     include: z.preprocess(
-      (v) => (v === "" || v === null ? undefined : v),
+      blankAsAbsent,
       z.enum(["findings", "readings"], { error: "must be findings or readings" }).optional(),
     ),
   })
@@ -121,10 +125,7 @@ export const seriesQuery = z
   .object({
     ...windowShape,
     ...thresholdShape,
-    analyte: z.preprocess(
-      (v) => (v === "" || v === null || v === undefined ? "copper" : v),
-      z.enum(SERIES_ANALYTES, { error: `must be one of ${SERIES_ANALYTES.join(", ")}` }),
-    ),
+    analyte: choiceOr(SERIES_ANALYTES, "copper"),
   })
   .refine(fromBeforeTo, fromBeforeToIssue);
 
@@ -136,14 +137,8 @@ export const outcomesQuery = z
   .object({
     ...windowShape,
     ...thresholdShape,
-    metal: z.preprocess(
-      (v) => (v === "" || v === null || v === undefined ? "copper" : v),
-      z.enum(METALS as [Metal, ...Metal[]], { error: `must be one of ${METALS.join(", ")}` }),
-    ),
-    arm: z.preprocess(
-      (v) => (v === "" || v === null || v === undefined ? "product" : v),
-      z.enum(ARM_DIMENSIONS, { error: `must be one of ${ARM_DIMENSIONS.join(", ")}` }),
-    ),
+    metal: choiceOr(METALS, "copper"),
+    arm: choiceOr(ARM_DIMENSIONS, "product"),
   })
   .refine(fromBeforeTo, fromBeforeToIssue);
 

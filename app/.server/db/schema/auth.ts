@@ -1,35 +1,42 @@
-import { sql } from "drizzle-orm";
-import { boolean, datetime, index, mysqlTable, text, varchar } from "drizzle-orm/mysql-core";
+import { index, mysqlTable, text, varchar } from "drizzle-orm/mysql-core";
+import { createdAt, flag, instant, updatedAt } from "./columns";
 
 // Tables owned by better-auth. Column names follow its defaults so the drizzle
-// adapter maps them without configuration; datetime(3) instead of timestamp
-// keeps them valid past 2038.
-const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
-const updatedAt = () => datetime("updated_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+// adapter maps them without configuration.
+
+/** better-auth's ids: the keys of its own rows, and the user ids other tables keep. */
+const authId = (name: string) => varchar(name, { length: 36 });
 
 export const user = mysqlTable("user", {
-  id: varchar("id", { length: 36 }).primaryKey(),
+  id: authId("id").primaryKey(),
   name: varchar("name", { length: 200 }).notNull(),
   email: varchar("email", { length: 255 }).notNull().unique(),
-  emailVerified: boolean("email_verified").notNull().default(false),
+  emailVerified: flag("email_verified", false),
   image: text("image"),
   createdAt: createdAt(),
   updatedAt: updatedAt(),
 });
 
+/** A user's id in a row that belongs to the user: required, and deleted with the user. */
+export const requiredUser = (name: string) =>
+  authId(name)
+    .notNull()
+    .references(() => user.id, { onDelete: "cascade" });
+
+/** A user's id kept for the record (who made, sent or accepted something): emptied when the user is deleted. */
+export const optionalUser = (name: string) => authId(name).references(() => user.id, { onDelete: "set null" });
+
 export const session = mysqlTable(
   "session",
   {
-    id: varchar("id", { length: 36 }).primaryKey(),
-    expiresAt: datetime("expires_at", { fsp: 3 }).notNull(),
+    id: authId("id").primaryKey(),
+    expiresAt: instant("expires_at").notNull(),
     token: varchar("token", { length: 255 }).notNull().unique(),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
     ipAddress: varchar("ip_address", { length: 64 }),
     userAgent: text("user_agent"),
-    userId: varchar("user_id", { length: 36 })
-      .notNull()
-      .references(() => user.id, { onDelete: "cascade" }),
+    userId: requiredUser("user_id"),
   },
   (t) => [index("session_user_idx").on(t.userId)],
 );
@@ -37,17 +44,15 @@ export const session = mysqlTable(
 export const account = mysqlTable(
   "account",
   {
-    id: varchar("id", { length: 36 }).primaryKey(),
+    id: authId("id").primaryKey(),
     accountId: varchar("account_id", { length: 255 }).notNull(),
     providerId: varchar("provider_id", { length: 64 }).notNull(),
-    userId: varchar("user_id", { length: 36 })
-      .notNull()
-      .references(() => user.id, { onDelete: "cascade" }),
+    userId: requiredUser("user_id"),
     accessToken: text("access_token"),
     refreshToken: text("refresh_token"),
     idToken: text("id_token"),
-    accessTokenExpiresAt: datetime("access_token_expires_at", { fsp: 3 }),
-    refreshTokenExpiresAt: datetime("refresh_token_expires_at", { fsp: 3 }),
+    accessTokenExpiresAt: instant("access_token_expires_at"),
+    refreshTokenExpiresAt: instant("refresh_token_expires_at"),
     scope: text("scope"),
     password: text("password"),
     createdAt: createdAt(),
@@ -59,10 +64,10 @@ export const account = mysqlTable(
 export const verification = mysqlTable(
   "verification",
   {
-    id: varchar("id", { length: 36 }).primaryKey(),
+    id: authId("id").primaryKey(),
     identifier: varchar("identifier", { length: 255 }).notNull(),
     value: text("value").notNull(),
-    expiresAt: datetime("expires_at", { fsp: 3 }).notNull(),
+    expiresAt: instant("expires_at").notNull(),
     createdAt: createdAt(),
     updatedAt: updatedAt(),
   },

@@ -1,19 +1,8 @@
-import { sql } from "drizzle-orm";
-import {
-  boolean,
-  datetime,
-  index,
-  int,
-  json,
-  mysqlEnum,
-  mysqlTable,
-  primaryKey,
-  unique,
-  varchar,
-} from "drizzle-orm/mysql-core";
+import { index, json, mysqlEnum, mysqlTable, primaryKey, unique, varchar } from "drizzle-orm/mysql-core";
 import { ROLE_NAMES } from "../../../lib/roles";
 import { UNIT_SYSTEMS, type UnitSystem } from "../../../lib/stored-values";
-import { user } from "./auth";
+import { requiredUser } from "./auth";
+import { active, belongsTo, createdAt, serialId } from "./columns";
 
 export const ROLES = ROLE_NAMES;
 export type Role = (typeof ROLES)[number];
@@ -28,27 +17,28 @@ export type CompanySettings = {
 };
 
 export const companies = mysqlTable("companies", {
-  id: int("id").autoincrement().primaryKey(),
+  id: serialId(),
   name: varchar("name", { length: 200 }).notNull(),
   town: varchar("town", { length: 120 }),
   timeZone: varchar("time_zone", { length: 64 }).notNull().default("UTC"),
   unitSystem: mysqlEnum("unit_system", UNIT_SYSTEMS).notNull().default("us"),
   settings: json("settings").$type<CompanySettings>().notNull().default({}),
-  createdAt: datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  createdAt: createdAt(),
 });
+
+/** The company a row belongs to; the row is deleted with its company. */
+export const owningCompany = () => belongsTo("company_id", () => companies.id);
+
+/** The key and the owning company a company-scoped table starts with. */
+export const companyRow = () => ({ id: serialId(), companyId: owningCompany() });
 
 export const memberships = mysqlTable(
   "memberships",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    userId: varchar("user_id", { length: 36 })
-      .notNull()
-      .references(() => user.id, { onDelete: "cascade" }),
+    ...companyRow(),
+    userId: requiredUser("user_id"),
     role: mysqlEnum("role", ROLES).notNull(),
-    createdAt: datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    createdAt: createdAt(),
   },
   (t) => [unique("memberships_company_user").on(t.companyId, t.userId), index("memberships_user_idx").on(t.userId)],
 );
@@ -56,16 +46,12 @@ export const memberships = mysqlTable(
 export const routes = mysqlTable(
   "routes",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    ...companyRow(),
     name: varchar("name", { length: 120 }).notNull(),
     /** ISO weekdays served, 1 = Monday ... 7 = Sunday, comma separated ("1,4"). */
     serviceWeekdays: varchar("service_weekdays", { length: 20 }).notNull().default(""),
-    /** Archived routes keep their history but leave the day's lists and forms. */
-    active: boolean("active").notNull().default(true),
-    createdAt: datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    active: active(),
+    createdAt: createdAt(),
   },
   (t) => [unique("routes_company_name").on(t.companyId, t.name)],
 );
@@ -73,12 +59,8 @@ export const routes = mysqlTable(
 export const routeTechnicians = mysqlTable(
   "route_technicians",
   {
-    routeId: int("route_id")
-      .notNull()
-      .references(() => routes.id, { onDelete: "cascade" }),
-    userId: varchar("user_id", { length: 36 })
-      .notNull()
-      .references(() => user.id, { onDelete: "cascade" }),
+    routeId: belongsTo("route_id", () => routes.id),
+    userId: requiredUser("user_id"),
   },
   (t) => [primaryKey({ columns: [t.routeId, t.userId] }), index("route_technicians_user_idx").on(t.userId)],
 );

@@ -1,35 +1,18 @@
-import { sql } from "drizzle-orm";
-import {
-  bigint,
-  boolean,
-  datetime,
-  index,
-  int,
-  json,
-  mysqlEnum,
-  mysqlTable,
-  text,
-  unique,
-  varchar,
-} from "drizzle-orm/mysql-core";
-import { user } from "./auth";
-import { companies, memberships, ROLES } from "./company";
+import { bigint, index, int, json, mysqlEnum, mysqlTable, text, unique, varchar } from "drizzle-orm/mysql-core";
+import { optionalUser } from "./auth";
+import { bigSerialId, createdAt, flag, instant, instantNow, updatedAt } from "./columns";
+import { companies, companyRow, memberships, owningCompany, ROLES } from "./company";
 import { fillSources, pools } from "./routebook";
-
-const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
 
 /** A company's saved CSV column mapping, reused for files of the same shape. */
 export const importMappings = mysqlTable(
   "import_mappings",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    ...companyRow(),
     name: varchar("name", { length: 120 }).notNull(),
     /** Column header -> Patina field (and unit), as the import pipeline defines it. */
     mapping: json("mapping").$type<Record<string, unknown>>().notNull(),
-    createdBy: varchar("created_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    createdBy: optionalUser("created_by"),
     createdAt: createdAt(),
   },
   (t) => [unique("import_mappings_company_name").on(t.companyId, t.name)],
@@ -42,10 +25,8 @@ export const importUploads = mysqlTable(
   "import_uploads",
   {
     id: varchar("id", { length: 36 }).primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    userId: varchar("user_id", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    companyId: owningCompany(),
+    userId: optionalUser("user_id"),
     fileName: varchar("file_name", { length: 255 }).notNull(),
     byteSize: bigint("byte_size", { mode: "number" }).notNull(),
     fileSha256: varchar("file_sha256", { length: 64 }).notNull(),
@@ -66,9 +47,9 @@ export const importUploads = mysqlTable(
     claimId: varchar("claim_id", { length: 36 }),
     claimHost: varchar("claim_host", { length: 255 }),
     claimPid: int("claim_pid"),
-    claimHeartbeatAt: datetime("claim_heartbeat_at", { fsp: 3 }),
+    claimHeartbeatAt: instant("claim_heartbeat_at"),
     createdAt: createdAt(),
-    updatedAt: datetime("updated_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    updatedAt: updatedAt(),
   },
   (t) => [
     index("import_uploads_company_idx").on(t.companyId, t.createdAt),
@@ -79,18 +60,15 @@ export const importUploads = mysqlTable(
 export const invitations = mysqlTable(
   "invitations",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    ...companyRow(),
     email: varchar("email", { length: 255 }).notNull(),
     role: mysqlEnum("role", ROLES).notNull(),
     /** SHA-256 of the token in the link; the token itself is never stored. */
     tokenHash: varchar("token_hash", { length: 64 }).notNull().unique(),
-    invitedBy: varchar("invited_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
-    expiresAt: datetime("expires_at", { fsp: 3 }).notNull(),
-    acceptedAt: datetime("accepted_at", { fsp: 3 }),
-    acceptedBy: varchar("accepted_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    invitedBy: optionalUser("invited_by"),
+    expiresAt: instant("expires_at").notNull(),
+    acceptedAt: instant("accepted_at"),
+    acceptedBy: optionalUser("accepted_by"),
     createdAt: createdAt(),
   },
   (t) => [index("invitations_company_idx").on(t.companyId, t.createdAt)],
@@ -102,16 +80,14 @@ export const ALERT_KINDS = ["episode_opened", "pool_recurring", "shared_source"]
 export const alertEvents = mysqlTable(
   "alert_events",
   {
-    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    id: bigSerialId(),
+    companyId: owningCompany(),
     kind: mysqlEnum("kind", ALERT_KINDS).notNull(),
     dedupeKey: varchar("dedupe_key", { length: 191 }).notNull(),
     poolId: int("pool_id").references(() => pools.id, { onDelete: "cascade" }),
     fillSourceId: int("fill_source_id").references(() => fillSources.id, { onDelete: "cascade" }),
     metal: mysqlEnum("metal", ["copper", "iron", "manganese"]),
-    occurredAt: datetime("occurred_at", { fsp: 3 }).notNull(),
+    occurredAt: instant("occurred_at").notNull(),
     details: json("details").$type<Record<string, unknown>>().notNull().default({}),
     createdAt: createdAt(),
   },
@@ -127,7 +103,7 @@ export const OUTBOX_STATUSES = ["pending", "sent", "failed"] as const;
 export const mailOutbox = mysqlTable(
   "mail_outbox",
   {
-    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
+    id: bigSerialId(),
     companyId: int("company_id").references(() => companies.id, { onDelete: "cascade" }),
     /** One message per recipient and event. */
     dedupeKey: varchar("dedupe_key", { length: 191 }).notNull().unique(),
@@ -138,9 +114,9 @@ export const mailOutbox = mysqlTable(
     text: text("text").notNull(),
     status: mysqlEnum("status", OUTBOX_STATUSES).notNull().default("pending"),
     attempts: int("attempts").notNull().default(0),
-    nextAttemptAt: datetime("next_attempt_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+    nextAttemptAt: instantNow("next_attempt_at"),
     lastError: text("last_error"),
-    sentAt: datetime("sent_at", { fsp: 3 }),
+    sentAt: instant("sent_at"),
     createdAt: createdAt(),
   },
   (t) => [index("mail_outbox_due_idx").on(t.status, t.nextAttemptAt)],
@@ -151,8 +127,8 @@ export const mailPreferences = mysqlTable("mail_preferences", {
   membershipId: int("membership_id")
     .primaryKey()
     .references(() => memberships.id, { onDelete: "cascade" }),
-  digest: boolean("digest").notNull().default(true),
-  alerts: boolean("alerts").notNull().default(true),
+  digest: flag("digest", true),
+  alerts: flag("alerts", true),
   unsubscribeToken: varchar("unsubscribe_token", { length: 64 }).notNull().unique(),
-  updatedAt: datetime("updated_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`),
+  updatedAt: updatedAt(),
 });

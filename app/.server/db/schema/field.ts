@@ -1,20 +1,9 @@
 import { sql } from "drizzle-orm";
-import {
-  bigint,
-  boolean,
-  datetime,
-  decimal,
-  index,
-  int,
-  mysqlEnum,
-  mysqlTable,
-  text,
-  unique,
-  varchar,
-} from "drizzle-orm/mysql-core";
-import { user } from "./auth";
-import { companies } from "./company";
-import { pools } from "./routebook";
+import { bigint, index, int, mysqlEnum, mysqlTable, text, unique, varchar } from "drizzle-orm/mysql-core";
+import { optionalUser } from "./auth";
+import { active, bigSerialId, createdAt, decimalNumber, instant, metalReadingColumns } from "./columns";
+import { companyRow, owningCompany } from "./company";
+import { owningPool } from "./routebook";
 
 import {
   DOSE_BASES,
@@ -28,27 +17,22 @@ import {
 export { DOSE_BASES, HARDNESS_ENDPOINTS, PAD_TINTS, PRODUCT_CATEGORIES, STAIN_COLOURS, STAIN_STATES };
 export const IMPORT_STATUSES = ["committed", "undone"] as const;
 
-const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
-const reading = (name: string, precision: number, scale: number) =>
-  decimal(name, { precision, scale, mode: "number" });
+const tally = (name: string) => int(name).notNull().default(0);
 
 export const importBatches = mysqlTable(
   "import_batches",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    userId: varchar("user_id", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
+    ...companyRow(),
+    userId: optionalUser("user_id"),
     fileName: varchar("file_name", { length: 255 }).notNull(),
     fileSha256: varchar("file_sha256", { length: 64 }),
     status: mysqlEnum("status", IMPORT_STATUSES).notNull().default("committed"),
-    testsAdded: int("tests_added").notNull().default(0),
-    treatmentsAdded: int("treatments_added").notNull().default(0),
-    rowsDuplicate: int("rows_duplicate").notNull().default(0),
-    rowsRefused: int("rows_refused").notNull().default(0),
+    testsAdded: tally("tests_added"),
+    treatmentsAdded: tally("treatments_added"),
+    rowsDuplicate: tally("rows_duplicate"),
+    rowsRefused: tally("rows_refused"),
     createdAt: createdAt(),
-    undoneAt: datetime("undone_at", { fsp: 3 }),
+    undoneAt: instant("undone_at"),
   },
   (t) => [index("import_batches_company_idx").on(t.companyId, t.createdAt)],
 );
@@ -56,58 +40,49 @@ export const importBatches = mysqlTable(
 export const products = mysqlTable(
   "products",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    ...companyRow(),
     name: varchar("name", { length: 160 }).notNull(),
     category: mysqlEnum("category", PRODUCT_CATEGORIES).notNull(),
     /** Label dose amount per dose basis, in doseUnit (e.g. 16 fl oz per 10,000 gal). */
-    labelDose: decimal("label_dose", { precision: 10, scale: 3, mode: "number" }),
+    labelDose: decimalNumber("label_dose", 10, 3),
     doseUnit: varchar("dose_unit", { length: 16 }),
     doseBasis: mysqlEnum("dose_basis", DOSE_BASES).notNull().default("per_10k_gal"),
     /** Cost of one doseUnit, in the company's currency. */
-    unitCost: decimal("unit_cost", { precision: 10, scale: 4, mode: "number" }),
-    active: boolean("active").notNull().default(true),
+    unitCost: decimalNumber("unit_cost", 10, 4),
+    active: active(),
     createdAt: createdAt(),
   },
   (t) => [unique("products_company_name").on(t.companyId, t.name)],
 );
 
+/** The import a row came in with; undoing the import deletes it. */
+const fromImport = () => int("import_batch_id").references(() => importBatches.id, { onDelete: "cascade" });
+
 /** One water sample at a visit. Analytes are nullable: technicians test a subset. */
 export const waterTests = mysqlTable(
   "water_tests",
   {
-    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    poolId: int("pool_id")
-      .notNull()
-      .references(() => pools.id, { onDelete: "cascade" }),
-    sampledAt: datetime("sampled_at", { fsp: 3 }).notNull(),
-    technicianId: varchar("technician_id", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
-    freeChlorine: reading("free_chlorine", 5, 2),
-    combinedChlorine: reading("combined_chlorine", 5, 2),
-    ph: reading("ph", 4, 2),
-    totalAlkalinity: reading("total_alkalinity", 5, 1),
-    calciumHardness: reading("calcium_hardness", 6, 1),
-    cyanuricAcid: reading("cyanuric_acid", 5, 1),
-    salt: reading("salt", 7, 1),
-    tds: reading("tds", 7, 1),
-    temperatureC: reading("temperature_c", 4, 1),
-    copper: reading("copper", 6, 3),
-    copperBelowDetection: boolean("copper_below_detection").notNull().default(false),
-    iron: reading("iron", 6, 3),
-    ironBelowDetection: boolean("iron_below_detection").notNull().default(false),
-    manganese: reading("manganese", 6, 3),
-    manganeseBelowDetection: boolean("manganese_below_detection").notNull().default(false),
+    id: bigSerialId(),
+    companyId: owningCompany(),
+    poolId: owningPool(),
+    sampledAt: instant("sampled_at").notNull(),
+    technicianId: optionalUser("technician_id"),
+    freeChlorine: decimalNumber("free_chlorine", 5, 2),
+    combinedChlorine: decimalNumber("combined_chlorine", 5, 2),
+    ph: decimalNumber("ph", 4, 2),
+    totalAlkalinity: decimalNumber("total_alkalinity", 5, 1),
+    calciumHardness: decimalNumber("calcium_hardness", 6, 1),
+    cyanuricAcid: decimalNumber("cyanuric_acid", 5, 1),
+    salt: decimalNumber("salt", 7, 1),
+    tds: decimalNumber("tds", 7, 1),
+    temperatureC: decimalNumber("temperature_c", 4, 1),
+    ...metalReadingColumns(),
     hardnessEndpoint: mysqlEnum("hardness_endpoint", HARDNESS_ENDPOINTS),
     stain: mysqlEnum("stain", STAIN_STATES),
     stainColour: mysqlEnum("stain_colour", STAIN_COLOURS),
     padTint: mysqlEnum("pad_tint", PAD_TINTS),
     note: text("note"),
-    importBatchId: int("import_batch_id").references(() => importBatches.id, { onDelete: "cascade" }),
+    importBatchId: fromImport(),
     /** Set by the visit form so a repeated submit stores nothing twice. */
     submissionKey: varchar("submission_key", { length: 64 }),
     /**
@@ -131,25 +106,21 @@ export const waterTests = mysqlTable(
 export const treatments = mysqlTable(
   "treatments",
   {
-    id: bigint("id", { mode: "number", unsigned: true }).autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    poolId: int("pool_id")
-      .notNull()
-      .references(() => pools.id, { onDelete: "cascade" }),
+    id: bigSerialId(),
+    companyId: owningCompany(),
+    poolId: owningPool(),
     productId: int("product_id")
       .notNull()
       .references(() => products.id, { onDelete: "restrict" }),
-    appliedAt: datetime("applied_at", { fsp: 3 }).notNull(),
-    amount: decimal("amount", { precision: 10, scale: 3, mode: "number" }).notNull(),
+    appliedAt: instant("applied_at").notNull(),
+    amount: decimalNumber("amount", 10, 3).notNull(),
     unit: varchar("unit", { length: 16 }).notNull(),
-    appliedBy: varchar("applied_by", { length: 36 }).references(() => user.id, { onDelete: "set null" }),
-    cost: decimal("cost", { precision: 10, scale: 2, mode: "number" }),
+    appliedBy: optionalUser("applied_by"),
+    cost: decimalNumber("cost", 10, 2),
     waterTestId: bigint("water_test_id", { mode: "number", unsigned: true }).references(() => waterTests.id, {
       onDelete: "set null",
     }),
-    importBatchId: int("import_batch_id").references(() => importBatches.id, { onDelete: "cascade" }),
+    importBatchId: fromImport(),
     createdAt: createdAt(),
   },
   (t) => [

@@ -1,37 +1,21 @@
-import { sql } from "drizzle-orm";
-import {
-  boolean,
-  date,
-  datetime,
-  decimal,
-  index,
-  int,
-  mysqlEnum,
-  mysqlTable,
-  text,
-  unique,
-  varchar,
-} from "drizzle-orm/mysql-core";
-import { companies, routes } from "./company";
+import { date, index, int, mysqlEnum, mysqlTable, text, unique, varchar } from "drizzle-orm/mysql-core";
+import { active, belongsTo, createdAt, metalReadingColumns } from "./columns";
+import { companyRow, routes } from "./company";
 
 import { EQUIPMENT_KINDS, EXCHANGER_METALS, SANITISERS, SOURCE_KINDS, SURFACES } from "../../../lib/stored-values";
 
 export { EQUIPMENT_KINDS, EXCHANGER_METALS, SANITISERS, SOURCE_KINDS, SURFACES };
 
-const metal = (name: string) => decimal(name, { precision: 6, scale: 3, mode: "number" });
-const createdAt = () => datetime("created_at", { fsp: 3 }).notNull().default(sql`CURRENT_TIMESTAMP(3)`);
+const day = (name: string) => date(name, { mode: "string" });
 
 export const fillSources = mysqlTable(
   "fill_sources",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    ...companyRow(),
     name: varchar("name", { length: 160 }).notNull(),
     kind: mysqlEnum("kind", SOURCE_KINDS).notNull(),
     notes: text("notes"),
-    active: boolean("active").notNull().default(true),
+    active: active(),
     createdAt: createdAt(),
   },
   (t) => [unique("fill_sources_company_name").on(t.companyId, t.name)],
@@ -41,20 +25,10 @@ export const fillSources = mysqlTable(
 export const sourceTests = mysqlTable(
   "source_tests",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    fillSourceId: int("fill_source_id")
-      .notNull()
-      .references(() => fillSources.id, { onDelete: "cascade" }),
-    sampledOn: date("sampled_on", { mode: "string" }).notNull(),
-    copper: metal("copper"),
-    copperBelowDetection: boolean("copper_below_detection").notNull().default(false),
-    iron: metal("iron"),
-    ironBelowDetection: boolean("iron_below_detection").notNull().default(false),
-    manganese: metal("manganese"),
-    manganeseBelowDetection: boolean("manganese_below_detection").notNull().default(false),
+    ...companyRow(),
+    fillSourceId: belongsTo("fill_source_id", () => fillSources.id),
+    sampledOn: day("sampled_on").notNull(),
+    ...metalReadingColumns(),
     note: text("note"),
     createdAt: createdAt(),
   },
@@ -64,10 +38,7 @@ export const sourceTests = mysqlTable(
 export const pools = mysqlTable(
   "pools",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
+    ...companyRow(),
     routeId: int("route_id").references(() => routes.id, { onDelete: "set null" }),
     fillSourceId: int("fill_source_id").references(() => fillSources.id, { onDelete: "set null" }),
     /** The company's own account code, used to match imported rows. */
@@ -82,7 +53,7 @@ export const pools = mysqlTable(
     volumeLitres: int("volume_litres"),
     surface: mysqlEnum("surface", SURFACES),
     sanitiser: mysqlEnum("sanitiser", SANITISERS),
-    active: boolean("active").notNull().default(true),
+    active: active(),
     createdAt: createdAt(),
   },
   (t) => [
@@ -92,21 +63,19 @@ export const pools = mysqlTable(
   ],
 );
 
+/** The pool a row belongs to; the row is deleted with its pool. */
+export const owningPool = () => belongsTo("pool_id", () => pools.id);
+
 export const equipment = mysqlTable(
   "equipment",
   {
-    id: int("id").autoincrement().primaryKey(),
-    companyId: int("company_id")
-      .notNull()
-      .references(() => companies.id, { onDelete: "cascade" }),
-    poolId: int("pool_id")
-      .notNull()
-      .references(() => pools.id, { onDelete: "cascade" }),
+    ...companyRow(),
+    poolId: owningPool(),
     kind: mysqlEnum("kind", EQUIPMENT_KINDS).notNull(),
     exchangerMetal: mysqlEnum("exchanger_metal", EXCHANGER_METALS),
     description: varchar("description", { length: 200 }),
-    installedOn: date("installed_on", { mode: "string" }),
-    removedOn: date("removed_on", { mode: "string" }),
+    installedOn: day("installed_on"),
+    removedOn: day("removed_on"),
     createdAt: createdAt(),
   },
   (t) => [index("equipment_pool_idx").on(t.poolId)],

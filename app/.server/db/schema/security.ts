@@ -1,4 +1,5 @@
-import { datetime, int, mysqlTable, varchar } from "drizzle-orm/mysql-core";
+import { int, mysqlTable, varchar } from "drizzle-orm/mysql-core";
+import { instant } from "./columns";
 
 /**
  * Sign-in and password-reset attempts, counted per bucket (an account or a
@@ -9,5 +10,5 @@ export const authThrottle = mysqlTable("auth_throttle", {
   /** e.g. "sign-in:account:ana@example.com", "reset:address:203.0.113.9" */
   bucket: varchar("bucket", { length: 320 }).primaryKey(),
   attempts: int("attempts").notNull(),
-  windowEndsAt: datetime("window_ends_at", { fsp: 3 }).notNull(),
+  windowEndsAt: instant("window_ends_at").notNull(),
 });

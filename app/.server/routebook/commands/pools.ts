@@ -3,7 +3,8 @@ import type { EquipmentInput, PoolInput } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { equipment, fillSources, pools, routes } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "../../command-result";
+import { conflict, invalid, notFound, type ServiceResult } from "../../command-result";
+import { saveCompanyRow } from "./save-company-row";
 
 type Tx = Parameters<Parameters<ReturnType<typeof db>["transaction"]>[0]>[0];
 
@@ -47,25 +48,10 @@ async function foreignReferences(scope: Scope, poolId: number | null, input: Poo
 export async function savePool(scope: Scope, poolId: number | null, input: PoolInput): Promise<ServiceResult> {
   const errors = await foreignReferences(scope, poolId, input);
   if (Object.keys(errors).length > 0) return invalid(errors);
-  try {
-    if (poolId === null) {
-      const [created] = await db()
-        .insert(pools)
-        .values({ companyId: scope.companyId, ...input })
-        .$returningId();
-      return { ok: true, id: created!.id };
-    }
-    const [result] = await db()
-      .update(pools)
-      .set(input)
-      .where(and(eq(pools.companyId, scope.companyId), eq(pools.id, poolId)));
-    return result.affectedRows === 0 ? notFound("No pool with that number in your company.") : { ok: true, id: poolId };
-  } catch (error) {
-    if (isDuplicateKey(error, "pools_company_account")) {
-      return conflict("accountCode", `Account code: "${input.accountCode}" is already used by another pool.`);
-    }
-    throw error;
-  }
+  return saveCompanyRow(scope, pools, poolId, input, {
+    notFound: "No pool with that number in your company.",
+    clash: { key: "pools_company_account", field: "accountCode", message: `Account code: "${input.accountCode}" is already used by another pool.` },
+  });
 }
 
 async function lockPool(tx: Tx, scope: Scope, poolId: number) {

@@ -3,7 +3,7 @@ import type { RouteInput } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { memberships, routes, routeTechnicians } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "../../command-result";
+import { invalid, notFound, refuseClash, type ServiceResult } from "../../command-result";
 
 async function unknownTechnicians(scope: Scope, ids: string[]): Promise<string[]> {
   if (ids.length === 0) return [];
@@ -48,9 +48,6 @@ export async function saveRoute(scope: Scope, routeId: number | null, input: Rou
     });
     return id === null ? notFound("No route with that number in your company.") : { ok: true, id };
   } catch (error) {
-    if (isDuplicateKey(error, "routes_company_name")) {
-      return conflict("name", `Route name: "${input.name}" is already used by another route.`);
-    }
-    throw error;
+    return refuseClash(error, { key: "routes_company_name", field: "name", message: `Route name: "${input.name}" is already used by another route.` });
   }
 }

@@ -1,31 +1,18 @@
 import { and, eq } from "drizzle-orm";
 import type { SourceInput, SourceTestInput } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
+import { metalColumnValues } from "../../db/values";
 import { fillSources, sourceTests } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { conflict, invalid, isDuplicateKey, notFound, type ServiceResult } from "../../command-result";
+import { invalid, notFound, type ServiceResult } from "../../command-result";
+import { saveCompanyRow } from "./save-company-row";
 
 /** Creates or changes a fill source. Archiving is `active: false`; sources are never deleted. */
 export async function saveSource(scope: Scope, sourceId: number | null, input: SourceInput): Promise<ServiceResult> {
-  try {
-    if (sourceId === null) {
-      const [created] = await db()
-        .insert(fillSources)
-        .values({ companyId: scope.companyId, ...input })
-        .$returningId();
-      return { ok: true, id: created!.id };
-    }
-    const [result] = await db()
-      .update(fillSources)
-      .set(input)
-      .where(and(eq(fillSources.companyId, scope.companyId), eq(fillSources.id, sourceId)));
-    return result.affectedRows === 0 ? notFound("No fill source with that number in your company.") : { ok: true, id: sourceId };
-  } catch (error) {
-    if (isDuplicateKey(error, "fill_sources_company_name")) {
-      return conflict("name", `Source name: "${input.name}" is already used by another fill source.`);
-    }
-    throw error;
-  }
+  return saveCompanyRow(scope, fillSources, sourceId, input, {
+    notFound: "No fill source with that number in your company.",
+    clash: { key: "fill_sources_company_name", field: "name", message: `Source name: "${input.name}" is already used by another fill source.` },
+  });
 }
 
 /**
@@ -48,12 +35,7 @@ export async function addSourceTest(
     if (!source) return notFound("No fill source with that number in your company.");
     const values = {
       sampledOn: input.sampledOn,
-      copper: input.copper?.value ?? null,
-      copperBelowDetection: input.copper?.belowDetection ?? false,
-      iron: input.iron?.value ?? null,
-      ironBelowDetection: input.iron?.belowDetection ?? false,
-      manganese: input.manganese?.value ?? null,
-      manganeseBelowDetection: input.manganese?.belowDetection ?? false,
+      ...metalColumnValues(input),
       note: input.note,
     };
     const sameDay = await tx

@@ -3,7 +3,8 @@ import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/readi
 import { db } from "../../db/client";
 import { pools, routes, waterTests } from "../../db/schema";
 import { utcDate } from "../../db/values";
-import { type Scope, poolsInScope } from "../../scope";
+import { activePoolsInScope, type Scope, poolsInScope } from "../../scope";
+import { poolStopColumns } from "./pools";
 
 export type OpenMetalCase = {
   poolId: number;
@@ -97,8 +98,7 @@ async function openCases(scope: Scope, thresholds: MetalThresholds): Promise<Ope
 
 export async function homeSummary(scope: Scope, thresholds: MetalThresholds, now = new Date()): Promise<HomeSummary> {
   const since = new Date(now.getTime() - 30 * 86_400_000);
-  const inScope = poolsInScope(scope);
-  const [poolCount] = await db().select({ n: count() }).from(pools).where(and(inScope, eq(pools.active, true)));
+  const [poolCount] = await db().select({ n: count() }).from(pools).where(activePoolsInScope(scope));
   // Routes in use: archived ones keep their history but are no longer worked.
   const routesInScope =
     scope.routeIds === null
@@ -119,7 +119,7 @@ export async function homeSummary(scope: Scope, thresholds: MetalThresholds, now
     })
     .from(waterTests)
     .innerJoin(pools, eq(pools.id, waterTests.poolId))
-    .where(and(inScope, eq(waterTests.companyId, scope.companyId)));
+    .where(and(poolsInScope(scope), eq(waterTests.companyId, scope.companyId)));
   const cases = await openCases(scope, thresholds);
   const openCasesByMetal = { copper: 0, iron: 0, manganese: 0 } satisfies Record<Metal, number>;
   for (const c of cases) openCasesByMetal[c.metal] += 1;
@@ -147,11 +147,7 @@ export type TodayStop = {
 export async function stopsForWeekday(scope: Scope, isoWeekday: number): Promise<TodayStop[]> {
   const rows = await db()
     .select({
-      poolId: pools.id,
-      customerName: pools.customerName,
-      street: pools.street,
-      neighbourhood: pools.neighbourhood,
-      routeName: routes.name,
+      ...poolStopColumns,
       // The (pool_id, sampled_at) index answers this per pool without a scan.
       lastVisitAt: sql<Date | null>`(SELECT MAX(w.sampled_at) FROM water_tests w WHERE w.pool_id = ${pools.id})`,
     })
@@ -159,8 +155,7 @@ export async function stopsForWeekday(scope: Scope, isoWeekday: number): Promise
     .innerJoin(routes, eq(routes.id, pools.routeId))
     .where(
       and(
-        poolsInScope(scope),
-        eq(pools.active, true),
+        activePoolsInScope(scope),
         eq(routes.active, true),
         sql`FIND_IN_SET(${String(isoWeekday)}, ${routes.serviceWeekdays}) > 0`,
       ),

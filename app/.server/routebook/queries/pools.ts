@@ -4,8 +4,8 @@ import type { SURFACES } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { equipment, fillSources, pools, routes } from "../../db/schema";
-import { type Scope, poolsInScope } from "../../scope";
-import { listOrder, withTotal } from "./list-page";
+import { activePoolsInScope, type Scope, poolsInScope } from "../../scope";
+import { listPage } from "./list-page";
 
 export const POOL_SORTS = ["account", "customer", "street", "neighbourhood", "route", "volume", "lastTest"] as const;
 export type PoolSort = (typeof POOL_SORTS)[number];
@@ -37,7 +37,7 @@ export async function listPools(scope: Scope, params: ListParams<PoolSort>, filt
     filters.surface ? eq(pools.surface, filters.surface) : undefined,
     filters.status === "all" ? undefined : eq(pools.active, filters.status === "active"),
   );
-  const order = {
+  const sorts = {
     account: pools.accountCode,
     customer: pools.customerName,
     street: pools.street,
@@ -45,8 +45,8 @@ export async function listPools(scope: Scope, params: ListParams<PoolSort>, filt
     route: routes.name,
     volume: pools.volumeLitres,
     lastTest,
-  }[params.sort];
-  const page = db()
+  };
+  const select = db()
     .select({
       id: pools.id,
       accountCode: pools.accountCode,
@@ -62,12 +62,8 @@ export async function listPools(scope: Scope, params: ListParams<PoolSort>, filt
     })
     .from(pools)
     .leftJoin(routes, eq(routes.id, pools.routeId))
-    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
-    .where(where)
-    .orderBy(...listOrder(params.dir, order, pools.id))
-    .limit(params.limit)
-    .offset(params.offset);
-  const { rows, total } = await withTotal(page, pools, where);
+    .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId));
+  const { rows, total } = await listPage(select, { table: pools, where, sorts, params });
   return { rows: rows.map((r) => ({ ...r, lastTest: utcDate(r.lastTest) })), total };
 }
 
@@ -85,24 +81,25 @@ export async function poolForEdit(scope: Scope, poolId: number) {
   return { pool, equipment: items };
 }
 
+/** A pool as the visit picker and the day's stops name it (pools joined with their route). */
+export const poolStopColumns = {
+  poolId: pools.id,
+  customerName: pools.customerName,
+  street: pools.street,
+  neighbourhood: pools.neighbourhood,
+  routeName: routes.name,
+};
+
 /** Pools matching a search, for the visit picker. */
 export async function searchPools(scope: Scope, q: string, limit = 20) {
   const pattern = likePattern(q);
   return db()
-    .select({
-      poolId: pools.id,
-      accountCode: pools.accountCode,
-      customerName: pools.customerName,
-      street: pools.street,
-      neighbourhood: pools.neighbourhood,
-      routeName: routes.name,
-    })
+    .select({ ...poolStopColumns, accountCode: pools.accountCode })
     .from(pools)
     .leftJoin(routes, eq(routes.id, pools.routeId))
     .where(
       and(
-        poolsInScope(scope),
-        eq(pools.active, true),
+        activePoolsInScope(scope),
         or(like(pools.accountCode, pattern), like(pools.customerName, pattern), like(pools.street, pattern)),
       ),
     )

@@ -4,7 +4,7 @@ import type { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { products } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { listOrder, withTotal } from "./list-page";
+import { listPage } from "./list-page";
 
 export const PRODUCT_SORTS = ["name", "category", "labelDose", "unitCost"] as const;
 export type ProductSort = (typeof PRODUCT_SORTS)[number];
@@ -22,15 +22,8 @@ export async function listProducts(scope: Scope, params: ListParams<ProductSort>
     filters.category ? eq(products.category, filters.category) : undefined,
     filters.active === null ? undefined : eq(products.active, filters.active),
   );
-  const order = { name: products.name, category: products.category, labelDose: products.labelDose, unitCost: products.unitCost }[params.sort];
-  const page = db()
-    .select()
-    .from(products)
-    .where(where)
-    .orderBy(...listOrder(params.dir, order, products.id))
-    .limit(params.limit)
-    .offset(params.offset);
-  return withTotal(page, products, where);
+  const sorts = { name: products.name, category: products.category, labelDose: products.labelDose, unitCost: products.unitCost };
+  return listPage(db().select().from(products), { table: products, where, sorts, params });
 }
 
 export async function productForEdit(scope: Scope, productId: number) {

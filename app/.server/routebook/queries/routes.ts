@@ -3,7 +3,7 @@ import { likePattern, type ListParams } from "~/lib/list-params";
 import { db } from "../../db/client";
 import { memberships, pools, routes, routeTechnicians, user } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { listOrder, withTotal } from "./list-page";
+import { listPage, nameOptions } from "./list-page";
 
 export const ROUTE_SORTS = ["name", "weekdays", "pools"] as const;
 export type RouteSort = (typeof ROUTE_SORTS)[number];
@@ -30,15 +30,11 @@ export async function listRoutes(scope: Scope, params: ListParams<RouteSort>, fi
     params.q ? like(routes.name, likePattern(params.q)) : undefined,
     filters.active === null ? undefined : eq(routes.active, filters.active),
   );
-  const order = { name: routes.name, weekdays: routes.serviceWeekdays, pools: poolCount }[params.sort];
-  const page = db()
+  const sorts = { name: routes.name, weekdays: routes.serviceWeekdays, pools: poolCount };
+  const select = db()
     .select({ id: routes.id, name: routes.name, serviceWeekdays: routes.serviceWeekdays, active: routes.active, technicians, poolCount })
-    .from(routes)
-    .where(where)
-    .orderBy(...listOrder(params.dir, order, routes.id))
-    .limit(params.limit)
-    .offset(params.offset);
-  return withTotal(page, routes, where);
+    .from(routes);
+  return listPage(select, { table: routes, where, sorts, params });
 }
 
 export async function routeForEdit(scope: Scope, routeId: number) {
@@ -64,11 +60,7 @@ export async function companyTechnicians(scope: Scope) {
     .orderBy(asc(user.name));
 }
 
-/** Route names for pickers and filters, in the member's scope; archived ones are flagged, pickers leave them out. */
+/** Route names for pickers and filters, in the member's scope. */
 export async function routeOptions(scope: Scope) {
-  return db()
-    .select({ id: routes.id, name: routes.name, active: routes.active })
-    .from(routes)
-    .where(routesInScope(scope))
-    .orderBy(asc(routes.name));
+  return nameOptions(routes, routesInScope(scope));
 }

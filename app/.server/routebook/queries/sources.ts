@@ -4,7 +4,7 @@ import type { SOURCE_KINDS } from "~/lib/forms/routebook";
 import { db } from "../../db/client";
 import { fillSources, pools, routes, sourceTests } from "../../db/schema";
 import { type Scope, poolsInScope, sourcesInScope } from "../../scope";
-import { listOrder, withTotal } from "./list-page";
+import { listPage, nameOptions } from "./list-page";
 
 export const SOURCE_SORTS = ["name", "kind", "pools", "lastTest"] as const;
 export type SourceSort = (typeof SOURCE_SORTS)[number];
@@ -27,15 +27,11 @@ export async function listSources(
     filters.kind ? eq(fillSources.kind, filters.kind) : undefined,
     filters.active === null ? undefined : eq(fillSources.active, filters.active),
   );
-  const order = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest }[params.sort];
-  const page = db()
+  const sorts = { name: fillSources.name, kind: fillSources.kind, pools: poolCount, lastTest };
+  const select = db()
     .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind, active: fillSources.active, poolCount, lastTest })
-    .from(fillSources)
-    .where(where)
-    .orderBy(...listOrder(params.dir, order, fillSources.id))
-    .limit(params.limit)
-    .offset(params.offset);
-  const { rows, total } = await withTotal(page, fillSources, where);
+    .from(fillSources);
+  const { rows, total } = await listPage(select, { table: fillSources, where, sorts, params });
   return { rows: rows.map((r) => ({ ...r, lastTest: r.lastTest ? String(r.lastTest).slice(0, 10) : null })), total };
 }
 
@@ -79,11 +75,7 @@ export async function sourceDetail(scope: Scope, sourceId: number) {
 
 export type SourceDetail = NonNullable<Awaited<ReturnType<typeof sourceDetail>>>;
 
-/** Source names for pickers and filters; archived ones are flagged, pickers leave them out. */
+/** Source names for pickers and filters, in the member's scope. */
 export async function sourceOptions(scope: Scope) {
-  return db()
-    .select({ id: fillSources.id, name: fillSources.name, active: fillSources.active })
-    .from(fillSources)
-    .where(sourcesInScope(scope))
-    .orderBy(asc(fillSources.name));
+  return nameOptions(fillSources, sourcesInScope(scope));
 }

@@ -2,6 +2,7 @@ import { setTimeout as sleep } from "node:timers/promises";
 import { and, eq, inArray } from "drizzle-orm";
 import type { VisitInput } from "~/lib/forms/visit";
 import { db } from "../../db/client";
+import { metalColumnValues } from "../../db/values";
 import { pools, products, treatments, waterTests } from "../../db/schema";
 import { type Scope, poolsInScope } from "../../scope";
 import { invalid, isDuplicateKey, notFound, type ServiceResult } from "../../command-result";
@@ -114,12 +115,7 @@ async function storeVisit(
         salt: r.salt ?? null,
         tds: r.tds ?? null,
         temperatureC: r.temperatureC ?? null,
-        copper: r.copper?.value ?? null,
-        copperBelowDetection: r.copper?.belowDetection ?? false,
-        iron: r.iron?.value ?? null,
-        ironBelowDetection: r.iron?.belowDetection ?? false,
-        manganese: r.manganese?.value ?? null,
-        manganeseBelowDetection: r.manganese?.belowDetection ?? false,
+        ...metalColumnValues(r),
         hardnessEndpoint: input.hardnessEndpoint,
         stain: input.stain,
         stainColour: input.stainColour,
