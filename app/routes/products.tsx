@@ -42,7 +42,10 @@ export default function Products({ loaderData }: Route.ComponentProps) {
       label: "Label dose",
       sortKey: "labelDose",
       numeric: true,
-      cell: (r) => (r.labelDose === null ? "—" : `${r.labelDose} ${r.doseUnit ?? ""} ${DOSE_BASIS_LABELS[r.doseBasis]}`),
+      cell: (r) =>
+        r.labelDose === null
+          ? "—"
+          : `${r.labelDose}${r.maintenanceDose === null ? "" : ` then ${r.maintenanceDose}`} ${r.doseUnit ?? ""} ${DOSE_BASIS_LABELS[r.doseBasis]}`,
     },
     {
       key: "unitCost",

@@ -95,7 +95,7 @@ function source(scope: Scope, dataset: Dataset): Source {
       };
     case "products":
       return {
-        headers: ["product_id", "name", "category", "label_dose", "dose_unit", "dose_basis", "unit_cost", "active"],
+        headers: ["product_id", "name", "category", "label_dose", "maintenance_dose", "dose_unit", "dose_basis", "unit_cost", "active"],
         page: async (afterId, size) => {
           const rows = await db()
             .select()
@@ -105,7 +105,7 @@ function source(scope: Scope, dataset: Dataset): Source {
             .limit(size);
           return {
             lastId: lastIdOf(rows),
-            rows: rows.map((p) => [p.id, p.name, p.category, p.labelDose, p.doseUnit, p.doseBasis, p.unitCost, p.active]),
+            rows: rows.map((p) => [p.id, p.name, p.category, p.labelDose, p.maintenanceDose, p.doseUnit, p.doseBasis, p.unitCost, p.active]),
           };
         },
       };

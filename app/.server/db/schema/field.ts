@@ -64,6 +64,8 @@ export const products = mysqlTable(
     category: mysqlEnum("category", PRODUCT_CATEGORIES).notNull(),
     /** Label dose amount per dose basis, in doseUnit (e.g. 16 fl oz per 10,000 gal). */
     labelDose: decimal("label_dose", { precision: 10, scale: 3, mode: "number" }),
+    /** The label's maintenance dose, on the same unit and basis as labelDose (the starting dose). */
+    maintenanceDose: decimal("maintenance_dose", { precision: 10, scale: 3, mode: "number" }),
     doseUnit: varchar("dose_unit", { length: 16 }),
     doseBasis: mysqlEnum("dose_basis", DOSE_BASES).notNull().default("per_10k_gal"),
     /** Cost of one doseUnit, in the company's currency. */
