@@ -6,6 +6,7 @@ import { CautionNote } from "~/components/caution-note";
 import { FormProblem } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
+import { formatMoney } from "~/lib/format";
 import { liveVisit, type DosingPool, type LiveProduct, type TypedLine } from "~/lib/forms/visit-live";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
@@ -128,8 +129,8 @@ export function VisitForm({
 }: {
   submissionKey: string;
   products: Product[];
-  /** The pool's recorded volume and the company's units, for the label amounts. */
-  dosing: DosingPool;
+  /** The pool's recorded volume and the company's units and currency, for the label amounts and costs. */
+  dosing: DosingPool & { currency: string };
   thresholds: MetalThresholds;
   balanceBand: BalanceBand;
   temperatureUnit: "C" | "F";
@@ -363,7 +364,7 @@ export function VisitForm({
                 <FieldError id={`treatment-${i}-amount-error`} message={amountError} />
                 <FieldError id={`treatment-${i}-unit-error`} message={unitError} />
               </span>
-              {cost !== null ? <span className="col-span-2 text-sm text-muted">Cost {cost.toFixed(2)}</span> : null}
+              {cost !== null ? <span className="col-span-2 text-sm text-muted">Cost {formatMoney(cost, dosing.currency)}</span> : null}
               <LabelAmount answer={labelAmounts[i] ?? null} volumeLitres={dosing.volumeLitres} units={dosing.units} />
             </div>
           );
