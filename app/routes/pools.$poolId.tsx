@@ -220,7 +220,7 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
         </p>
         {phHigh || acidLogged ? (
           <div className="mt-3">
-            <CautionNote topics={["acid", "dose"]}>
+            <CautionNote topics={["acid"]}>
               {phHigh ? `pH ${latest?.ph} is above ${DEFAULT_ANALYTE_RANGES.ph.high}; lowering it means adding acid.` : "A pH decreaser (an acid) has been used on this pool."}
             </CautionNote>
           </div>

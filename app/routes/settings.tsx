@@ -58,7 +58,7 @@ export default function Settings({ loaderData, actionData }: Route.ComponentProp
         <section aria-labelledby="thresholds" className="space-y-3 rounded-xl border border-line bg-white p-4">
           <h2 id="thresholds" className="text-lg font-semibold">Metal levels (mg/L)</h2>
           <p className="text-sm text-muted">
-            A reading at or above “elevated” opens a metal case; only a reading below “clear” closes it. These are staining
+            A reading at or above “elevated” opens a metal episode; only a reading below “clear” closes it. These are staining
             levels from common practice, not health limits.
           </p>
           {METALS.map((metal) => (

@@ -8,7 +8,7 @@ const METAL_LABEL = { copper: "Copper", iron: "Iron", manganese: "Manganese" } a
 
 const level = (label: string) => requiredNumber({ label, min: 0, max: 10, unit: "mg/L" });
 
-/** A clear level of 0 would never let a case close. */
+/** A clear level of 0 would never let an episode close. */
 const clearLevel = (label: string) =>
   level(label).superRefine((value, ctx) => {
     if (!(value > 0)) ctx.addIssue({ code: "custom", message: `${label}: ${value} mg/L must be above 0.` });
