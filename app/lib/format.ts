@@ -23,6 +23,14 @@ export function weekdayName(isoWeekday: number): string {
   return WEEKDAY_NAMES[isoWeekday - 1] ?? "—";
 }
 
+/** The currency a company without its own choice is shown in. */
+export const DEFAULT_CURRENCY = "USD";
+
+/** An amount of money in the company's currency (ISO 4217 code), e.g. "$648.26" or "€648.26". */
+export function formatMoney(amount: number, currency: string): string {
+  return new Intl.NumberFormat("en", { style: "currency", currency }).format(amount);
+}
+
 export function formatCount(n: number): string {
   return new Intl.NumberFormat("en").format(n);
 }

@@ -93,9 +93,9 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         </dl>
       </section>
 
-      <section aria-labelledby="metal-cases">
-        <h2 id="metal-cases" className="mb-3 text-lg font-semibold">
-          Open metal cases
+      <section aria-labelledby="metal-episodes">
+        <h2 id="metal-episodes" className="mb-3 text-lg font-semibold">
+          Open metal episodes
         </h2>
         <dl className="mb-4 grid grid-cols-3 gap-3">
           {METALS.map((metal) => (
@@ -109,12 +109,12 @@ export default function Home({ loaderData }: Route.ComponentProps) {
         </dl>
         {openTotal === 0 ? (
           <p className="rounded-xl border border-line bg-white p-4 text-muted">
-            No pool has an open metal case: every elevated reading has been followed by a clear one.
+            No pool has an open metal episode: every elevated reading has been followed by a clear one.
           </p>
         ) : (
           <div className="overflow-x-auto rounded-xl border border-line bg-white">
             <table className="w-full text-left text-sm">
-              <caption className="sr-only">Pools with an open metal case, latest elevated reading first</caption>
+              <caption className="sr-only">Pools with an open metal episode, latest elevated reading first</caption>
               <thead className="border-b border-line text-muted">
                 <tr>
                   <th scope="col" className="px-4 py-2 font-medium">Pool</th>

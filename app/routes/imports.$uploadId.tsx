@@ -12,6 +12,8 @@ import { useUploadProgress } from "~/hooks/use-upload-progress";
 import { formatCount } from "~/lib/format";
 import { COLUMN_UNITS, type ColumnMapping, type ColumnTarget, fieldLabel, IMPORT_FIELDS, unitsFor } from "~/lib/imports/fields";
 import { readCheckForm } from "~/lib/imports/form";
+import { hasNothingToStore, nothingToStoreMessage } from "~/lib/imports/nothing-to-store";
+import { type HeaderConfidence, readHeader } from "~/lib/imports/propose-mapping";
 import { readImportOptions } from "~/lib/imports/options";
 import { uploadIdParams } from "~/lib/imports/params";
 import type { Route } from "./+types/imports.$uploadId";
@@ -43,6 +45,8 @@ export async function loader({ params, context }: Route.LoaderArgs) {
       importBatchId: upload.importBatchId,
     },
     sample,
+    // How sure each header's own reading is; shown while a column still holds that reading.
+    headerReadings: sample.headers.map((header) => readHeader(header)),
     options: readImportOptions(upload.options),
     summary: (upload.summary as PlanSummary | null) ?? null,
     savedMappingNames: mappings.map((m) => m.name),
@@ -73,13 +77,21 @@ export async function action({ request, params, context }: Route.ActionArgs) {
   throw redirect(`/imports?imported=${committed.batchId}`);
 }
 
-function ColumnRow({ index, header, examples, value, onChange }: {
+const CONFIDENCE_WORDS: Record<HeaderConfidence, string> = {
+  exact: "Read from its name.",
+  abbreviation: "Read from a short form of its name.",
+  partial: "A guess from part of its name: check it.",
+};
+
+function ColumnRow({ index, header, examples, value, proposal, onChange }: {
   index: number;
   header: string;
   examples: string[];
   value: ColumnMapping;
+  proposal: { field: ColumnTarget; confidence?: HeaderConfidence } | undefined;
   onChange: (next: ColumnMapping) => void;
 }) {
+  const confidence = proposal?.confidence && proposal.field === value.field ? proposal.confidence : null;
   const units = unitsFor(value.field);
   const selectId = `column-${index}`;
   return (
@@ -87,6 +99,11 @@ function ColumnRow({ index, header, examples, value, onChange }: {
       <div>
         <label htmlFor={selectId} className="font-medium">{header || `(column ${index + 1})`}</label>
         <span className="block text-xs text-muted">{examples.filter(Boolean).slice(0, 3).join(" · ") || "empty in the first rows"}</span>
+        {confidence ? (
+          <span className={`block text-xs ${confidence === "partial" ? "font-medium" : "text-muted"}`} data-confidence={confidence}>
+            {CONFIDENCE_WORDS[confidence]}
+          </span>
+        ) : null}
       </div>
       <select
         id={selectId}
@@ -132,7 +149,7 @@ function Count({ label, value, tone = "ink" }: { label: string; value: number; t
 }
 
 export default function ImportCheck({ loaderData }: Route.ComponentProps) {
-  const { upload, sample, options, summary, savedMappingNames } = loaderData;
+  const { upload, sample, headerReadings, options, summary, savedMappingNames } = loaderData;
   const fetcher = useFetcher<typeof action>();
   const [columns, setColumns] = useState<ColumnMapping[]>(options?.columns ?? []);
   const [dirty, setDirty] = useState(false);
@@ -150,6 +167,8 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
   const finding = summary?.dateOrder;
   const askDateOrder = finding && (finding.kind === "ambiguous" || finding.kind === "conflicting");
   const committed = upload.phase === "committed";
+  const noDateColumn = !committed && !columns.some((c) => c.field === "sampledAt");
+  const nothingToStore = summary !== null && hasNothingToStore(summary);
 
   return (
     <div className="space-y-6">
@@ -164,6 +183,11 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
         <p role="status" className="rounded-lg border border-line bg-white p-3">This file has been imported. <Link to="/imports" className="underline">See the import history</Link>.</p>
       ) : null}
       {upload.error ? <p role="alert" className="rounded-lg border border-alert bg-white p-3 text-sm text-alert">{upload.error}</p> : null}
+      {noDateColumn ? (
+        <p role="alert" className="rounded-lg border border-alert bg-white p-3 text-sm">
+          No column is read as the sample date. Choose the date column under Columns before checking: without a date every row is refused.
+        </p>
+      ) : null}
 
       <fetcher.Form
         method="post"
@@ -185,6 +209,7 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
                 header={header}
                 examples={sample.rows.map((r) => r.cells[index] ?? "")}
                 value={columns[index] ?? { field: "ignore" }}
+                proposal={headerReadings[index]}
                 onChange={(next) => {
                   setColumns((current) => current.map((c, i) => (i === index ? next : c)));
                   setDirty(true);
@@ -324,19 +349,22 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
             <button type="submit" name="intent" value="check" disabled={busy} className="rounded-lg border border-verdigris-700 px-4 py-2 font-medium text-verdigris-900 hover:bg-verdigris-50 disabled:opacity-60">
               Check the file
             </button>
-            <button
-              type="submit"
-              name="intent"
-              value="commit"
-              disabled={busy || !summary || dirty || Boolean(askDateOrder && !options?.dateOrder)}
-              className="rounded-lg bg-verdigris-700 px-4 py-2 font-medium text-white hover:bg-verdigris-900 disabled:opacity-60"
-            >
-              Import {summary ? `${formatCount(summary.testsToAdd)} tests and ${formatCount(summary.treatmentsToAdd)} treatments` : ""}
-            </button>
+            {nothingToStore && !dirty ? null : (
+              <button
+                type="submit"
+                name="intent"
+                value="commit"
+                disabled={busy || !summary || dirty || Boolean(askDateOrder && !options?.dateOrder)}
+                className="rounded-lg bg-verdigris-700 px-4 py-2 font-medium text-white hover:bg-verdigris-900 disabled:opacity-60"
+              >
+                Import {summary ? `${formatCount(summary.testsToAdd)} tests and ${formatCount(summary.treatmentsToAdd)} treatments` : ""}
+              </button>
+            )}
             <button type="submit" name="intent" value="discard" disabled={busy} className="rounded-lg px-3 py-2 text-sm text-muted underline">
               Set this file aside
             </button>
             {dirty ? <p className="w-full text-sm text-muted">You changed a choice: check the file again before importing.</p> : null}
+            {nothingToStore && !dirty ? <p role="status" className="w-full text-sm">{nothingToStoreMessage(summary)}</p> : null}
           </div>
         ) : null}
 

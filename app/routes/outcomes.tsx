@@ -9,7 +9,7 @@ import { ErrorPanel } from "~/components/error-panel";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { ARM_LABELS } from "~/lib/analytics/labels";
 import { ARM_DIMENSIONS, outcomesQuery } from "~/lib/analytics/params";
-import { formatDate } from "~/lib/format";
+import { formatDate, formatMoney } from "~/lib/format";
 import { METAL_LABELS } from "@analysis/metals/names";
 import type { Route } from "./+types/outcomes";
 
@@ -20,9 +20,9 @@ const STRATA = { all: "All treatments", inside: "pH 7.2–7.6 at treatment", out
 type Stratum = keyof typeof STRATA;
 
 export async function loader({ request, context }: Route.LoaderArgs) {
-  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "outcomes", outcomesQuery, "page");
+  const { scope, query, window, thresholds, currency } = await readAnalyticsRequest(request, context, "outcomes", outcomesQuery, "page");
   const outcomes = await treatmentOutcomes(scope, { window, thresholds, metal: query.metal, arm: query.arm });
-  return { search: loaderSearch(request, PARAMS), timeZone: scope.timeZone, outcomes };
+  return { search: loaderSearch(request, PARAMS), timeZone: scope.timeZone, currency, outcomes };
 }
 
 export const shouldRevalidate = onlyOnNewPath;
@@ -120,7 +120,7 @@ export default function Outcomes({ loaderData }: Route.ComponentProps) {
                     {a.recurrence.followed === 0 ? "not followed long enough" : `${a.recurrence.recurred} of ${a.recurrence.followed}`}
                   </td>
                   <td className="px-3 py-2">
-                    {a.costPerClearedPool === null ? "none cleared" : a.costPerClearedPool.toFixed(2)}
+                    {a.costPerClearedPool === null ? "none cleared" : formatMoney(a.costPerClearedPool, loaderData.currency)}
                     {a.costComplete ? null : <span className="block text-xs text-muted">some costs not recorded</span>}
                   </td>
                 </tr>

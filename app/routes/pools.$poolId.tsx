@@ -11,7 +11,7 @@ import { PoolMetalPanel } from "~/components/pool-metal-panel";
 import { ReadingTable } from "~/components/reading-table";
 import { equipmentAge } from "~/components/routebook/equipment-panel";
 import { todayIn } from "~/lib/dates";
-import { formatDate, formatDateTime, formatMgL } from "~/lib/format";
+import { formatDate, formatDateTime, formatMgL, formatMoney } from "~/lib/format";
 import {
   ENDPOINT_LABELS,
   EQUIPMENT_KIND_LABELS,
@@ -77,7 +77,7 @@ function observationText(t: {
 export default function PoolPage({ loaderData }: Route.ComponentProps) {
   const { detail, prefs, metalEvidence, today, justSaved, mayEdit, mayLogVisit } = loaderData;
   const { pool, tests, treatments } = detail;
-  const { units, timeZone, thresholds, balanceBand } = prefs;
+  const { units, timeZone, thresholds, balanceBand, currency } = prefs;
   const latest = tests[0];
   const judged = latest ? judgeTest(latest, thresholds, balanceBand) : [];
   const chronological = [...tests].reverse();
@@ -220,7 +220,7 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
         </p>
         {phHigh || acidLogged ? (
           <div className="mt-3">
-            <CautionNote topics={["acid", "dose"]}>
+            <CautionNote topics={["acid"]}>
               {phHigh ? `pH ${latest?.ph} is above ${DEFAULT_ANALYTE_RANGES.ph.high}; lowering it means adding acid.` : "A pH decreaser (an acid) has been used on this pool."}
             </CautionNote>
           </div>
@@ -283,7 +283,7 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
                 <span>
                   <span className="font-medium">{t.productName}</span>{" "}
                   <span className="text-muted">({labelOf(PRODUCT_CATEGORY_LABELS, t.category)})</span> · {t.amount} {t.unit}
-                  {t.cost !== null ? ` · cost ${t.cost.toFixed(2)}` : ""}
+                  {t.cost !== null ? ` · cost ${formatMoney(t.cost, currency)}` : ""}
                 </span>
                 <span className="text-muted">
                   {formatDateTime(t.appliedAt, timeZone)}

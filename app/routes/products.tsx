@@ -1,5 +1,6 @@
 import { requireArea } from "~/.server/guard";
 import { listProducts, PRODUCT_SORTS } from "~/.server/routebook/queries/products";
+import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
 import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
@@ -7,6 +8,7 @@ import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from
 import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
 import { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
 import { DOSE_BASIS_LABELS, labelOf, PRODUCT_CATEGORY_LABELS } from "~/lib/labels";
+import { formatMoney } from "~/lib/format";
 import { enumFilter, listParams } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/products";
@@ -18,17 +20,17 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const url = new URL(request.url);
   const params = listParams(url, PRODUCT_SORTS, "name");
   const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";
-  const list = await listProducts(scope, params, {
-    category: enumFilter(url, "category", PRODUCT_CATEGORIES),
-    active: activeWanted(status),
-  });
-  return { ...list, params, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
+  const [list, prefs] = await Promise.all([
+    listProducts(scope, params, { category: enumFilter(url, "category", PRODUCT_CATEGORIES), active: activeWanted(status) }),
+    companyPreferences(scope),
+  ]);
+  return { ...list, params, currency: prefs.currency, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
 
 type Row = Route.ComponentProps["loaderData"]["rows"][number];
 
 export default function Products({ loaderData }: Route.ComponentProps) {
-  const { rows, total, params, mayEdit } = loaderData;
+  const { rows, total, params, currency, mayEdit } = loaderData;
   const columns: Array<Column<Row>> = [
     {
       key: "name",
@@ -42,14 +44,17 @@ export default function Products({ loaderData }: Route.ComponentProps) {
       label: "Label dose",
       sortKey: "labelDose",
       numeric: true,
-      cell: (r) => (r.labelDose === null ? "—" : `${r.labelDose} ${r.doseUnit ?? ""} ${DOSE_BASIS_LABELS[r.doseBasis]}`),
+      cell: (r) =>
+        r.labelDose === null
+          ? "—"
+          : `${r.labelDose}${r.maintenanceDose === null ? "" : ` then ${r.maintenanceDose}`} ${r.doseUnit ?? ""} ${DOSE_BASIS_LABELS[r.doseBasis]}`,
     },
     {
       key: "unitCost",
       label: "Unit cost",
       sortKey: "unitCost",
       numeric: true,
-      cell: (r) => (r.unitCost === null ? "—" : `${r.unitCost.toFixed(2)} per ${r.doseUnit ?? "unit"}`),
+      cell: (r) => (r.unitCost === null ? "—" : `${formatMoney(r.unitCost, currency)} per ${r.doseUnit ?? "unit"}`),
     },
     archiveColumn(),
   ];

@@ -21,7 +21,14 @@ export async function loader({ context }: Route.LoaderArgs) {
     town: prefs.town,
     prefs,
     timeZones: ["UTC", ...Intl.supportedValuesOf("timeZone")],
+    currencies: currencyOptions(),
   };
+}
+
+/** Every currency the server knows, by code and name; read on the server so the page's list is the one it checks against. */
+function currencyOptions() {
+  const names = new Intl.DisplayNames("en", { type: "currency" });
+  return Intl.supportedValuesOf("currency").map((code) => ({ value: code, label: `${code} · ${names.of(code) ?? code}` }));
 }
 
 export async function action({ request, context }: Route.ActionArgs) {
@@ -35,7 +42,7 @@ export async function action({ request, context }: Route.ActionArgs) {
 }
 
 export default function Settings({ loaderData, actionData }: Route.ComponentProps) {
-  const { name, town, prefs, timeZones } = loaderData;
+  const { name, town, prefs, timeZones, currencies } = loaderData;
   const busy = useNavigation().state === "submitting";
   const errors = actionData?.fieldErrors;
   return (
@@ -51,7 +58,7 @@ export default function Settings({ loaderData, actionData }: Route.ComponentProp
         <section aria-labelledby="thresholds" className="space-y-3 rounded-xl border border-line bg-white p-4">
           <h2 id="thresholds" className="text-lg font-semibold">Metal levels (mg/L)</h2>
           <p className="text-sm text-muted">
-            A reading at or above “elevated” opens a metal case; only a reading below “clear” closes it. These are staining
+            A reading at or above “elevated” opens a metal episode; only a reading below “clear” closes it. These are staining
             levels from common practice, not health limits.
           </p>
           {METALS.map((metal) => (
@@ -70,7 +77,7 @@ export default function Settings({ loaderData, actionData }: Route.ComponentProp
           </div>
         </section>
         <section aria-labelledby="units" className="space-y-3 rounded-xl border border-line bg-white p-4">
-          <h2 id="units" className="text-lg font-semibold">Units and time</h2>
+          <h2 id="units" className="text-lg font-semibold">Units, time and currency</h2>
           <SelectField
             name="unitSystem"
             label="Units"
@@ -88,6 +95,7 @@ export default function Settings({ loaderData, actionData }: Route.ComponentProp
             options={timeZones.map((z) => ({ value: z, label: z }))}
             errors={errors}
           />
+          <SelectField name="currency" label="Currency (every cost is shown in it)" defaultValue={prefs.currency} options={currencies} errors={errors} />
         </section>
         {actionData?.ok ? (
           <p role="status" className="rounded-lg bg-verdigris-50 px-3 py-2 text-sm font-medium">

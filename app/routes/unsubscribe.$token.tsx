@@ -43,7 +43,7 @@ export default function Unsubscribe({ loaderData, actionData }: Route.ComponentP
   }
   return (
     <PublicCard title="Stop the weekly digest?">
-      <p>You will no longer get the Monday summary of open metal cases, recurring pools and treatment results.</p>
+      <p>You will no longer get the Monday summary of open metal episodes, recurring pools and treatment results.</p>
       <Form method="post">
         <button type="submit" className={primaryButton}>
           Stop the weekly digest

@@ -26,6 +26,8 @@ export async function loader({ params, context }: Route.LoaderArgs) {
     thresholds: prefs.thresholds,
     balanceBand: prefs.balanceBand,
     temperatureUnit: prefs.units === "us" ? ("F" as const) : ("C" as const),
+    units: prefs.units,
+    currency: prefs.currency,
     timeZone: prefs.timeZone,
     // One key per rendering of the form: a second submit of the same form is recognised and stored once.
     submissionKey: crypto.randomUUID(),
@@ -60,7 +62,7 @@ export function shouldRevalidate({ actionResult, defaultShouldRevalidate }: Shou
 }
 
 export default function VisitPool({ loaderData, actionData }: Route.ComponentProps) {
-  const { pool, lastTest, products, thresholds, balanceBand, temperatureUnit, timeZone, submissionKey } = loaderData;
+  const { pool, lastTest, products, thresholds, balanceBand, temperatureUnit, units, currency, timeZone, submissionKey } = loaderData;
   return (
     <div className="mx-auto max-w-xl">
       <p className="text-sm text-muted">
@@ -78,6 +80,7 @@ export default function VisitPool({ loaderData, actionData }: Route.ComponentPro
         thresholds={thresholds}
         balanceBand={balanceBand}
         temperatureUnit={temperatureUnit}
+        dosing={{ volumeLitres: pool.volumeLitres, units, currency }}
         answer={actionData}
       />
     </div>

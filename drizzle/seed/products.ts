@@ -18,13 +18,15 @@ export type ProductSpec = {
   category: "sequestrant" | "collector_pad" | "ph_decreaser" | "copper_algaecide" | "other_algaecide" | "chlorine";
   /** Label dose per 10,000 gal, in doseUnit. */
   labelDose: number;
+  /** The label's regular dose after the first, where it gives one. */
+  maintenanceDose?: number;
   doseUnit: string;
   unitCost: number;
 };
 
 export const PRODUCTS: readonly ProductSpec[] = [
-  { key: "sequestrantHeavy", name: "House sequestrant, heavy duty", category: "sequestrant", labelDose: 32, doseUnit: "fl oz", unitCost: 0.62 },
-  { key: "sequestrantMaintenance", name: "House sequestrant, maintenance", category: "sequestrant", labelDose: 16, doseUnit: "fl oz", unitCost: 0.29 },
+  { key: "sequestrantHeavy", name: "House sequestrant, heavy duty", category: "sequestrant", labelDose: 32, maintenanceDose: 8, doseUnit: "fl oz", unitCost: 0.62 },
+  { key: "sequestrantMaintenance", name: "House sequestrant, maintenance", category: "sequestrant", labelDose: 16, maintenanceDose: 4, doseUnit: "fl oz", unitCost: 0.29 },
   { key: "collectorPad", name: "Skimmer collector pad", category: "collector_pad", labelDose: 1, doseUnit: "each", unitCost: 24.5 },
   { key: "phDecreaser", name: "Dry acid pH decreaser", category: "ph_decreaser", labelDose: 1.5, doseUnit: "lb", unitCost: 2.15 },
   { key: "copperAlgaecide", name: "Copper algaecide 7%", category: "copper_algaecide", labelDose: 16, doseUnit: "fl oz", unitCost: 0.48 },

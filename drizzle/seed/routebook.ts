@@ -215,6 +215,7 @@ export function buildRouteBook(options: ScenarioOptions, ids: IdBase = FRESH_IDS
     name: p.name,
     category: p.category,
     labelDose: p.labelDose,
+    maintenanceDose: p.maintenanceDose ?? null,
     doseUnit: p.doseUnit,
     doseBasis: "per_10k_gal" as const,
     unitCost: p.unitCost,

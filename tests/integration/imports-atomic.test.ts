@@ -76,7 +76,12 @@ describe("a commit that fails half-way stores nothing", () => {
     expect(result).toMatchObject({ ok: true, testsAdded: ROWS });
     expect(await stored()).toEqual({ tests: ROWS, batches: 1 });
     const again = await storeUpload(scope, "killed-again.csv", largeFile());
-    expect(await commitUpload(scope, again)).toMatchObject({ ok: true, testsAdded: 0 });
-    expect((await stored()).tests).toBe(ROWS);
+    // Every row is already stored: nothing to import, said so, and no empty batch is written.
+    expect(await commitUpload(scope, again)).toMatchObject({
+      ok: false,
+      status: 422,
+      message: expect.stringMatching(/^Nothing to import: no row would add a water test or a treatment\. Of its rows: 5,000 already stored\./),
+    });
+    expect(await stored()).toEqual({ tests: ROWS, batches: 1 });
   });
 });

@@ -70,7 +70,7 @@ describe("metal alerts by e-mail", () => {
     const recurring = received.find((m) => m.subject.startsWith("Copper keeps coming back"))!;
     // 10 Jan -> 15 Jun 2026: 21 (rest of Jan) + 28 + 31 + 30 + 31 + 15 = 156 days.
     expect(recurring.text).toMatch(/Days between:\s+156/);
-    expect(recurring.text).toMatch(/Cases in the last 365 days:\s+2/);
+    expect(recurring.text).toMatch(/Episodes in the last 365 days:\s+2/);
 
     for (const quiet of [quietManager, owner, technician, otherCompanyManager]) expect(await outboxCount(quiet.email)).toBe(0);
   });
@@ -105,8 +105,8 @@ describe("metal alerts by e-mail", () => {
     // Active pools on the source: P1-P4 = 4 (P5 inactive). Needed: max(3, ceil(0.25 x 4) = 1) = 3.
     expect(shared.text).toContain("3 of the 4 active pools filled from Ridgeback shared well (shared well)");
     expect(shared.text).toMatch(/Pools needed for this alert:\s+3/);
-    expect(shared.text).toMatch(/First case opened:\s+8 Jun 2026/);
-    expect(shared.text).toMatch(/Latest case opened:\s+18 Jun 2026/);
+    expect(shared.text).toMatch(/First episode opened:\s+8 Jun 2026/);
+    expect(shared.text).toMatch(/Latest episode opened:\s+18 Jun 2026/);
     for (const street of ["P2 Heron Walk", "P3 Heron Walk", "P4 Heron Walk"]) expect(shared.text).toContain(street);
     expect(shared.html).toContain(`http://localhost:3000/sources/${book.source.ridgeback}`);
     expect(shared.html).toContain("<caption");

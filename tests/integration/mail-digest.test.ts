@@ -97,7 +97,7 @@ describe("the weekly digest", () => {
     // C's case closed on 20 Jun; D-I have none open.
     expect(text).toMatch(/DG-A Digest Lane \(Customer DG-A\)\s+Copper\s+1 Jun 2026\s+21\s+0\.60/);
     expect(text).toMatch(/DG-B Digest Lane \(Customer DG-B\)\s+Iron\s+17 Jun 2026\s+5\s+0\.25/);
-    expect(text).toContain("2 open metal cases, 1 newly recurring pool, 1 treatment result.");
+    expect(text).toContain("2 open metal episodes, 1 newly recurring pool, 1 treatment result.");
     expect(text).not.toMatch(/DG-C Digest Lane \(Customer DG-C\)\s+Iron\s+12 Jun 2026/);
 
     // Recurring this week: B (17 Jun, previous case 1 Feb). D-F became recurring on 5 Jan, not this week.

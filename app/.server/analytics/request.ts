@@ -21,6 +21,8 @@ export type AnalyticsRequest<T> = {
   /** The company's own levels, before the request's overrides. */
   companyThresholds: MetalThresholds;
   balanceBand: BalanceBand;
+  /** The company's currency (ISO 4217), for pages that show costs. */
+  currency: string;
 };
 
 type Mode = "api" | "page";
@@ -58,6 +60,7 @@ export async function readAnalyticsRequest<S extends z.ZodType>(
     thresholds,
     companyThresholds: settings.thresholds,
     balanceBand: settings.balanceBand,
+    currency: settings.currency,
   };
 }
 

@@ -112,12 +112,12 @@ function source(scope: Scope, dataset: Dataset): Source {
       };
     case "products":
       return {
-        headers: ["product_id", "name", "category", "label_dose", "dose_unit", "dose_basis", "unit_cost", "active"],
+        headers: ["product_id", "name", "category", "label_dose", "maintenance_dose", "dose_unit", "dose_basis", "unit_cost", "active"],
         page: pagesInIdOrder(
           products.id,
           eq(products.companyId, scope.companyId),
           () => db().select().from(products),
-          (p) => ({ id: p.id, cells: [p.id, p.name, p.category, p.labelDose, p.doseUnit, p.doseBasis, p.unitCost, p.active] }),
+          (p) => ({ id: p.id, cells: [p.id, p.name, p.category, p.labelDose, p.maintenanceDose, p.doseUnit, p.doseBasis, p.unitCost, p.active] }),
         ),
       };
     case "fill-sources":

@@ -11,6 +11,7 @@ import { PlannedRows } from "./planned-rows";
 import { type Claim, claimForCommit, endClaim, finishClaimSql } from "./claims";
 import { findUpload, reportProgress } from "./uploads";
 import { afterWaterTestsSaved } from "../mail/alerts";
+import { hasNothingToStore, nothingToStoreMessage } from "~/lib/imports/nothing-to-store";
 
 /** After an import this large, table statistics are refreshed (ANALYZE TABLE) so query plans fit the new sizes. */
 const LARGE_IMPORT_ROWS = 10_000;
@@ -119,6 +120,10 @@ async function commitClaimed(
   if ((plan.dateOrder.kind === "ambiguous" || plan.dateOrder.kind === "conflicting") && !options.dateOrder) {
     await endClaim(claim, { phase: "checked", error: null });
     return { ok: false, status: 422, message: `Choose the date order first: ${plan.dateOrder.reason}.` };
+  }
+  if (hasNothingToStore(plan)) {
+    await endClaim(claim, { phase: "checked", error: null });
+    return { ok: false, status: 422, message: nothingToStoreMessage(summary) };
   }
   const total = plan.testsToAdd + plan.treatmentsToAdd;
   await reportProgress(upload.id, { phase: "committing", rowsDone: 0, rowsTotal: total });

@@ -29,14 +29,14 @@ export function episodeOpenedMail(
     subject: `${metal} elevated at ${input.pool.street}: ${mgL(input.value)}`,
     preview: `${metal} ${mgL(input.value)} on ${formatDate(new Date(input.openedAt), input.timeZone)}, at or above ${mgL(input.elevatedLevel)}.`,
     blocks: [
-      { kind: "paragraph", text: `A new test opened a ${metal.toLowerCase()} case at ${poolLine(input.pool)}.` },
+      { kind: "paragraph", text: `A new test opened a ${metal.toLowerCase()} episode at ${poolLine(input.pool)}.` },
       {
         kind: "facts",
         rows: [
           ["Reading", mgL(input.value)],
           ["Test of", formatDate(new Date(input.openedAt), input.timeZone)],
           ["Elevated from", mgL(input.elevatedLevel)],
-          ["Case closes below", mgL(input.clearLevel)],
+          ["Episode closes below", mgL(input.clearLevel)],
         ],
       },
       {
@@ -58,19 +58,19 @@ export function poolRecurringMail(
   const gapDays = Math.round((input.openedAt - input.previousOpenedAt) / 86_400_000);
   return renderMail({
     subject: `${metal} keeps coming back at ${input.pool.street}`,
-    preview: `Second ${metal.toLowerCase()} case within ${input.windowDays} days.`,
+    preview: `Second ${metal.toLowerCase()} episode within ${input.windowDays} days.`,
     blocks: [
       {
         kind: "paragraph",
-        text: `${poolLine(input.pool)} now counts as a recurring ${metal.toLowerCase()} pool: a new case opened ${gapDays} days after the previous one, inside the ${input.windowDays}-day window.`,
+        text: `${poolLine(input.pool)} now counts as a recurring ${metal.toLowerCase()} pool: a new episode opened ${gapDays} days after the previous one, inside the ${input.windowDays}-day window.`,
       },
       {
         kind: "facts",
         rows: [
-          ["Previous case opened", formatDate(new Date(input.previousOpenedAt), input.timeZone)],
-          ["This case opened", formatDate(new Date(input.openedAt), input.timeZone)],
+          ["Previous episode opened", formatDate(new Date(input.previousOpenedAt), input.timeZone)],
+          ["This episode opened", formatDate(new Date(input.openedAt), input.timeZone)],
           ["Days between", String(gapDays)],
-          [`Cases in the last ${input.windowDays} days`, String(input.openingsLastYear)],
+          [`Episodes in the last ${input.windowDays} days`, String(input.openingsLastYear)],
         ],
       },
       {
@@ -100,24 +100,24 @@ export function sharedSourceMail(
   const link = absoluteUrl(input.baseUrl, `/sources/${input.source.id}`);
   return renderMail({
     subject: `${metal} on ${input.pools.length} pools filled from ${input.source.name}`,
-    preview: `${input.pools.length} of ${input.activePools} active pools opened a ${metal.toLowerCase()} case within ${input.windowDays} days.`,
+    preview: `${input.pools.length} of ${input.activePools} active pools opened a ${metal.toLowerCase()} episode within ${input.windowDays} days.`,
     blocks: [
       {
         kind: "paragraph",
-        text: `${input.pools.length} of the ${input.activePools} active pools filled from ${input.source.name} (${input.source.kind.replaceAll("_", " ")}) opened a ${metal.toLowerCase()} case within ${input.windowDays} days. The fill water itself may carry ${metal.toLowerCase()}: a test of the source settles it.`,
+        text: `${input.pools.length} of the ${input.activePools} active pools filled from ${input.source.name} (${input.source.kind.replaceAll("_", " ")}) opened a ${metal.toLowerCase()} episode within ${input.windowDays} days. The fill water itself may carry ${metal.toLowerCase()}: a test of the source settles it.`,
       },
       {
         kind: "facts",
         rows: [
-          ["First case opened", formatDate(new Date(input.firstOpeningAt), input.timeZone)],
-          ["Latest case opened", formatDate(new Date(input.lastOpeningAt), input.timeZone)],
-          ["Pools with a case", `${input.pools.length} of ${input.activePools} active`],
+          ["First episode opened", formatDate(new Date(input.firstOpeningAt), input.timeZone)],
+          ["Latest episode opened", formatDate(new Date(input.lastOpeningAt), input.timeZone)],
+          ["Pools with an episode", `${input.pools.length} of ${input.activePools} active`],
           ["Pools needed for this alert", String(input.poolsRequired)],
         ],
       },
       {
         kind: "table",
-        caption: `Pools on ${input.source.name} with a ${metal.toLowerCase()} case in this wave`,
+        caption: `Pools on ${input.source.name} with a ${metal.toLowerCase()} episode in this wave`,
         columns: [{ label: "Customer" }, { label: "Street" }, { label: "Route" }],
         rows: input.pools.map((p) => [p.customerName, p.street, p.routeName ?? "no route"]),
         empty: "No pools.",

@@ -94,7 +94,7 @@ async function recordEvents(company: Company, events: AlertEvent[]): Promise<Rec
   return recorded;
 }
 
-/** Episodes that opened a case, and openings that made the pool recurring (its first repeat inside the window). */
+/** Episodes that opened, and openings that made the pool recurring (its first repeat inside the window). */
 function poolEvents(company: Company, label: PoolLabel, episodes: readonly Episode[], valueAt: Map<string, number>, since: number): AlertEvent[] {
   const common = { baseUrl: serverEnv().PATINA_URL, companyName: company.name, timeZone: company.timeZone };
   const windowDays = DEFAULT_EPISODE_RULES.recurrenceWindowDays;

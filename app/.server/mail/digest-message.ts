@@ -28,7 +28,7 @@ export type WeeklyDigest = {
 
 const mgL = (value: number, belowDetection = false) => `${belowDetection ? "<" : ""}${value.toFixed(2)}`;
 const poolName = (p: PoolName) => `${p.street} (${p.customerName})`;
-const ratio = (value: number) => (Number.isFinite(value) ? value.toFixed(1) : "no cases elsewhere");
+const ratio = (value: number) => (Number.isFinite(value) ? value.toFixed(1) : "no episodes elsewhere");
 
 export function digestMail(
   digest: WeeklyDigest,
@@ -37,38 +37,38 @@ export function digestMail(
   const day = (at: number) => formatDate(new Date(at), digest.timeZone);
   const period = `${day(digest.weekStart)} to ${day(digest.weekEnd)}`;
   const unsubscribe = absoluteUrl(options.baseUrl, `/unsubscribe/${options.unsubscribeToken}`);
-  const summary = `${digest.openCases.length} open metal case${digest.openCases.length === 1 ? "" : "s"}, ${digest.newRecurring.length} newly recurring pool${digest.newRecurring.length === 1 ? "" : "s"}, ${digest.treatmentResults.length} treatment result${digest.treatmentResults.length === 1 ? "" : "s"}.`;
+  const summary = `${digest.openCases.length} open metal episode${digest.openCases.length === 1 ? "" : "s"}, ${digest.newRecurring.length} newly recurring pool${digest.newRecurring.length === 1 ? "" : "s"}, ${digest.treatmentResults.length} treatment result${digest.treatmentResults.length === 1 ? "" : "s"}.`;
   return renderMail({
     subject: `${digest.companyName}: your week in metals (${period})`,
     preview: summary,
     blocks: [
       { kind: "paragraph", text: `Hello ${options.recipientName}, here is ${digest.companyName}'s week, ${period}. ${summary}` },
-      { kind: "heading", text: "Open metal cases" },
+      { kind: "heading", text: "Open metal episodes" },
       {
         kind: "table",
-        caption: "Pools with a metal case still open today; highest reading in mg/L",
+        caption: "Pools with a metal episode still open today; highest reading in mg/L",
         columns: [{ label: "Pool" }, { label: "Metal" }, { label: "Opened" }, { label: "Days open", align: "right" }, { label: "Highest mg/L", align: "right" }],
         rows: digest.openCases.map((c) => [poolName(c.pool), METAL_LABELS[c.metal], day(c.openedAt), String(c.daysOpen), mgL(c.peak)]),
-        empty: "No metal case is open: every pool's last metal reading is clear.",
+        empty: "No metal episode is open: every pool's last metal reading is clear.",
       },
       { kind: "heading", text: "Pools that became recurring this week" },
       {
         kind: "table",
-        caption: "A second case of the same metal within 365 days of the previous one",
-        columns: [{ label: "Pool" }, { label: "Metal" }, { label: "This case" }, { label: "Previous case" }],
+        caption: "A second episode of the same metal within 365 days of the previous one",
+        columns: [{ label: "Pool" }, { label: "Metal" }, { label: "This episode" }, { label: "Previous episode" }],
         rows: digest.newRecurring.map((r) => [poolName(r.pool), METAL_LABELS[r.metal], day(r.openedAt), day(r.previousOpenedAt)]),
         empty: "No pool became recurring this week.",
       },
-      { kind: "heading", text: "Groups with more metal cases than the rest" },
+      { kind: "heading", text: "Groups with more metal episodes than the rest" },
       {
         kind: "table",
-        caption: "Groups of at least 3 pools whose case rate is above the rest of the route book even at the low end of its 95% interval",
+        caption: "Groups of at least 3 pools whose episode rate is above the rest of the route book even at the low end of its 95% interval",
         columns: [
           { label: "Grouped by" },
           { label: "Group" },
           { label: "Pools", align: "right" },
-          { label: "Cases", align: "right" },
-          { label: "Cases per pool-year", align: "right" },
+          { label: "Episodes", align: "right" },
+          { label: "Episodes per pool-year", align: "right" },
           { label: "Times the rest (95% interval)", align: "right" },
         ],
         rows: digest.riskyGroups.map((g) => [

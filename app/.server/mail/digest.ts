@@ -47,7 +47,7 @@ function becameRecurring(episodes: readonly Episode[]): Array<{ episode: Episode
 
 /**
  * The company's week in figures, the same for every owner and manager: open
- * metal cases, pools that became recurring, groups with more cases than the
+ * metal episodes, pools that became recurring, groups with more episodes than the
  * rest of the route book, and treatments whose follow-up came in this week.
  */
 export async function weeklyDigestFor(companyId: number, now: Date): Promise<WeeklyDigest | null> {

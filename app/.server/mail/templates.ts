@@ -38,12 +38,16 @@ const PALETTE = {
 
 const FONT = "font-family:'Inter Tight',Segoe UI,Helvetica,Arial,sans-serif;";
 
-/** The usual cautions wherever a message suggests chemical work or opening equipment. */
+/**
+ * The usual cautions wherever a message suggests chemical work or opening
+ * equipment. Mail shows no dose, so the dose caution stays with the visit
+ * form's label amounts.
+ */
 export const CAUTIONS = [
   "Acid is corrosive: wear eye and skin protection, add acid to water (never water to acid), never mix it with chlorine products, and store them apart.",
   "Draining a pool can let ground water lift the shell, and the discharge may be regulated: check local rules and use a qualified contractor.",
   "Switch off and lock out the pump before opening it or other equipment.",
-  "Dose figures are estimates from the product label and the recorded volume: follow the product label, local codes and licensed practice.",
+  "Follow the product label, local codes and licensed practice.",
   "Metal levels here are staining levels from common practice, not health limits.",
 ] as const;
 

@@ -35,6 +35,7 @@ type ProductValues = {
   name: string;
   category: string;
   labelDose: number | null;
+  maintenanceDose: number | null;
   doseUnit: string | null;
   doseBasis: string;
   unitCost: number | null;
@@ -48,8 +49,9 @@ export function ProductForm({ product, answer }: { product: ProductValues | null
     <Form method="post" className="max-w-xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
       <TextField name="name" label="Product name (your company's own)" defaultValue={product?.name} errors={errors} required maxLength={160} />
       <SelectField name="category" label="Category" defaultValue={product?.category ?? ""} placeholder="Choose…" options={options(PRODUCT_CATEGORY_LABELS)} errors={errors} />
-      <div className="grid gap-4 sm:grid-cols-3">
-        <TextField name="labelDose" label="Label dose" inputMode="decimal" defaultValue={product?.labelDose ?? ""} errors={errors} />
+      <div className="grid gap-4 sm:grid-cols-2">
+        <TextField name="labelDose" label="Label dose" inputMode="decimal" defaultValue={product?.labelDose ?? ""} errors={errors} hint="The label's starting dose." />
+        <TextField name="maintenanceDose" label="Maintenance dose" inputMode="decimal" defaultValue={product?.maintenanceDose ?? ""} errors={errors} hint="The label's regular dose, if it gives one." />
         <TextField name="doseUnit" label="Dose unit" defaultValue={product?.doseUnit ?? ""} errors={errors} maxLength={16} hint="e.g. fl oz, lb, pad" />
         <SelectField name="doseBasis" label="Per" defaultValue={product?.doseBasis ?? "per_10k_gal"} options={options(DOSE_BASIS_LABELS)} errors={errors} />
       </div>

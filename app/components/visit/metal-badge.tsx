@@ -6,7 +6,7 @@ export function metalMarkText(mark: MetalMark): string {
   const parts: string[] = [];
   if (mark.openMetals.length > 0) {
     const metals = mark.openMetals.map((m) => METAL_LABELS[m].toLowerCase()).join(", ");
-    parts.push(`open ${metals} case`);
+    parts.push(`open ${metals} episode`);
   }
   if (mark.suspected) parts.push("metal suspected");
   const text = `${parts.join(" · ")}: bring the metal test`;

@@ -6,11 +6,13 @@ import { CautionNote } from "~/components/caution-note";
 import { FormProblem } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
-import { liveVisit, type TypedLine } from "~/lib/forms/visit-live";
+import { formatMoney } from "~/lib/format";
+import { liveVisit, type DosingPool, type LiveProduct, type TypedLine } from "~/lib/forms/visit-live";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
+import { LabelAmount } from "./label-amount";
 
-type Product = { id: number; name: string; category: string; doseUnit: string | null; unitCost: number | null };
+type Product = LiveProduct & { name: string };
 type Snapshot = { values: Record<string, string>; lines: TypedLine[] };
 
 export type VisitAnswer = { fieldErrors: FieldErrors; formError: string | null; values?: TypedVisit };
@@ -122,10 +124,13 @@ export function VisitForm({
   thresholds,
   balanceBand,
   temperatureUnit,
+  dosing,
   answer,
 }: {
   submissionKey: string;
   products: Product[];
+  /** The pool's recorded volume and the company's units and currency, for the label amounts and costs. */
+  dosing: DosingPool & { currency: string };
   thresholds: MetalThresholds;
   balanceBand: BalanceBand;
   temperatureUnit: "C" | "F";
@@ -159,12 +164,9 @@ export function VisitForm({
   }
 
   const { values, lines } = current;
-  const { readings, errors: liveErrors, balance, warnings, askForMetals, acidGiven, phHigh, hasStain, costs } = liveVisit(
-    values,
-    lines,
-    products,
-    thresholds,
-  );
+  const { readings, errors: liveErrors, balance, warnings, askForMetals, acidGiven, phHigh, hasStain, costs, labelAmounts, sequestrantNote } =
+    liveVisit(values, lines, products, thresholds, dosing);
+  const labelShown = labelAmounts.some((a) => a?.kind === "amounts");
   const errorFor = (key: string): string | undefined => liveErrors[key] ?? (changed.has(key) ? undefined : answer?.fieldErrors[key]);
   const productById = new Map(products.map((p) => [String(p.id), p]));
 
@@ -362,7 +364,8 @@ export function VisitForm({
                 <FieldError id={`treatment-${i}-amount-error`} message={amountError} />
                 <FieldError id={`treatment-${i}-unit-error`} message={unitError} />
               </span>
-              {cost !== null ? <span className="col-span-2 text-sm text-muted">Cost {cost.toFixed(2)}</span> : null}
+              {cost !== null ? <span className="col-span-2 text-sm text-muted">Cost {formatMoney(cost, dosing.currency)}</span> : null}
+              <LabelAmount answer={labelAmounts[i] ?? null} volumeLitres={dosing.volumeLitres} units={dosing.units} />
             </div>
           );
         })}
@@ -375,6 +378,12 @@ export function VisitForm({
             Add another treatment
           </button>
         ) : null}
+        {sequestrantNote ? (
+          <p role="status" className="rounded-lg border border-calm bg-blue-50 p-3 text-sm">
+            {sequestrantNote}
+          </p>
+        ) : null}
+        {labelShown ? <CautionNote topics={["dose"]} /> : null}
         {acidGiven || phHigh ? (
           <CautionNote topics={["acid"]}>
             {phHigh ? `pH ${readings.ph} is above ${DEFAULT_ANALYTE_RANGES.ph.high}; a pH decreaser is the usual step.` : "A pH decreaser is an acid."}

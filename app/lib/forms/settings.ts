@@ -8,11 +8,15 @@ const METAL_LABEL = { copper: "Copper", iron: "Iron", manganese: "Manganese" } a
 
 const level = (label: string) => requiredNumber({ label, min: 0, max: 10, unit: "mg/L" });
 
-/** A clear level of 0 would never let a case close. */
+/** A clear level of 0 would never let an episode close. */
 const clearLevel = (label: string) =>
   level(label).superRefine((value, ctx) => {
     if (!(value > 0)) ctx.addIssue({ code: "custom", message: `${label}: ${value} mg/L must be above 0.` });
   });
+
+export function isKnownCurrency(code: string): boolean {
+  return Intl.supportedValuesOf("currency").includes(code);
+}
 
 export function isKnownTimeZone(name: string): boolean {
   return name === "UTC" || Intl.supportedValuesOf("timeZone").includes(name);
@@ -32,6 +36,13 @@ const settingsFields = {
     .string({ error: "Time zone: choose one." })
     .trim()
     .refine(isKnownTimeZone, { error: (iss) => `Time zone: "${String(iss.input)}" is not a known time zone (e.g. America/New_York).` }),
+  // Left out of a post, the company's currency stays as it is.
+  currency: z
+    .string({ error: "Currency: choose one." })
+    .trim()
+    .toUpperCase()
+    .refine(isKnownCurrency, { error: (iss) => `Currency: "${String(iss.input)}" is not a known currency code (e.g. USD, EUR, GBP).` })
+    .optional(),
 };
 
 type SettingsField = keyof typeof settingsFields;

@@ -1,6 +1,7 @@
 import { saturationIndex, type SaturationResult } from "@analysis/chemistry/saturation";
 import { metalStatus, type MetalThresholds } from "@analysis/metals/reading";
 import { parseDecimal } from "@analysis/units/decimal";
+import { labelAmountForPool, sequestrantPhNote, type PoolLabelAmount, type StoredDoseBasis } from "@analysis/units/label-dose";
 import type { FieldErrors } from "./fields";
 import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
 import { hasMetalReading, parseVisitReadings, PH_WARNING, type VisitReadings, VISIT_METALS } from "./visit";
@@ -12,7 +13,17 @@ import { hasMetalReading, parseVisitReadings, PH_WARNING, type VisitReadings, VI
  * tests compute the same thing.
  */
 
-export type LiveProduct = { id: number; category: string; doseUnit: string | null; unitCost: number | null };
+export type LiveProduct = {
+  id: number;
+  category: string;
+  doseUnit: string | null;
+  unitCost: number | null;
+  labelDose?: number | null;
+  maintenanceDose?: number | null;
+  doseBasis?: StoredDoseBasis;
+};
+/** The pool the visit is for, as far as dosing goes. */
+export type DosingPool = { volumeLitres: number | null; units: "us" | "metric" };
 export type TypedLine = { productId: string; amount: string; unit: string };
 
 export function visitBalance(readings: VisitReadings): SaturationResult {
@@ -68,13 +79,33 @@ export type LiveVisit = {
   hasStain: boolean;
   /** One per treatment line, null when it cannot be costed. */
   costs: Array<number | null>;
+  /** One per treatment line: the label's amount for this pool, null with no product chosen. */
+  labelAmounts: Array<PoolLabelAmount | null>;
+  /** A sequestrant is among the treatments and the pH typed is outside where it is usually dosed. */
+  sequestrantNote: string | null;
 };
+
+/** The label's amount for the pool, for the product a line names (shown, never filled in). */
+export function lineLabelAmount(product: LiveProduct | undefined, pool: DosingPool): PoolLabelAmount | null {
+  if (!product) return null;
+  return labelAmountForPool(
+    {
+      labelDose: product.labelDose ?? null,
+      maintenanceDose: product.maintenanceDose ?? null,
+      doseUnit: product.doseUnit,
+      doseBasis: product.doseBasis ?? "per_10k_gal",
+    },
+    pool.volumeLitres,
+    pool.units,
+  );
+}
 
 export function liveVisit(
   values: Record<string, string>,
   lines: readonly TypedLine[],
   products: readonly LiveProduct[],
   thresholds: MetalThresholds,
+  pool: DosingPool = { volumeLitres: null, units: "us" },
 ): LiveVisit {
   const { readings, errors } = parseVisitReadings(values);
   const productById = new Map(products.map((p) => [String(p.id), p]));
@@ -88,5 +119,7 @@ export function liveVisit(
     phHigh: readings.ph !== undefined && readings.ph > DEFAULT_ANALYTE_RANGES.ph.high,
     hasStain: values.stain === "new" || values.stain === "existing",
     costs: lines.map((line) => treatmentCost(line, productById.get(line.productId))),
+    labelAmounts: lines.map((line) => lineLabelAmount(productById.get(line.productId), pool)),
+    sequestrantNote: lines.some((l) => productById.get(l.productId)?.category === "sequestrant") ? sequestrantPhNote(readings.ph) : null,
   };
 }

@@ -51,27 +51,84 @@ const FIELD_BY_NAME = new Map<string, Exclude<ColumnTarget, "ignore">>(
   SPELLINGS.flatMap(({ field, names }) => names.map((name) => [name, field] as const)),
 );
 
-export type HeaderReading = { field: ColumnTarget; unit?: ColumnUnit };
+/**
+ * Short forms that route sheets and old logs use, word by word (common
+ * practice of the trade's paperwork). Each is read as the word it stands for.
+ */
+const ABBREVIATIONS: Record<string, string> = {
+  dt: "date", dte: "date", svc: "service", serv: "service", srv: "service", vst: "visit", vis: "visit",
+  tst: "test", smpl: "sample", chem: "chemical", chems: "chemical", chm: "chemical", prod: "product",
+  trtmt: "treatment", trt: "treatment", tx: "treatment", qty: "quantity", qnty: "quantity", amt: "amount",
+  temp: "temperature", tmp: "temperature", wtr: "water", stab: "stabiliser", stabl: "stabiliser",
+  hard: "hardness", hrd: "hardness", hardn: "hardness", calc: "calcium", alk: "alkalinity", alky: "alkalinity",
+  tot: "total", ttl: "total", acct: "account", acc: "account", cust: "customer", clnt: "client",
+  addr: "address", adr: "address", st: "street", nbhd: "neighbourhood", hood: "neighbourhood",
+  cmt: "comment", cmts: "comments", rmk: "remarks", cyan: "cyanuric", chl: "chlorine", chlor: "chlorine",
+  cl: "chlorine", comb: "combined", sal: "salt", mang: "manganese", cop: "copper", no: "number", num: "number",
+};
 
-/** Reads one header: the field it names and any unit it states. */
-export function readHeader(header: string): HeaderReading {
-  const words = normaliseHeader(header);
+/** Words too general to name a field on their own when only part of a header is recognised. */
+const TOO_GENERAL = new Set([
+  "name", "code", "number", "id", "free", "combined", "unit", "units", "when", "time", "t", "area", "location",
+  "owner", "client", "customer", "total", "level", "added", "used", "water", "service", "visit", "test", "sample",
+  "amount", "f", "c", "p", "h",
+]);
+
+/** How a proposal was reached: the header's exact words, its words once abbreviations are read, or some of its words. */
+export type HeaderConfidence = "exact" | "abbreviation" | "partial";
+
+export type HeaderReading = { field: ColumnTarget; unit?: ColumnUnit; confidence?: HeaderConfidence };
+
+function expandAbbreviations(words: string): string {
+  return words
+    .split(" ")
+    .map((word) => ABBREVIATIONS[word] ?? word)
+    .join(" ");
+}
+
+/** The field whose spelling is a whole header, or the header less a trailing unit word. */
+function readWhole(words: string): HeaderReading | null {
   const whole = FIELD_BY_NAME.get(words);
-  if (whole) return withUnit(whole, undefined);
+  if (whole) return { field: whole };
   for (const { pattern, unit } of UNIT_WORDS) {
     const match = pattern.exec(words);
     if (!match) continue;
     const rest = words.slice(0, match.index).trim();
     const field = FIELD_BY_NAME.get(rest);
-    if (field && unitsFor(field).includes(unit)) return withUnit(field, unit);
+    if (field && unitsFor(field).includes(unit)) return { field, unit };
     // "ppm" after a field with no unit choice (e.g. "Free Cl ppm") still names the field.
-    if (field && unitsFor(field).length === 0 && (unit === "mgL")) return { field };
+    if (field && unitsFor(field).length === 0 && unit === "mgL") return { field };
   }
-  return { field: "ignore" };
+  return null;
 }
 
-function withUnit(field: Exclude<ColumnTarget, "ignore">, unit: ColumnUnit | undefined): HeaderReading {
-  return unit ? { field, unit } : { field };
+/**
+ * The longest spelling all of whose words stand in the header ("Last visit
+ * date" holds "visit date"); a spelling of one general word does not count.
+ */
+function readPart(words: string): HeaderReading | null {
+  const present = new Set(words.split(" "));
+  let best: { field: Exclude<ColumnTarget, "ignore">; length: number } | null = null;
+  for (const [name, field] of FIELD_BY_NAME) {
+    const parts = name.split(" ");
+    if (parts.length === 1 && TOO_GENERAL.has(name)) continue;
+    if (!parts.every((part) => present.has(part))) continue;
+    if (!best || parts.length > best.length) best = { field, length: parts.length };
+  }
+  return best ? { field: best.field } : null;
+}
+
+/** Reads one header: the field it names, any unit it states, and how sure the reading is. */
+export function readHeader(header: string): HeaderReading {
+  const words = normaliseHeader(header);
+  const exact = readWhole(words);
+  if (exact) return { ...exact, confidence: "exact" };
+  const expanded = expandAbbreviations(words);
+  const abbreviated = expanded === words ? null : readWhole(expanded);
+  if (abbreviated) return { ...abbreviated, confidence: "abbreviation" };
+  const part = readPart(expanded);
+  if (part) return { ...part, confidence: "partial" };
+  return { field: "ignore" };
 }
 
 /** A saved mapping: normalised header -> how it is read. */

@@ -14,6 +14,8 @@ export type CompanySettings = {
   metalThresholds?: Partial<Record<"copper" | "iron" | "manganese", { elevated: number; clear: number }>>;
   balanceBand?: { low: number; high: number };
   alertOwners?: boolean;
+  /** ISO 4217 code every cost is shown in; absent: US dollars. */
+  currency?: string;
 };
 
 export const companies = mysqlTable("companies", {

@@ -45,6 +45,8 @@ export const products = mysqlTable(
     category: mysqlEnum("category", PRODUCT_CATEGORIES).notNull(),
     /** Label dose amount per dose basis, in doseUnit (e.g. 16 fl oz per 10,000 gal). */
     labelDose: decimalNumber("label_dose", 10, 3),
+    /** The label's maintenance dose, on the same unit and basis as labelDose (the starting dose). */
+    maintenanceDose: decimalNumber("maintenance_dose", 10, 3),
     doseUnit: varchar("dose_unit", { length: 16 }),
     doseBasis: mysqlEnum("dose_basis", DOSE_BASES).notNull().default("per_10k_gal"),
     /** Cost of one doseUnit, in the company's currency. */

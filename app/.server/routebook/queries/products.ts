@@ -41,7 +41,10 @@ export async function activeProducts(scope: Scope) {
       id: products.id,
       name: products.name,
       category: products.category,
+      labelDose: products.labelDose,
+      maintenanceDose: products.maintenanceDose,
       doseUnit: products.doseUnit,
+      doseBasis: products.doseBasis,
       unitCost: products.unitCost,
     })
     .from(products)

@@ -5,7 +5,7 @@ import { companies } from "../../db/schema";
 import type { Scope } from "../../scope";
 import type { ServiceResult } from "../../command-result";
 
-/** Saves thresholds, balance band, units and time zone; other settings keys are kept as they were. */
+/** Saves thresholds, balance band, units, time zone and currency; other settings keys are kept as they were. */
 export async function updateCompanySettings(scope: Scope, input: SettingsInput): Promise<ServiceResult> {
   await db().transaction(async (tx) => {
     const [row] = await tx
@@ -21,6 +21,7 @@ export async function updateCompanySettings(scope: Scope, input: SettingsInput):
         manganese: { elevated: input.manganeseElevated, clear: input.manganeseClear },
       },
       balanceBand: { low: input.balanceLow, high: input.balanceHigh },
+      ...(input.currency ? { currency: input.currency } : {}),
     };
     await tx
       .update(companies)

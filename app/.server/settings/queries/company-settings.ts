@@ -1,6 +1,7 @@
 import { eq } from "drizzle-orm";
 import { DEFAULT_BALANCE_BAND, type BalanceBand } from "@analysis/chemistry/saturation";
 import { DEFAULT_METAL_THRESHOLDS, METALS, type MetalThresholds } from "@analysis/metals/reading";
+import { DEFAULT_CURRENCY } from "~/lib/format";
 import type { UnitSystem } from "~/lib/units";
 import { db } from "../../db/client";
 import { type CompanySettings, companies } from "../../db/schema";
@@ -16,6 +17,8 @@ export type CompanyPreferences = {
   balanceBand: BalanceBand;
   /** Owners also receive alerts (managers always do). */
   alertOwners: boolean;
+  /** ISO 4217 code every cost is shown in. */
+  currency: string;
 };
 
 function metalThresholdsFrom(settings: CompanySettings | null | undefined): MetalThresholds {
@@ -42,6 +45,7 @@ export async function companySettings(companyId: number): Promise<CompanyPrefere
     thresholds: metalThresholdsFrom(row.settings),
     balanceBand: row.settings?.balanceBand ?? DEFAULT_BALANCE_BAND,
     alertOwners: row.settings?.alertOwners === true,
+    currency: row.settings?.currency ?? DEFAULT_CURRENCY,
   };
 }
 

@@ -1,0 +1,1 @@
+ALTER TABLE `products` ADD `maintenance_dose` decimal(10,3);
