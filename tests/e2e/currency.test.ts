@@ -1,18 +1,10 @@
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 async function chooseCurrency(page: Page, code: string) {
   await page.goto(`${BROWSER_TEST_URL}/settings`);
@@ -23,7 +15,7 @@ async function chooseCurrency(page: Page, code: string) {
 
 describe("costs in the company's currency", () => {
   it("shows every unit cost in the currency the owner chose", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await signInAs(page, "owner", "/settings");
     try {

@@ -1,18 +1,10 @@
 import { fileURLToPath } from "node:url";
-import type { Browser, Page } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import type { Page } from "playwright-core";
+import { describe, expect, it } from "vitest";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 async function upload(page: Page, fixture: string) {
   await signInAs(page, "analyst", "/imports/new");
@@ -23,7 +15,7 @@ async function upload(page: Page, fixture: string) {
 
 describe("an old log with short headers", () => {
   it("is read column by column, saying how sure each reading is", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await upload(page, "abbreviated-headers.csv");
 
@@ -54,7 +46,7 @@ describe("an old log with short headers", () => {
   });
 
   it("says at the top, before any check, when no column is the sample date", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await upload(page, "no-date-column.csv");
     const warning = page.getByRole("alert").filter({ hasText: "No column is read as the sample date" });

@@ -1,22 +1,13 @@
-import type { Browser } from "playwright-core";
-import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { launchBrowser, phoneContext } from "../fixtures/browser";
+import { describe, expect, it } from "vitest";
+import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
-let browser: Browser;
-
-beforeAll(async () => {
-  browser = await launchBrowser();
-});
-
-afterAll(async () => {
-  await browser?.close();
-});
+const browser = browserPerFile();
 
 describe("the label dose on the visit form", () => {
   it("shows the label amount for the pool's volume when a product is picked, without filling in the amount", async () => {
-    const context = await phoneContext(browser);
+    const context = await phoneContext(browser());
     const page = await context.newPage();
     await signInAs(page, "tech1", "/pools");
     await page.getByRole("heading", { level: 1, name: "Pools" }).waitFor();
