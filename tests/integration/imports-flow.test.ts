@@ -140,14 +140,15 @@ describe("upload, check, import, import again, undo", () => {
     expect(progress.body).toMatchObject({ phase: "committed", importBatchId: batchId, rowsDone: 5 });
   });
 
-  it("importing the same file again adds nothing", async () => {
+  it("importing the same file again adds nothing, and is refused with the reason rather than stored as an empty batch", async () => {
     const before = await companyTestCount();
     const again = await uploadFixture(owner, "route-sheet-bom-crlf.csv");
     await postCheckForm(owner, again, "check");
     // the 4 stored rows are duplicates (row 2's treatment too); the refused and unknown rows stay as they were
     expect(summaryOf(await checkPageData(owner, again))).toMatchObject({ testsToAdd: 0, treatmentsToAdd: 0, duplicates: 4, refusedRows: 1 });
     const outcome = await postCheckForm(owner, again, "commit");
-    expect(outcome.status).toBe(302);
+    expect(outcome.status).toBe(422);
+    expect(outcome.body).toMatchObject({ ok: false, message: expect.stringMatching(/^Nothing to import: .* Of its rows: 4 already stored, 1 refused, 1 for pools Patina does not know\./) });
     expect(await companyTestCount()).toBe(before);
     const [treatmentCount] = await db().select({ n: count() }).from(treatments).where(eq(treatments.companyId, companyId));
     expect(treatmentCount!.n).toBe(1);
@@ -156,8 +157,8 @@ describe("upload, check, import, import again, undo", () => {
   it("lists every batch in the history, and undo removes exactly its rows", async () => {
     const history = await callRoute(historyPage.loader, requestAs(analyst, "/imports"));
     const batches = (history.body as { batches: Array<{ id: number; fileName: string; userName: string | null; testsAdded: number }> }).batches;
-    expect(batches.map((b) => b.testsAdded)).toEqual([0, 4]);
-    expect(batches[1]).toMatchObject({ id: batchId, fileName: "route-sheet-bom-crlf.csv", userName: "Test analyst" });
+    expect(batches.map((b) => b.testsAdded)).toEqual([4]);
+    expect(batches[0]).toMatchObject({ id: batchId, fileName: "route-sheet-bom-crlf.csv", userName: "Test analyst" });
 
     const beforeOther = await testsOf(null);
     const form = new FormData();

@@ -119,14 +119,15 @@ export const productForm = z
     name: requiredText("Product name", 160),
     category: requiredChoice("Category", PRODUCT_CATEGORIES),
     labelDose: optionalNumber({ label: "Label dose", min: 0.001, max: 100_000 }),
-    maintenanceDose: optionalNumber({ label: "Maintenance dose", min: 0.001, max: 100_000 }),
+    // Optional in the post too: a client that predates it leaves the stored value as it is.
+    maintenanceDose: optionalNumber({ label: "Maintenance dose", min: 0.001, max: 100_000 }).optional(),
     doseUnit: optionalText("Dose unit", 16),
     doseBasis: requiredChoice("Dose basis", DOSE_BASES),
     unitCost: optionalNumber({ label: "Unit cost", min: 0, max: 100_000 }),
     active: checkbox,
   })
   .superRefine((v, ctx) => {
-    if ((v.labelDose !== null || v.maintenanceDose !== null || v.unitCost !== null) && !v.doseUnit) {
+    if ((v.labelDose !== null || v.maintenanceDose != null || v.unitCost !== null) && !v.doseUnit) {
       ctx.addIssue({ code: "custom", path: ["doseUnit"], message: "Dose unit: name the unit the label dose and cost are given in (e.g. fl oz, lb, pad)." });
     }
   });
