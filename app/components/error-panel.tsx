@@ -6,7 +6,10 @@ const headings: Record<number, string> = {
   404: "Nothing here",
 };
 
-/** The one error display shared by every route's error boundary. */
+/**
+ * The one error display shared by every route's error boundary; a page inside
+ * the app frame exports it as its own (`export { ErrorPanel as ErrorBoundary }`).
+ */
 export function ErrorPanel({ error }: { error: unknown }) {
   let status: number | undefined;
   let message = "Something went wrong on our side. Try again, and tell your administrator if it keeps happening.";
@@ -28,5 +31,14 @@ export function ErrorPanel({ error }: { error: unknown }) {
         </Link>
       </p>
     </section>
+  );
+}
+
+/** The error panel on a page of its own, where no app frame is around it: the root, the member layout, the public pages. */
+export function ErrorPage({ error }: { error: unknown }) {
+  return (
+    <main className="mx-auto max-w-xl p-6">
+      <ErrorPanel error={error} />
+    </main>
   );
 }

@@ -4,7 +4,6 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { requireArea } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/routebook/queries/home-summary";
 import { metalMarks } from "~/.server/visits/queries/metal-marks";
-import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
 import { MetalBadge } from "~/components/visit/metal-badge";
 import { formatCount, formatDate, formatMgL, isoWeekdayIn, weekdayName } from "~/lib/format";
@@ -150,6 +149,4 @@ export default function Home({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

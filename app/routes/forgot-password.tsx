@@ -2,7 +2,7 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { requestPasswordReset } from "~/.server/mail/reset-request";
 import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice, TextField } from "~/components/mail/public-card";
+import { primaryButton, PublicCard, PublicLink, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf } from "~/lib/account-forms";
 import type { Route } from "./+types/forgot-password";
 
@@ -57,6 +57,4 @@ export default function ForgotPassword({ actionData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

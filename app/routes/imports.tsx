@@ -5,7 +5,6 @@ import { requireArea } from "~/.server/guard";
 import { importHistory } from "~/.server/imports/check";
 import { undoBatch } from "~/.server/imports/commit";
 import { uploadsInProgress } from "~/.server/imports/uploads";
-import { ErrorPanel } from "~/components/error-panel";
 import { formatCount, formatDateTime } from "~/lib/format";
 import type { Route } from "./+types/imports";
 
@@ -135,6 +134,4 @@ export default function Imports({ loaderData, actionData }: Route.ComponentProps
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -3,7 +3,7 @@ import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { acceptInvitation, invitationByToken } from "~/.server/team/invitations";
 import { FormProblem } from "~/components/form-controls";
-import { NewPasswordFields, primaryButton, PublicCard, PublicErrorPage, PublicNotice, TextField } from "~/components/mail/public-card";
+import { NewPasswordFields, primaryButton, PublicCard, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/invite.$token";
@@ -84,6 +84,4 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

@@ -5,7 +5,6 @@ import { treatmentOutcomes } from "~/.server/analytics/queries/treatment-outcome
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { ReductionChart, TimeToClearChart, type ArmView } from "~/components/analytics/outcome-charts";
 import { CautionNote } from "~/components/caution-note";
-import { ErrorPanel } from "~/components/error-panel";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { ARM_LABELS } from "~/lib/analytics/labels";
 import { ARM_DIMENSIONS, outcomesQuery } from "~/lib/analytics/params";
@@ -162,6 +161,4 @@ export default function Outcomes({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

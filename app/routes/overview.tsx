@@ -7,7 +7,6 @@ import { sharedSourceAlertList } from "~/.server/analytics/queries/shared-source
 import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { BalanceChart, MetalTrendChart, OpenEpisodesChart } from "~/components/analytics/overview-charts";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
-import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { GROUPING_LABELS } from "~/lib/analytics/labels";
@@ -125,6 +124,4 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -6,7 +6,6 @@ import { sourceOptions } from "~/.server/routebook/queries/sources";
 import { refusedAnswer } from "~/.server/command-result";
 import { savePool } from "~/.server/routebook/commands/pools";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { PoolForm } from "~/components/routebook/pool-form";
 import { formObject } from "~/lib/forms/fields";
 import { parsePoolForm } from "~/lib/forms/routebook";
@@ -39,6 +38,4 @@ export default function NewPool({ loaderData, actionData }: Route.ComponentProps
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -4,7 +4,6 @@ import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/routebook/querie
 import { routeOptions } from "~/.server/routebook/queries/routes";
 import { sourceOptions } from "~/.server/routebook/queries/sources";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
 import { countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { filterOptions } from "~/lib/archived";
@@ -81,6 +80,4 @@ export default function Pools({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -4,7 +4,6 @@ import { productForEdit } from "~/.server/routebook/queries/products";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveProduct } from "~/.server/routebook/commands/products";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { ProductForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseProductForm } from "~/lib/forms/routebook";
@@ -39,6 +38,4 @@ export default function EditProduct({ loaderData, actionData }: Route.ComponentP
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -3,7 +3,6 @@ import { requireArea } from "~/.server/guard";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveProduct } from "~/.server/routebook/commands/products";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { ProductForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseProductForm } from "~/lib/forms/routebook";
@@ -34,6 +33,4 @@ export default function NewProduct({ actionData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

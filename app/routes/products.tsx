@@ -1,7 +1,6 @@
 import { requireArea } from "~/.server/guard";
 import { listProducts, PRODUCT_SORTS } from "~/.server/routebook/queries/products";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
 import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
@@ -67,6 +66,4 @@ export default function Products({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

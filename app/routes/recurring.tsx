@@ -7,7 +7,6 @@ import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { recurringReadings } from "~/.server/analytics/queries/recurring-pools";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
-import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
 import { analyticsQueries, loaderSearch, onlyOnNewPath } from "~/hooks/analytics-queries";
 import { recurringQuery, toSearch } from "~/lib/analytics/params";
@@ -199,6 +198,4 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

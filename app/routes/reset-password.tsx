@@ -3,7 +3,7 @@ import { data, Form, useNavigation } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { FormProblem } from "~/components/form-controls";
-import { NewPasswordFields, primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice } from "~/components/mail/public-card";
+import { NewPasswordFields, primaryButton, PublicCard, PublicLink, PublicNotice } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import type { Route } from "./+types/reset-password";
 
@@ -77,6 +77,4 @@ export default function ResetPassword({ loaderData, actionData }: Route.Componen
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

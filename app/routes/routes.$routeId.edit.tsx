@@ -4,7 +4,6 @@ import { companyTechnicians, routeForEdit } from "~/.server/routebook/queries/ro
 import { refusedAnswer } from "~/.server/command-result";
 import { saveRoute } from "~/.server/routebook/commands/routes";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { RouteForm } from "~/components/routebook/route-form";
 import { formObject } from "~/lib/forms/fields";
 import { parseRouteForm } from "~/lib/forms/routebook";
@@ -40,6 +39,4 @@ export default function EditRoute({ loaderData, actionData }: Route.ComponentPro
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

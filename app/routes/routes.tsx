@@ -2,7 +2,6 @@ import { Link } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { listRoutes, ROUTE_SORTS } from "~/.server/routebook/queries/routes";
 import { ButtonLink, type Column, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { weekdayList } from "~/lib/weekdays";
 import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
@@ -60,6 +59,4 @@ export default function Routes({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

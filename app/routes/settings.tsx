@@ -4,7 +4,6 @@ import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { updateCompanySettings } from "~/.server/settings/commands/update-company-settings";
 import { refusedAnswer } from "~/.server/command-result";
-import { ErrorPanel } from "~/components/error-panel";
 import { FormProblem, SelectField, SubmitButton, TextField } from "~/components/form-controls";
 import { formObject } from "~/lib/forms/fields";
 import { parseSettingsForm } from "~/lib/forms/settings";
@@ -103,6 +102,4 @@ export default function Settings({ loaderData, actionData }: Route.ComponentProp
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -4,7 +4,6 @@ import { sourceForEdit } from "~/.server/routebook/queries/sources";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveSource } from "~/.server/routebook/commands/sources";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { SourceForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseSourceForm } from "~/lib/forms/routebook";
@@ -39,6 +38,4 @@ export default function EditSource({ loaderData, actionData }: Route.ComponentPr
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

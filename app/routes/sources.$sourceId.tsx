@@ -5,7 +5,6 @@ import { sourceDetail } from "~/.server/routebook/queries/sources";
 import { refusedAnswer } from "~/.server/command-result";
 import { addSourceTest } from "~/.server/routebook/commands/sources";
 import { ButtonLink, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { SourceTestForm, SourceTestTable } from "~/components/routebook/source-tests";
 import { todayIn } from "~/lib/dates";
 import { formObject } from "~/lib/forms/fields";
@@ -75,6 +74,4 @@ export default function SourcePage({ loaderData, actionData }: Route.ComponentPr
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

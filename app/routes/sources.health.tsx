@@ -4,7 +4,6 @@ import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { sourceHealth, type PoolMetalState } from "~/.server/analytics/queries/source-health";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { SourceTestChart } from "~/components/analytics/source-test-chart";
-import { ErrorPanel } from "~/components/error-panel";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { sourceHealthQuery } from "~/lib/analytics/params";
 import { formatDate } from "~/lib/format";
@@ -140,6 +139,4 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -3,7 +3,6 @@ import { requireArea } from "~/.server/guard";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveSource } from "~/.server/routebook/commands/sources";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { SourceForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseSourceForm } from "~/lib/forms/routebook";
@@ -35,6 +34,4 @@ export default function NewSource({ actionData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,7 +1,6 @@
 import { requireArea } from "~/.server/guard";
 import { listSources, SOURCE_SORTS } from "~/.server/routebook/queries/sources";
 import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { options } from "~/components/form-controls";
 import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
 import { SOURCE_KINDS } from "~/lib/forms/routebook";
@@ -53,6 +52,4 @@ export default function Sources({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -5,7 +5,6 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { searchPools } from "~/.server/routebook/queries/pools";
 import { type MetalMark, metalMarks } from "~/.server/visits/queries/metal-marks";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { MetalBadge } from "~/components/visit/metal-badge";
 import { formatDate, isoWeekdayIn, weekdayName } from "~/lib/format";
 import type { Route } from "./+types/visit";
@@ -103,6 +102,4 @@ export default function VisitPicker({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,6 +1,5 @@
 import type { ReactNode } from "react";
 import { Link } from "react-router";
-import { ErrorPanel } from "~/components/error-panel";
 import { PatinaMark } from "~/components/patina-mark";
 
 /** The frame of the pages people reach from an e-mail link, before or without signing in. */
@@ -39,15 +38,6 @@ export function PublicNotice({ title, message, next }: { title: string; message:
         </p>
       ) : null}
     </PublicCard>
-  );
-}
-
-/** The error boundary of the public pages: no app frame around it. */
-export function PublicErrorPage({ error }: { error: unknown }) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
   );
 }
 
