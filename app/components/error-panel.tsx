@@ -1,4 +1,5 @@
-import { isRouteErrorResponse, Link } from "react-router";
+import { isRouteErrorResponse } from "react-router";
+import { TextLink } from "~/components/text-link";
 
 const headings: Record<number, string> = {
   401: "Please sign in",
@@ -26,9 +27,7 @@ export function ErrorPanel({ error }: { error: unknown }) {
       <h1 className="mt-1 text-xl font-semibold">{heading}</h1>
       <p className="mt-2 text-muted">{message}</p>
       <p className="mt-4">
-        <Link to="/" className="font-medium text-verdigris-700 underline">
-          Back to your home page
-        </Link>
+        <TextLink to="/">Back to your home page</TextLink>
       </p>
     </section>
   );

@@ -1,10 +1,11 @@
 import { useState } from "react";
-import { Link, useSearchParams } from "react-router";
+import { useSearchParams } from "react-router";
 import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { treatmentOutcomes } from "~/.server/analytics/queries/treatment-outcomes";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { ReductionChart, TimeToClearChart, type ArmView } from "~/components/analytics/outcome-charts";
 import { CautionNote } from "~/components/caution-note";
+import { TextLink } from "~/components/text-link";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { ARM_LABELS } from "~/lib/analytics/labels";
 import { ARM_DIMENSIONS, outcomesQuery } from "~/lib/analytics/params";
@@ -142,9 +143,7 @@ export default function Outcomes({ loaderData }: Route.ComponentProps) {
             <ul className="divide-y divide-line text-sm">
               {outcomes.escalation.map((e) => (
                 <li key={e.poolId} className="py-2">
-                  <Link to={`/pools/${e.poolId}`} className="font-medium text-verdigris-700 underline">
-                    {e.street}
-                  </Link>{" "}
+                  <TextLink to={`/pools/${e.poolId}`}>{e.street}</TextLink>{" "}
                   · {e.coursesWithoutClearing} courses without clearing since {formatDate(e.since, loaderData.timeZone)}
                 </li>
               ))}

@@ -1,6 +1,6 @@
 import type { ReactNode } from "react";
-import { Link } from "react-router";
 import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { TextLink } from "~/components/text-link";
 import { activeWanted, ARCHIVE_STATUS_OPTIONS, ARCHIVE_STATUSES } from "~/lib/archived";
 import { enumFilter, listParams, type ListParams } from "~/lib/list-params";
 
@@ -14,9 +14,7 @@ export function NameCell({ to, children }: { to: string | null; children: ReactN
   return to === null ? (
     <span className="font-medium">{children}</span>
   ) : (
-    <Link to={to} className="font-medium text-verdigris-700 underline">
-      {children}
-    </Link>
+    <TextLink to={to}>{children}</TextLink>
   );
 }
 
