@@ -2,7 +2,7 @@ import { redirect } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveSource } from "~/.server/routebook/commands/sources";
-import { PageHeader } from "~/components/data-table";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { SourceForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseSourceForm } from "~/lib/forms/routebook";
@@ -27,10 +27,9 @@ export async function action({ request, context }: Route.ActionArgs) {
 
 export default function NewSource({ actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title="New fill source" />
+    <EntryFormPage title="New fill source">
       <SourceForm source={null} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 

@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { Form } from "react-router";
+import { PageHeader } from "~/components/data-table";
 import { SaveFooter } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
 
@@ -13,5 +14,15 @@ export function EntryForm({ answer, save, wide = false, children }: { answer: En
       {children}
       <SaveFooter formError={answer?.formError}>{save}</SaveFooter>
     </Form>
+  );
+}
+
+/** The page of a new entry or of an entry's edit: its title above its form. */
+export function EntryFormPage({ title, children }: { title: string; children: ReactNode }) {
+  return (
+    <div>
+      <PageHeader title={title} />
+      {children}
+    </div>
   );
 }
