@@ -1,4 +1,4 @@
-import { isRouteErrorResponse } from "react-router";
+import { isRouteErrorResponse, useRouteError } from "react-router";
 import { TextLink } from "~/components/text-link";
 
 const headings: Record<number, string> = {
@@ -10,8 +10,11 @@ const headings: Record<number, string> = {
 /**
  * The one error display shared by every route's error boundary; a page inside
  * the app frame exports it as its own (`export { ErrorPanel as ErrorBoundary }`).
+ * It reads the error with `useRouteError`: the framework hands the error to a
+ * boundary as a prop only when the route module declares the boundary itself.
  */
-export function ErrorPanel({ error }: { error: unknown }) {
+export function ErrorPanel() {
+  const error = useRouteError();
   let status: number | undefined;
   let message = "Something went wrong on our side. Try again, and tell your administrator if it keeps happening.";
   if (isRouteErrorResponse(error)) {
@@ -34,10 +37,10 @@ export function ErrorPanel({ error }: { error: unknown }) {
 }
 
 /** The error panel on a page of its own, where no app frame is around it: the root, the member layout, the public pages. */
-export function ErrorPage({ error }: { error: unknown }) {
+export function ErrorPage() {
   return (
     <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
+      <ErrorPanel />
     </main>
   );
 }
