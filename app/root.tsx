@@ -13,7 +13,6 @@ import { bodyCheck } from "./.server/security/body-check";
 import { securityHeadersMiddleware } from "./.server/security/headers";
 import { originCheck } from "./.server/security/origin-check";
 import { faultMiddleware } from "./.server/service-unavailable";
-import { ErrorPanel } from "./components/error-panel";
 import { useNonce } from "./lib/nonce";
 
 // zod compiles fast parsers with `new Function` when it may; the Content-Security-Policy
@@ -64,10 +63,4 @@ export default function App() {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
-  );
-}
+export { ErrorPage as ErrorBoundary } from "./components/error-panel";

@@ -1,5 +1,6 @@
 import type { ReactNode } from "react";
 import { Form, Link, useSearchParams } from "react-router";
+import { OptionList } from "~/components/form-controls";
 import { PAGE_SIZE } from "~/lib/list-params";
 
 export type Column<Row> = {
@@ -175,12 +176,7 @@ export function FilterSelect({
         defaultValue={search.get(name) ?? ""}
         className="mt-1 block w-full rounded-lg border border-line bg-white px-3 py-2.5 text-base"
       >
-        {allLabel !== undefined ? <option value="">{allLabel}</option> : null}
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
+        <OptionList options={options} blank={allLabel} />
       </select>
     </label>
   );

@@ -1,4 +1,5 @@
-import { isRouteErrorResponse, Link } from "react-router";
+import { isRouteErrorResponse, useRouteError } from "react-router";
+import { TextLink } from "~/components/text-link";
 
 const headings: Record<number, string> = {
   401: "Please sign in",
@@ -6,8 +7,14 @@ const headings: Record<number, string> = {
   404: "Nothing here",
 };
 
-/** The one error display shared by every route's error boundary. */
-export function ErrorPanel({ error }: { error: unknown }) {
+/**
+ * The one error display shared by every route's error boundary; a page inside
+ * the app frame exports it as its own (`export { ErrorPanel as ErrorBoundary }`).
+ * It reads the error with `useRouteError`: the framework hands the error to a
+ * boundary as a prop only when the route module declares the boundary itself.
+ */
+export function ErrorPanel() {
+  const error = useRouteError();
   let status: number | undefined;
   let message = "Something went wrong on our side. Try again, and tell your administrator if it keeps happening.";
   if (isRouteErrorResponse(error)) {
@@ -23,10 +30,17 @@ export function ErrorPanel({ error }: { error: unknown }) {
       <h1 className="mt-1 text-xl font-semibold">{heading}</h1>
       <p className="mt-2 text-muted">{message}</p>
       <p className="mt-4">
-        <Link to="/" className="font-medium text-verdigris-700 underline">
-          Back to your home page
-        </Link>
+        <TextLink to="/">Back to your home page</TextLink>
       </p>
     </section>
+  );
+}
+
+/** The error panel on a page of its own, where no app frame is around it: the root, the member layout, the public pages. */
+export function ErrorPage() {
+  return (
+    <main className="mx-auto max-w-xl p-6">
+      <ErrorPanel />
+    </main>
   );
 }

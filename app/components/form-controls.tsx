@@ -1,4 +1,5 @@
 import type { ReactNode } from "react";
+import { useNavigation } from "react-router";
 import type { FieldErrors } from "~/lib/forms/fields";
 
 const inputClass =
@@ -15,9 +16,20 @@ function ErrorText({ name, errors }: { name: string; errors?: FieldErrors }) {
   ) : null;
 }
 
-function describedBy(name: string, errors?: FieldErrors, hint?: ReactNode) {
+/** A field's own props apart from those of its control. */
+function splitField<Rest>({ name, label, errors, hint, className, ...control }: Common & Rest): [Common, Omit<Rest, keyof Common>] {
+  return [{ name, label, errors, hint, className }, control];
+}
+
+/** What every control of a field carries: its name, its invalid state and the ids of its error and hint. */
+function controlProps({ name, errors, hint }: Common) {
   const ids = [errors?.[name] ? `${name}-error` : null, hint ? `${name}-hint` : null].filter(Boolean);
-  return ids.length > 0 ? ids.join(" ") : undefined;
+  return {
+    name,
+    "aria-invalid": Boolean(errors?.[name]),
+    "aria-describedby": ids.length > 0 ? ids.join(" ") : undefined,
+    className: inputClass,
+  };
 }
 
 /** The label around a control, with its hint and error below it. */
@@ -36,77 +48,38 @@ function Field({ name, label, errors, hint, className, children }: Common & { ch
   );
 }
 
-export function TextField({
-  name,
-  label,
-  errors,
-  hint,
-  className,
-  ...input
-}: Common & Omit<React.InputHTMLAttributes<HTMLInputElement>, "name">) {
+export function TextField(props: Common & Omit<React.InputHTMLAttributes<HTMLInputElement>, "name">) {
+  const [field, input] = splitField(props);
   return (
-    <Field name={name} label={label} errors={errors} hint={hint} className={className}>
-      <input
-        name={name}
-        aria-invalid={Boolean(errors?.[name])}
-        aria-describedby={describedBy(name, errors, hint)}
-        className={inputClass}
-        {...input}
-      />
+    <Field {...field}>
+      <input {...controlProps(field)} {...input} />
     </Field>
   );
 }
 
 export function SelectField({
-  name,
-  label,
-  errors,
-  hint,
-  className,
   options,
   placeholder,
-  ...select
+  ...props
 }: Common & {
   options: ReadonlyArray<{ value: string; label: string }>;
   placeholder?: string;
 } & Omit<React.SelectHTMLAttributes<HTMLSelectElement>, "name">) {
+  const [field, select] = splitField(props);
   return (
-    <Field name={name} label={label} errors={errors} hint={hint} className={className}>
-      <select
-        name={name}
-        aria-invalid={Boolean(errors?.[name])}
-        aria-describedby={describedBy(name, errors, hint)}
-        className={inputClass}
-        {...select}
-      >
-        {placeholder !== undefined ? <option value="">{placeholder}</option> : null}
-        {options.map((o) => (
-          <option key={o.value} value={o.value}>
-            {o.label}
-          </option>
-        ))}
+    <Field {...field}>
+      <select {...controlProps(field)} {...select}>
+        <OptionList options={options} blank={placeholder} />
       </select>
     </Field>
   );
 }
 
-export function TextAreaField({
-  name,
-  label,
-  errors,
-  className,
-  ...area
-}: Common & Omit<React.TextareaHTMLAttributes<HTMLTextAreaElement>, "name">) {
+export function TextAreaField(props: Common & Omit<React.TextareaHTMLAttributes<HTMLTextAreaElement>, "name">) {
+  const [field, area] = splitField(props);
   return (
-    <Field name={name} label={label} errors={errors} className={className}>
-      <textarea
-        name={name}
-        rows={3}
-        aria-invalid={Boolean(errors?.[name])}
-        aria-describedby={describedBy(name, errors)}
-        className={inputClass}
-        {...area}
-      />
+    <Field {...field}>
+      <textarea rows={3} {...controlProps(field)} {...area} />
     </Field>
   );
 }
@@ -163,15 +136,49 @@ export function FormProblem({ message }: { message: string | null | undefined })
   ) : null;
 }
 
-export function SubmitButton({ busy, children, busyText }: { busy: boolean; children: ReactNode; busyText: string }) {
+/** A form's submit button, disabled and saying `busyText` while the form is being sent. */
+export function SubmitButton({
+  busy,
+  children,
+  busyText,
+  className = "rounded-lg bg-verdigris-700 px-5 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60",
+}: {
+  busy: boolean;
+  children: ReactNode;
+  busyText: string;
+  className?: string;
+}) {
   return (
-    <button
-      type="submit"
-      disabled={busy}
-      className="rounded-lg bg-verdigris-700 px-5 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60"
-    >
+    <button type="submit" disabled={busy} className={className}>
       {busy ? busyText : children}
     </button>
+  );
+}
+
+/** The end of a form that saves: the form's problem, if any, then the save button, busy while the post runs. */
+export function SaveFooter({ formError, children }: { formError: string | null | undefined; children: ReactNode }) {
+  const busy = useNavigation().state === "submitting";
+  return (
+    <>
+      <FormProblem message={formError} />
+      <SubmitButton busy={busy} busyText="Saving…">
+        {children}
+      </SubmitButton>
+    </>
+  );
+}
+
+/** The options of a select, after a first empty-valued one (`blank`: "All …", "Choose…") when given. */
+export function OptionList({ options, blank }: { options: ReadonlyArray<{ value: string; label: string }>; blank?: string }) {
+  return (
+    <>
+      {blank !== undefined ? <option value="">{blank}</option> : null}
+      {options.map((o) => (
+        <option key={o.value} value={o.value}>
+          {o.label}
+        </option>
+      ))}
+    </>
   );
 }
 

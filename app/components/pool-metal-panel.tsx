@@ -1,9 +1,8 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
-import { METALS } from "@analysis/metals/reading";
+import { useMemo } from "react";
 import type { PoolEvidence } from "~/.server/analytics/queries/pool-evidence";
+import { metalColourScale, metalNames } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
-import { METAL_COLOURS } from "~/lib/analytics/colours";
 import { formatDate } from "~/lib/format";
 import { METAL_LABELS } from "@analysis/metals/names";
 
@@ -29,14 +28,12 @@ export function PoolMetalPanel({ evidence, timeZone }: { evidence: PoolEvidence;
       })),
     [evidence],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 160,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 90,
       x: { type: "utc", label: "Date" },
-      y: { label: null, domain: METALS.map((m) => METAL_LABELS[m]) },
-      color: { domain: METALS.map((m) => METAL_LABELS[m]), range: METALS.map((m) => METAL_COLOURS[m]), legend: true },
+      y: { label: null, domain: metalNames() },
+      color: metalColourScale(),
       marks: [
         Plot.barX(rows, {
           y: "label",
@@ -62,7 +59,7 @@ export function PoolMetalPanel({ evidence, timeZone }: { evidence: PoolEvidence;
       <PlotFigure
         title="Metal episodes on this pool (from opening to close)"
         caption="A bar runs from the reading that reached the elevated level to the first reading below the clear level; an open episode runs to the latest test."
-        build={build}
+        plot={plot}
         rows={rows}
         height={160}
         csvName={`metal-episodes-${evidence.poolId}.csv`}

@@ -4,9 +4,9 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { requireArea } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/routebook/queries/home-summary";
 import { metalMarks } from "~/.server/visits/queries/metal-marks";
-import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
 import { MetalBadge } from "~/components/visit/metal-badge";
+import { TextLink } from "~/components/text-link";
 import { formatCount, formatDate, formatMgL, isoWeekdayIn, weekdayName } from "~/lib/format";
 import { METAL_LABELS } from "@analysis/metals/names";
 import type { Route } from "./+types/_index";
@@ -126,9 +126,7 @@ export default function Home({ loaderData }: Route.ComponentProps) {
                 {summary.openCases.slice(0, 12).map((c) => (
                   <tr key={`${c.poolId}-${c.metal}`}>
                     <td className="px-4 py-2">
-                      <Link to={`/pools/${c.poolId}`} className="font-medium text-verdigris-700 underline">
-                        {c.street}
-                      </Link>
+                      <TextLink to={`/pools/${c.poolId}`}>{c.street}</TextLink>
                       <span className="block text-xs text-muted">{c.customerName}</span>
                     </td>
                     <td className="px-4 py-2">{METAL_LABELS[c.metal]}</td>
@@ -150,6 +148,4 @@ export default function Home({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

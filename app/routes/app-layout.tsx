@@ -1,6 +1,5 @@
 import { Form, Link, NavLink, Outlet, useLocation } from "react-router";
 import { memberMiddleware, requireArea } from "~/.server/guard";
-import { ErrorPanel } from "~/components/error-panel";
 import { PatinaMark } from "~/components/patina-mark";
 import { currentNavTarget } from "~/lib/nav";
 import { type Area, ROLE_LABELS, roleMayOpen } from "~/lib/roles";
@@ -130,10 +129,4 @@ export default function AppLayout({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
-  );
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

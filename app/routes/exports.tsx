@@ -1,6 +1,5 @@
 import { requireArea } from "~/.server/guard";
 import { DATASETS } from "~/.server/exports/datasets";
-import { ErrorPanel } from "~/components/error-panel";
 import type { Route } from "./+types/exports";
 
 export const meta: Route.MetaFunction = () => [{ title: "Exports · Patina" }];
@@ -58,6 +57,4 @@ export default function Exports({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,8 +1,8 @@
-import { data, Form, useNavigation } from "react-router";
+import { data } from "react-router";
 import { z } from "zod";
 import { requestPasswordReset } from "~/.server/mail/reset-request";
-import { FormProblem } from "~/components/form-controls";
-import { primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice, TextField } from "~/components/mail/public-card";
+import { PublicCard, PublicForm, PublicNotice, TextField } from "~/components/mail/public-card";
+import { TextLink } from "~/components/text-link";
 import { fieldErrorsOf } from "~/lib/account-forms";
 import type { Route } from "./+types/forgot-password";
 
@@ -29,34 +29,22 @@ export async function action({ request, context }: Route.ActionArgs) {
 }
 
 export default function ForgotPassword({ actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state !== "idle";
   if (actionData?.sent) {
-    return (
-      <PublicNotice
-        title="Check your e-mail"
-        message="If an account uses that address, a link to choose a new password is on its way. It works for one hour."
-        next={{ to: "/sign-in", label: "Back to sign-in" }}
-      />
-    );
+    const message = "If an account uses that address, a link to choose a new password is on its way. It works for one hour.";
+    return <PublicNotice title="Check your e-mail" message={message} next={{ to: "/sign-in", label: "Back to sign-in" }} />;
   }
   const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
   return (
     <PublicCard title="Forgot your password?">
       <p className="text-sm text-muted">Enter the address you sign in with; we e-mail you a link to choose a new password.</p>
-      <Form method="post" className="space-y-4" noValidate>
+      <PublicForm formError={actionData?.formError} submit="Send the link" busyText="Sending…">
         <TextField name="email" label="E-mail" type="email" autoComplete="username" error={fieldErrors.email} />
-        <FormProblem message={actionData?.formError} />
-        <button type="submit" disabled={busy} className={primaryButton}>
-          {busy ? "Sending…" : "Send the link"}
-        </button>
-      </Form>
+      </PublicForm>
       <p className="text-sm">
-        <PublicLink to="/sign-in">Back to sign-in</PublicLink>
+        <TextLink to="/sign-in">Back to sign-in</TextLink>
       </p>
     </PublicCard>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

@@ -6,7 +6,6 @@ import { commitUpload } from "~/.server/imports/commit";
 import type { PlanSummary } from "~/.server/imports/plan";
 import { DELIMITER_NAMES, type Delimiter } from "~/.server/imports/read-file";
 import { discardUpload, findUpload, uploadSample } from "~/.server/imports/uploads";
-import { ErrorPanel } from "~/components/error-panel";
 import { ProgressBar } from "~/components/imports/progress-bar";
 import { useUploadProgress } from "~/hooks/use-upload-progress";
 import { formatCount } from "~/lib/format";
@@ -386,6 +385,4 @@ export default function ImportCheck({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -2,7 +2,6 @@ import { useRef, useState } from "react";
 import { Link, useNavigate } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { importConfig } from "~/.server/imports/config";
-import { ErrorPanel } from "~/components/error-panel";
 import { ProgressBar } from "~/components/imports/progress-bar";
 import type { Route } from "./+types/imports.new";
 
@@ -114,6 +113,4 @@ export default function NewImport({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -5,7 +5,7 @@ import { requireArea } from "~/.server/guard";
 import { importHistory } from "~/.server/imports/check";
 import { undoBatch } from "~/.server/imports/commit";
 import { uploadsInProgress } from "~/.server/imports/uploads";
-import { ErrorPanel } from "~/components/error-panel";
+import { TextLink } from "~/components/text-link";
 import { formatCount, formatDateTime } from "~/lib/format";
 import type { Route } from "./+types/imports";
 
@@ -73,7 +73,7 @@ export default function Imports({ loaderData, actionData }: Route.ComponentProps
           <ul className="divide-y divide-line rounded-xl border border-line bg-white">
             {uploads.map((u) => (
               <li key={u.id} className="flex flex-wrap items-center justify-between gap-2 px-4 py-3">
-                <Link to={`/imports/${u.id}`} className="font-medium text-verdigris-700 underline">{u.fileName}</Link>
+                <TextLink to={`/imports/${u.id}`}>{u.fileName}</TextLink>
                 <span className="text-sm text-muted">
                   {PHASE_WORDS[u.phase] ?? u.phase} · {formatCount(u.rowsTotal ?? 0)} rows · {formatDateTime(u.createdAt, timeZone)}
                 </span>
@@ -135,6 +135,4 @@ export default function Imports({ loaderData, actionData }: Route.ComponentProps
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

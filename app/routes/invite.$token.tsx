@@ -1,9 +1,8 @@
-import { data, Form, redirect, useNavigation } from "react-router";
+import { data, redirect } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
 import { acceptInvitation, invitationByToken } from "~/.server/team/invitations";
-import { FormProblem } from "~/components/form-controls";
-import { NewPasswordFields, primaryButton, PublicCard, PublicErrorPage, PublicNotice, TextField } from "~/components/mail/public-card";
+import { NewPasswordFields, PublicCard, PublicForm, PublicNotice, TextField } from "~/components/mail/public-card";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import { ROLE_LABELS } from "~/lib/roles";
 import type { Route } from "./+types/invite.$token";
@@ -60,7 +59,6 @@ const closedMessages = {
 } as const;
 
 export default function Invite({ loaderData, actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state !== "idle";
   const { invitation } = loaderData;
   if (invitation.state !== "open") {
     return <PublicNotice title="Invitation" message={closedMessages[invitation.state]} next={{ to: "/sign-in", label: "Go to sign-in" }} />;
@@ -72,18 +70,12 @@ export default function Invite({ loaderData, actionData }: Route.ComponentProps)
         You are invited as <strong className="text-ink">{invitation.roleLabel.toLowerCase()}</strong> with the address{" "}
         <strong className="text-ink">{invitation.email}</strong>. Choose your name and a password.
       </p>
-      <Form method="post" className="space-y-4" noValidate>
+      <PublicForm formError={actionData?.formError} submit="Join and sign in" busyText="Creating your account…">
         <TextField name="name" label="Your name" autoComplete="name" error={fieldErrors.name} />
         <NewPasswordFields label="Password" errors={fieldErrors} />
-        <FormProblem message={actionData?.formError} />
-        <button type="submit" disabled={busy} className={primaryButton}>
-          {busy ? "Creating your account…" : "Join and sign in"}
-        </button>
-      </Form>
+      </PublicForm>
     </PublicCard>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

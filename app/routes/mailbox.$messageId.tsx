@@ -4,7 +4,6 @@ import { requireArea } from "~/.server/guard";
 import { plainId } from "~/lib/strict-params";
 import { outboxMessage } from "~/.server/mail/mailbox";
 import { retryMessage, signalMailQueued } from "~/.server/mail/outbox";
-import { ErrorPanel } from "~/components/error-panel";
 import { MailStatusBadge } from "~/components/mail/mail-status";
 import { formatDateTime } from "~/lib/format";
 import type { Route } from "./+types/mailbox.$messageId";
@@ -92,6 +91,4 @@ export default function MailboxMessage({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

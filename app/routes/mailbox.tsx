@@ -1,7 +1,6 @@
 import { Link } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { outboxMessages } from "~/.server/mail/mailbox";
-import { ErrorPanel } from "~/components/error-panel";
 import { MailStatusBadge } from "~/components/mail/mail-status";
 import { formatDateTime } from "~/lib/format";
 import type { Route } from "./+types/mailbox";
@@ -49,6 +48,4 @@ export default function Mailbox({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,11 +1,10 @@
 import { useState } from "react";
-import { Link, useSearchParams } from "react-router";
 import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { treatmentOutcomes } from "~/.server/analytics/queries/treatment-outcomes";
-import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
+import { FilterBar, FilterBarSelect, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { ReductionChart, TimeToClearChart, type ArmView } from "~/components/analytics/outcome-charts";
 import { CautionNote } from "~/components/caution-note";
-import { ErrorPanel } from "~/components/error-panel";
+import { TextLink } from "~/components/text-link";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { ARM_LABELS } from "~/lib/analytics/labels";
 import { ARM_DIMENSIONS, outcomesQuery } from "~/lib/analytics/params";
@@ -27,11 +26,12 @@ export async function loader({ request, context }: Route.LoaderArgs) {
 
 export const shouldRevalidate = onlyOnNewPath;
 
+const ARM_OPTIONS = ARM_DIMENSIONS.map((d) => ({ value: d, label: ARM_LABELS[d] }));
+
 const percent = (n: number | null) => (n === null ? "—" : `${n.toFixed(0)} %`);
 
 export default function Outcomes({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
-  const [search] = useSearchParams();
   const query = useSeededQuery(analyticsQueries.outcomes(params), { search: loaderData.search, data: loaderData.outcomes });
   const outcomes = query.data;
   const [stratum, setStratum] = useState<Stratum>("all");
@@ -49,20 +49,7 @@ export default function Outcomes({ loaderData }: Route.ComponentProps) {
         </p>
       </header>
       <FilterBar metal anyMetal={false}>
-        <label className="text-sm font-medium">
-          Compare by
-          <select
-            name="arm"
-            defaultValue={search.get("arm") ?? "product"}
-            className="mt-1 block w-full rounded-lg border border-line bg-white px-3 py-2 text-base"
-          >
-            {ARM_DIMENSIONS.map((d) => (
-              <option key={d} value={d}>
-                {ARM_LABELS[d]}
-              </option>
-            ))}
-          </select>
-        </label>
+        <FilterBarSelect name="arm" label="Compare by" options={ARM_OPTIONS} fallback="product" />
       </FilterBar>
       <fieldset className="flex flex-wrap gap-2">
         <legend className="sr-only">pH at treatment</legend>
@@ -143,9 +130,7 @@ export default function Outcomes({ loaderData }: Route.ComponentProps) {
             <ul className="divide-y divide-line text-sm">
               {outcomes.escalation.map((e) => (
                 <li key={e.poolId} className="py-2">
-                  <Link to={`/pools/${e.poolId}`} className="font-medium text-verdigris-700 underline">
-                    {e.street}
-                  </Link>{" "}
+                  <TextLink to={`/pools/${e.poolId}`}>{e.street}</TextLink>{" "}
                   · {e.coursesWithoutClearing} courses without clearing since {formatDate(e.since, loaderData.timeZone)}
                 </li>
               ))}
@@ -162,6 +147,4 @@ export default function Outcomes({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

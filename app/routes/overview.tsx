@@ -7,8 +7,8 @@ import { sharedSourceAlertList } from "~/.server/analytics/queries/shared-source
 import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { BalanceChart, MetalTrendChart, OpenEpisodesChart } from "~/components/analytics/overview-charts";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
-import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
+import { TextLink } from "~/components/text-link";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { GROUPING_LABELS } from "~/lib/analytics/labels";
 import { summaryQuery } from "~/lib/analytics/params";
@@ -91,9 +91,7 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
         {summary.riskyGroups.length > RISKY_SHOWN ? (
           <p className="mt-2 text-sm">
             and {summary.riskyGroups.length - RISKY_SHOWN} more: compare them on the{" "}
-            <Link to="/risk" className="font-medium text-verdigris-700 underline">
-              risk page
-            </Link>
+            <TextLink to="/risk">risk page</TextLink>
             .
           </p>
         ) : null}
@@ -108,9 +106,7 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
           <ul className="mt-2 divide-y divide-line">
             {alerts.alerts.slice(0, 6).map((a) => (
               <li key={`${a.fillSourceId}-${a.metal}-${a.firstOpeningAt}`} className="py-2 text-sm">
-                <Link to="/sources/health" className="font-medium text-verdigris-700 underline">
-                  {a.sourceName}
-                </Link>{" "}
+                <TextLink to="/sources/health">{a.sourceName}</TextLink>{" "}
                 · {METAL_LABELS[a.metal]} · {a.poolCount} of {a.activePools} pools between {formatDate(a.firstOpeningAt, timeZone)} and{" "}
                 {formatDate(a.lastOpeningAt, timeZone)}
               </li>
@@ -125,6 +121,4 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

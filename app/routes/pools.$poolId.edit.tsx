@@ -7,7 +7,6 @@ import { sourceOptions } from "~/.server/routebook/queries/sources";
 import type { ServiceRefusal } from "~/.server/command-result";
 import { fitEquipment, removeEquipment, savePool } from "~/.server/routebook/commands/pools";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { EquipmentPanel } from "~/components/routebook/equipment-panel";
 import { PoolForm } from "~/components/routebook/pool-form";
 import { todayIn } from "~/lib/dates";
@@ -81,6 +80,4 @@ export default function EditPool({ loaderData, actionData }: Route.ComponentProp
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

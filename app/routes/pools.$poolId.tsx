@@ -6,7 +6,6 @@ import { poolMetalPanel } from "~/.server/analytics/queries/pool-evidence";
 import { poolPage } from "~/.server/routebook/queries/pool-page";
 import { CautionNote } from "~/components/caution-note";
 import { BalanceHistoryChart, MetalHistoryChart, type MetalPoint } from "~/components/charts/metal-history-chart";
-import { ErrorPanel } from "~/components/error-panel";
 import { PoolMetalPanel } from "~/components/pool-metal-panel";
 import { ReadingTable } from "~/components/reading-table";
 import { equipmentAge } from "~/components/routebook/equipment-panel";
@@ -298,6 +297,4 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

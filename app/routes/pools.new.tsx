@@ -5,8 +5,7 @@ import { routeOptions } from "~/.server/routebook/queries/routes";
 import { sourceOptions } from "~/.server/routebook/queries/sources";
 import { refusedAnswer } from "~/.server/command-result";
 import { savePool } from "~/.server/routebook/commands/pools";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { PoolForm } from "~/components/routebook/pool-form";
 import { formObject } from "~/lib/forms/fields";
 import { parsePoolForm } from "~/lib/forms/routebook";
@@ -32,13 +31,10 @@ export async function action({ request, context }: Route.ActionArgs) {
 
 export default function NewPool({ loaderData, actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title="New pool" />
+    <EntryFormPage title="New pool">
       <PoolForm pool={null} units={loaderData.units} routes={loaderData.routes} sources={loaderData.sources} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -3,10 +3,9 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { listPools, POOL_SORTS, POOL_STATUSES } from "~/.server/routebook/queries/pools";
 import { routeOptions } from "~/.server/routebook/queries/routes";
 import { sourceOptions } from "~/.server/routebook/queries/sources";
-import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { type Column, FilterSelect } from "~/components/data-table";
 import { options } from "~/components/form-controls";
-import { countOf, ListTable, NameCell } from "~/components/routebook/list-table";
+import { ListPage, NameCell } from "~/components/routebook/list-table";
 import { filterOptions } from "~/lib/archived";
 import { formatDate } from "~/lib/format";
 import { SURFACES } from "~/lib/forms/routebook";
@@ -37,17 +36,18 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   return { ...list, params, routes, sources, units: prefs.units, timeZone: prefs.timeZone, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
 
+const POOL_STATUS_OPTIONS = [
+  { value: "active", label: "In service" },
+  { value: "archived", label: "Archived" },
+  { value: "all", label: "All" },
+];
+
 type Row = Route.ComponentProps["loaderData"]["rows"][number];
 
 export default function Pools({ loaderData }: Route.ComponentProps) {
-  const { rows, total, params, routes, sources, units, timeZone, mayEdit } = loaderData;
+  const { routes, sources, units, timeZone } = loaderData;
   const columns: Array<Column<Row>> = [
-    {
-      key: "street",
-      label: "Pool",
-      sortKey: "street",
-      cell: (r) => <NameCell to={`/pools/${r.id}`}>{r.street}</NameCell>,
-    },
+    { key: "street", label: "Pool", sortKey: "street", cell: (r) => <NameCell to={`/pools/${r.id}`}>{r.street}</NameCell> },
     { key: "account", label: "Account", sortKey: "account", wide: true, cell: (r) => r.accountCode },
     { key: "customer", label: "Customer", sortKey: "customer", cell: (r) => r.customerName },
     { key: "neighbourhood", label: "Neighbourhood", sortKey: "neighbourhood", wide: true, cell: (r) => r.neighbourhood ?? "—" },
@@ -58,29 +58,14 @@ export default function Pools({ loaderData }: Route.ComponentProps) {
     { key: "lastTest", label: "Last test", sortKey: "lastTest", cell: (r) => (r.active ? formatDate(r.lastTest, timeZone) : "archived") },
   ];
   return (
-    <div>
-      <PageHeader title="Pools" action={mayEdit ? <ButtonLink to="/pools/new">Add a pool</ButtonLink> : null}>
-        {countOf(total, "pool", "pools")}
-      </PageHeader>
-      <ListFilters searchLabel="Search address, customer or account">
-        <FilterSelect name="route" label="Route" allLabel="All routes" options={filterOptions(routes)} />
-        <FilterSelect name="source" label="Fill water" allLabel="All sources" options={filterOptions(sources)} />
-        <FilterSelect name="surface" label="Surface" allLabel="All surfaces" options={options(SURFACE_LABELS)} />
-        <FilterSelect
-          name="status"
-          label="Status"
-          options={[
-            { value: "active", label: "In service" },
-            { value: "archived", label: "Archived" },
-            { value: "all", label: "All" },
-          ]}
-        />
-      </ListFilters>
-      <ListTable caption="Pools" columns={columns} rows={rows} total={total} params={params} noun="pool" emptyText="No pools here yet." />
-    </div>
+    <ListPage title="Pools" nouns={["pool", "pools"]} add={{ to: "/pools/new", label: "Add a pool" }} list={loaderData} columns={columns}
+      searchLabel="Search address, customer or account" emptyText="No pools here yet.">
+      <FilterSelect name="route" label="Route" allLabel="All routes" options={filterOptions(routes)} />
+      <FilterSelect name="source" label="Fill water" allLabel="All sources" options={filterOptions(sources)} />
+      <FilterSelect name="surface" label="Surface" allLabel="All surfaces" options={options(SURFACE_LABELS)} />
+      <FilterSelect name="status" label="Status" options={POOL_STATUS_OPTIONS} />
+    </ListPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

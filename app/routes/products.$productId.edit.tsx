@@ -3,8 +3,7 @@ import { requireArea } from "~/.server/guard";
 import { productForEdit } from "~/.server/routebook/queries/products";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveProduct } from "~/.server/routebook/commands/products";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { ProductForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseProductForm } from "~/lib/forms/routebook";
@@ -32,13 +31,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 
 export default function EditProduct({ loaderData, actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title={`Product: ${loaderData.product.name}`} />
+    <EntryFormPage title={`Product: ${loaderData.product.name}`}>
       <ProductForm product={loaderData.product} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

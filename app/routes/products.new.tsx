@@ -2,8 +2,7 @@ import { redirect } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveProduct } from "~/.server/routebook/commands/products";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { ProductForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseProductForm } from "~/lib/forms/routebook";
@@ -27,13 +26,10 @@ export async function action({ request, context }: Route.ActionArgs) {
 
 export default function NewProduct({ actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title="New product" />
+    <EntryFormPage title="New product">
       <ProductForm product={null} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,15 +1,13 @@
 import { requireArea } from "~/.server/guard";
 import { listProducts, PRODUCT_SORTS } from "~/.server/routebook/queries/products";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
-import { ButtonLink, type Column, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { type Column, FilterSelect } from "~/components/data-table";
 import { options } from "~/components/form-controls";
-import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
-import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
+import { archiveColumn, ArchiveStatusFilter, archivableListQuery, ListPage, nameColumn } from "~/components/routebook/list-table";
 import { PRODUCT_CATEGORIES } from "~/lib/forms/routebook";
 import { DOSE_BASIS_LABELS, labelOf, PRODUCT_CATEGORY_LABELS } from "~/lib/labels";
 import { formatMoney } from "~/lib/format";
-import { enumFilter, listParams } from "~/lib/list-params";
+import { enumFilter } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/products";
 
@@ -17,11 +15,9 @@ export const meta: Route.MetaFunction = () => [{ title: "Products · Patina" }];
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebook");
-  const url = new URL(request.url);
-  const params = listParams(url, PRODUCT_SORTS, "name");
-  const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";
+  const { url, params, active } = archivableListQuery(request, PRODUCT_SORTS);
   const [list, prefs] = await Promise.all([
-    listProducts(scope, params, { category: enumFilter(url, "category", PRODUCT_CATEGORIES), active: activeWanted(status) }),
+    listProducts(scope, params, { category: enumFilter(url, "category", PRODUCT_CATEGORIES), active }),
     companyPreferences(scope),
   ]);
   return { ...list, params, currency: prefs.currency, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
@@ -30,14 +26,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
 type Row = Route.ComponentProps["loaderData"]["rows"][number];
 
 export default function Products({ loaderData }: Route.ComponentProps) {
-  const { rows, total, params, currency, mayEdit } = loaderData;
   const columns: Array<Column<Row>> = [
-    {
-      key: "name",
-      label: "Product",
-      sortKey: "name",
-      cell: (r) => <NameCell to={mayEdit ? `/products/${r.id}/edit` : null}>{r.name}</NameCell>,
-    },
+    nameColumn("Product", (r) => (loaderData.mayEdit ? `/products/${r.id}/edit` : null)),
     { key: "category", label: "Category", sortKey: "category", cell: (r) => labelOf(PRODUCT_CATEGORY_LABELS, r.category) },
     {
       key: "labelDose",
@@ -54,24 +44,17 @@ export default function Products({ loaderData }: Route.ComponentProps) {
       label: "Unit cost",
       sortKey: "unitCost",
       numeric: true,
-      cell: (r) => (r.unitCost === null ? "—" : `${formatMoney(r.unitCost, currency)} per ${r.doseUnit ?? "unit"}`),
+      cell: (r) => (r.unitCost === null ? "—" : `${formatMoney(r.unitCost, loaderData.currency)} per ${r.doseUnit ?? "unit"}`),
     },
     archiveColumn(),
   ];
   return (
-    <div>
-      <PageHeader title="Products" action={mayEdit ? <ButtonLink to="/products/new">Add a product</ButtonLink> : null}>
-        {countOf(total, "product", "products")}
-      </PageHeader>
-      <ListFilters searchLabel="Search product names">
-        <FilterSelect name="category" label="Category" allLabel="All categories" options={options(PRODUCT_CATEGORY_LABELS)} />
-        <ArchiveStatusFilter />
-      </ListFilters>
-      <ListTable caption="Products" columns={columns} rows={rows} total={total} params={params} noun="product" emptyText="No products here yet." />
-    </div>
+    <ListPage title="Products" nouns={["product", "products"]} add={{ to: "/products/new", label: "Add a product" }} list={loaderData} columns={columns}
+      searchLabel="Search product names" emptyText="No products here yet.">
+      <FilterSelect name="category" label="Category" allLabel="All categories" options={options(PRODUCT_CATEGORY_LABELS)} />
+      <ArchiveStatusFilter />
+    </ListPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,14 +1,13 @@
 import { useQuery } from "@tanstack/react-query";
 import { useEffect, useMemo, useState } from "react";
-import { Link } from "react-router";
 import type { MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { recurringReadings } from "~/.server/analytics/queries/recurring-pools";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
-import { ErrorPanel } from "~/components/error-panel";
 import { Stat } from "~/components/stat";
+import { TextLink } from "~/components/text-link";
 import { analyticsQueries, loaderSearch, onlyOnNewPath } from "~/hooks/analytics-queries";
 import { recurringQuery, toSearch } from "~/lib/analytics/params";
 import { decodeReadingColumns, decodeTreatmentColumns } from "~/lib/analytics/reading-columns";
@@ -179,9 +178,7 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
                 metals={data.metals}
               />
               <p className="text-sm">
-                <Link to={`/pools/${pool.poolId}`} className="font-medium text-verdigris-700 underline">
-                  Open {pool.street}
-                </Link>{" "}
+                <TextLink to={`/pools/${pool.poolId}`}>Open {pool.street}</TextLink>{" "}
                 <span className="text-muted">
                   · {pool.routeName ?? "no route"} · {pool.fillSourceName ?? "fill source not recorded"}
                 </span>
@@ -199,6 +196,4 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,9 +1,9 @@
 import { APIError } from "better-auth/api";
-import { data, Form, useNavigation } from "react-router";
+import { data } from "react-router";
 import { z } from "zod";
 import { auth } from "~/.server/auth";
-import { FormProblem } from "~/components/form-controls";
-import { NewPasswordFields, primaryButton, PublicCard, PublicErrorPage, PublicLink, PublicNotice } from "~/components/mail/public-card";
+import { NewPasswordFields, PublicCard, PublicForm, PublicNotice } from "~/components/mail/public-card";
+import { TextLink } from "~/components/text-link";
 import { fieldErrorsOf, newPasswordFields, passwordMismatch, passwordsMatch } from "~/lib/account-forms";
 import type { Route } from "./+types/reset-password";
 
@@ -38,45 +38,28 @@ export async function action({ request }: Route.ActionArgs) {
 }
 
 export default function ResetPassword({ loaderData, actionData }: Route.ComponentProps) {
-  const busy = useNavigation().state !== "idle";
   if (actionData?.done) {
-    return (
-      <PublicNotice
-        title="Password changed"
-        message="Your new password is set, and every earlier session is signed out."
-        next={{ to: "/sign-in", label: "Sign in" }}
-      />
-    );
+    const message = "Your new password is set, and every earlier session is signed out.";
+    return <PublicNotice title="Password changed" message={message} next={{ to: "/sign-in", label: "Sign in" }} />;
   }
   if (!loaderData.token) {
-    return (
-      <PublicNotice
-        title="Choose a new password"
-        message="This page needs the link from the e-mail."
-        next={{ to: "/forgot-password", label: "Ask for a new link" }}
-      />
-    );
+    const message = "This page needs the link from the e-mail.";
+    return <PublicNotice title="Choose a new password" message={message} next={{ to: "/forgot-password", label: "Ask for a new link" }} />;
   }
   const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
   return (
     <PublicCard title="Choose a new password">
-      <Form method="post" className="space-y-4" noValidate>
+      <PublicForm formError={actionData?.formError} submit="Save the new password" busyText="Saving…">
         <input type="hidden" name="token" value={loaderData.token} />
         <NewPasswordFields label="New password" errors={fieldErrors} />
-        <FormProblem message={actionData?.formError} />
-        <button type="submit" disabled={busy} className={primaryButton}>
-          {busy ? "Saving…" : "Save the new password"}
-        </button>
-      </Form>
+      </PublicForm>
       {actionData?.formError ? (
         <p className="text-sm">
-          <PublicLink to="/forgot-password">Ask for a new link</PublicLink>
+          <TextLink to="/forgot-password">Ask for a new link</TextLink>
         </p>
       ) : null}
     </PublicCard>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

@@ -4,7 +4,6 @@ import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { groupFigures } from "~/.server/analytics/queries/group-figures";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { GroupRateChart } from "~/components/analytics/group-chart";
-import { ErrorPanel } from "~/components/error-panel";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { GROUPING_LABELS } from "~/lib/analytics/labels";
 import { groupsQuery } from "~/lib/analytics/params";
@@ -81,6 +80,4 @@ export default function Risk({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -3,8 +3,7 @@ import { requireArea } from "~/.server/guard";
 import { companyTechnicians, routeForEdit } from "~/.server/routebook/queries/routes";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveRoute } from "~/.server/routebook/commands/routes";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { RouteForm } from "~/components/routebook/route-form";
 import { formObject } from "~/lib/forms/fields";
 import { parseRouteForm } from "~/lib/forms/routebook";
@@ -33,13 +32,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 
 export default function EditRoute({ loaderData, actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title={`Route: ${loaderData.route.name}`} />
+    <EntryFormPage title={`Route: ${loaderData.route.name}`}>
       <RouteForm route={loaderData.route} technicians={loaderData.technicians} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -3,8 +3,7 @@ import { requireArea } from "~/.server/guard";
 import { companyTechnicians } from "~/.server/routebook/queries/routes";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveRoute } from "~/.server/routebook/commands/routes";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { RouteForm } from "~/components/routebook/route-form";
 import { formObject } from "~/lib/forms/fields";
 import { parseRouteForm } from "~/lib/forms/routebook";
@@ -29,13 +28,10 @@ export async function action({ request, context }: Route.ActionArgs) {
 
 export default function NewRoute({ loaderData, actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title="New route" />
+    <EntryFormPage title="New route">
       <RouteForm route={null} technicians={loaderData.technicians} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

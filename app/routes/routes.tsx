@@ -1,12 +1,9 @@
 import { Link } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { listRoutes, ROUTE_SORTS } from "~/.server/routebook/queries/routes";
-import { ButtonLink, type Column, ListFilters, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
-import { archiveColumn, ArchiveStatusFilter, countOf, ListTable, NameCell } from "~/components/routebook/list-table";
+import type { Column } from "~/components/data-table";
+import { archiveColumn, ArchiveStatusFilter, archivableListQuery, ListPage, nameColumn } from "~/components/routebook/list-table";
 import { weekdayList } from "~/lib/weekdays";
-import { activeWanted, ARCHIVE_STATUSES } from "~/lib/archived";
-import { enumFilter, listParams } from "~/lib/list-params";
 import { roleMayOpen } from "~/lib/roles";
 import type { Route } from "./+types/routes";
 
@@ -14,24 +11,16 @@ export const meta: Route.MetaFunction = () => [{ title: "Routes · Patina" }];
 
 export async function loader({ request, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "routebook");
-  const url = new URL(request.url);
-  const params = listParams(url, ROUTE_SORTS, "name");
-  const status = enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active";
-  const list = await listRoutes(scope, params, { active: activeWanted(status) });
+  const { params, active } = archivableListQuery(request, ROUTE_SORTS);
+  const list = await listRoutes(scope, params, { active });
   return { ...list, params, mayEdit: roleMayOpen(scope.role, "routebookEdit") };
 }
 
 type Row = Route.ComponentProps["loaderData"]["rows"][number];
 
 export default function Routes({ loaderData }: Route.ComponentProps) {
-  const { rows, total, params, mayEdit } = loaderData;
   const columns: Array<Column<Row>> = [
-    {
-      key: "name",
-      label: "Route",
-      sortKey: "name",
-      cell: (r) => <NameCell to={mayEdit ? `/routes/${r.id}/edit` : null}>{r.name}</NameCell>,
-    },
+    nameColumn("Route", (r) => (loaderData.mayEdit ? `/routes/${r.id}/edit` : null)),
     { key: "weekdays", label: "Service days", sortKey: "weekdays", cell: (r) => weekdayList(r.serviceWeekdays) },
     { key: "technicians", label: "Technicians", cell: (r) => r.technicians ?? "nobody yet" },
     {
@@ -48,18 +37,11 @@ export default function Routes({ loaderData }: Route.ComponentProps) {
     archiveColumn(),
   ];
   return (
-    <div>
-      <PageHeader title="Routes" action={mayEdit ? <ButtonLink to="/routes/new">Add a route</ButtonLink> : null}>
-        {countOf(total, "route", "routes")}
-      </PageHeader>
-      <ListFilters searchLabel="Search route names">
-        <ArchiveStatusFilter />
-      </ListFilters>
-      <ListTable caption="Routes" columns={columns} rows={rows} total={total} params={params} noun="route" emptyText="No routes here yet." />
-    </div>
+    <ListPage title="Routes" nouns={["route", "routes"]} add={{ to: "/routes/new", label: "Add a route" }} list={loaderData} columns={columns}
+      searchLabel="Search route names" emptyText="No routes here yet.">
+      <ArchiveStatusFilter />
+    </ListPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,11 +1,10 @@
-import { Form, useNavigation } from "react-router";
+import { Form } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { updateCompanySettings } from "~/.server/settings/commands/update-company-settings";
 import { refusedAnswer } from "~/.server/command-result";
-import { ErrorPanel } from "~/components/error-panel";
-import { FormProblem, SelectField, SubmitButton, TextField } from "~/components/form-controls";
+import { SaveFooter, SelectField, TextField } from "~/components/form-controls";
 import { formObject } from "~/lib/forms/fields";
 import { parseSettingsForm } from "~/lib/forms/settings";
 import { METAL_LABELS } from "@analysis/metals/names";
@@ -43,7 +42,6 @@ export async function action({ request, context }: Route.ActionArgs) {
 
 export default function Settings({ loaderData, actionData }: Route.ComponentProps) {
   const { name, town, prefs, timeZones, currencies } = loaderData;
-  const busy = useNavigation().state === "submitting";
   const errors = actionData?.fieldErrors;
   return (
     <div className="max-w-2xl space-y-6">
@@ -102,15 +100,10 @@ export default function Settings({ loaderData, actionData }: Route.ComponentProp
             Settings saved.
           </p>
         ) : null}
-        <FormProblem message={actionData?.formError} />
-        <SubmitButton busy={busy} busyText="Saving…">
-          Save settings
-        </SubmitButton>
+        <SaveFooter formError={actionData?.formError}>Save settings</SaveFooter>
       </Form>
     </div>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,10 +1,10 @@
-import { data, Form, Link, redirect, useNavigation } from "react-router";
+import { data, Form, redirect } from "react-router";
 import { z } from "zod";
 import { currentUser } from "~/.server/guard";
 import { signInWithThrottle } from "~/.server/security/sign-in-throttle";
-import { FormProblem } from "~/components/form-controls";
-import { primaryButton, TextField } from "~/components/mail/public-card";
+import { PublicSubmit, TextField } from "~/components/mail/public-card";
 import { PatinaMark } from "~/components/patina-mark";
+import { TextLink } from "~/components/text-link";
 import { safeNext } from "~/lib/safe-next";
 import type { Route } from "./+types/sign-in";
 
@@ -45,8 +45,6 @@ export async function action({ request, context }: Route.ActionArgs) {
 }
 
 export default function SignIn({ loaderData, actionData }: Route.ComponentProps) {
-  const navigation = useNavigation();
-  const busy = navigation.state !== "idle";
   const fieldErrors: Record<string, string | undefined> = actionData?.fieldErrors ?? {};
   return (
     <main className="mx-auto flex min-h-dvh max-w-sm flex-col justify-center px-5 py-10">
@@ -62,14 +60,11 @@ export default function SignIn({ loaderData, actionData }: Route.ComponentProps)
         <input type="hidden" name="next" value={loaderData.next} />
         <TextField name="email" label="E-mail" type="email" autoComplete="username" error={fieldErrors.email} />
         <TextField name="password" label="Password" type="password" autoComplete="current-password" error={fieldErrors.password} />
-        <FormProblem message={actionData?.formError} />
-        <button type="submit" disabled={busy} className={primaryButton}>
-          {busy ? "Signing in…" : "Sign in"}
-        </button>
+        <PublicSubmit formError={actionData?.formError} busyText="Signing in…">
+          Sign in
+        </PublicSubmit>
         <p className="text-center text-sm">
-          <Link to="/forgot-password" className="font-medium text-verdigris-700 underline">
-            Forgot your password?
-          </Link>
+          <TextLink to="/forgot-password">Forgot your password?</TextLink>
         </p>
       </Form>
     </main>

@@ -3,8 +3,7 @@ import { requireArea } from "~/.server/guard";
 import { sourceForEdit } from "~/.server/routebook/queries/sources";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveSource } from "~/.server/routebook/commands/sources";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { SourceForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseSourceForm } from "~/lib/forms/routebook";
@@ -32,13 +31,10 @@ export async function action({ request, params, context }: Route.ActionArgs) {
 
 export default function EditSource({ loaderData, actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title={`Fill source: ${loaderData.source.name}`} />
+    <EntryFormPage title={`Fill source: ${loaderData.source.name}`}>
       <SourceForm source={loaderData.source} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

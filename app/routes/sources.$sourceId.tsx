@@ -1,12 +1,11 @@
-import { Link } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { sourceDetail } from "~/.server/routebook/queries/sources";
 import { refusedAnswer } from "~/.server/command-result";
 import { addSourceTest } from "~/.server/routebook/commands/sources";
 import { ButtonLink, PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { SourceTestForm, SourceTestTable } from "~/components/routebook/source-tests";
+import { TextLink } from "~/components/text-link";
 import { todayIn } from "~/lib/dates";
 import { formObject } from "~/lib/forms/fields";
 import { parseSourceTestForm } from "~/lib/forms/routebook";
@@ -59,9 +58,7 @@ export default function SourcePage({ loaderData, actionData }: Route.ComponentPr
           <ul className="divide-y divide-line rounded-xl border border-line bg-white text-sm">
             {pools.map((p) => (
               <li key={p.id} className="flex flex-wrap justify-between gap-2 px-4 py-2">
-                <Link to={`/pools/${p.id}`} className="font-medium text-verdigris-700 underline">
-                  {p.street}
-                </Link>
+                <TextLink to={`/pools/${p.id}`}>{p.street}</TextLink>
                 <span className="text-muted">
                   {p.accountCode} · {p.routeName ?? "no route"}
                   {p.active ? "" : " · archived"}
@@ -75,6 +72,4 @@ export default function SourcePage({ loaderData, actionData }: Route.ComponentPr
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

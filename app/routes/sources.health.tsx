@@ -1,10 +1,9 @@
-import { Link } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { sourceHealth, type PoolMetalState } from "~/.server/analytics/queries/source-health";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { SourceTestChart } from "~/components/analytics/source-test-chart";
-import { ErrorPanel } from "~/components/error-panel";
+import { TextLink } from "~/components/text-link";
 import { analyticsQueries, loaderSearch, onlyOnNewPath, useSeededQuery } from "~/hooks/analytics-queries";
 import { sourceHealthQuery } from "~/lib/analytics/params";
 import { formatDate } from "~/lib/format";
@@ -109,9 +108,7 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
                       {source.pools.map((p) => (
                         <tr key={p.poolId}>
                           <td className="py-1 pr-3">
-                            <Link to={`/pools/${p.poolId}`} className="font-medium text-verdigris-700 underline">
-                              {p.street}
-                            </Link>
+                            <TextLink to={`/pools/${p.poolId}`}>{p.street}</TextLink>
                             <span className="block text-xs text-muted">{p.routeName ?? "no route"}</span>
                           </td>
                           {METALS.map((m) => (
@@ -140,6 +137,4 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

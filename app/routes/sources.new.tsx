@@ -2,8 +2,7 @@ import { redirect } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { refusedAnswer } from "~/.server/command-result";
 import { saveSource } from "~/.server/routebook/commands/sources";
-import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
+import { EntryFormPage } from "~/components/routebook/entry-form";
 import { SourceForm } from "~/components/routebook/simple-forms";
 import { formObject } from "~/lib/forms/fields";
 import { parseSourceForm } from "~/lib/forms/routebook";
@@ -28,13 +27,10 @@ export async function action({ request, context }: Route.ActionArgs) {
 
 export default function NewSource({ actionData }: Route.ComponentProps) {
   return (
-    <div>
-      <PageHeader title="New fill source" />
+    <EntryFormPage title="New fill source">
       <SourceForm source={null} answer={actionData} />
-    </div>
+    </EntryFormPage>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

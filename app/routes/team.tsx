@@ -1,7 +1,6 @@
 import { requireArea } from "~/.server/guard";
 import { pendingInvitations } from "~/.server/team/invitations";
 import { companyMembers } from "~/.server/team/queries/members";
-import { ErrorPanel } from "~/components/error-panel";
 import { InvitePanel } from "~/components/mail/invite-panel";
 import { formatDate } from "~/lib/format";
 import { ROLE_LABELS } from "~/lib/roles";
@@ -38,6 +37,4 @@ export default function Team({ loaderData }: Route.ComponentProps) {
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

@@ -1,7 +1,7 @@
 import { data, Form } from "react-router";
 import { z } from "zod";
 import { unsubscribeFromDigest } from "~/.server/mail/preferences";
-import { primaryButton, PublicCard, PublicErrorPage, PublicNotice } from "~/components/mail/public-card";
+import { primaryButton, PublicCard, PublicNotice } from "~/components/mail/public-card";
 import type { Route } from "./+types/unsubscribe.$token";
 
 export const meta: Route.MetaFunction = () => [{ title: "Weekly digest · Patina" }];
@@ -53,6 +53,4 @@ export default function Unsubscribe({ loaderData, actionData }: Route.ComponentP
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <PublicErrorPage error={error} />;
-}
+export { ErrorPage as ErrorBoundary } from "~/components/error-panel";

@@ -5,7 +5,6 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { visitPool } from "~/.server/visits/queries/visit-pool";
 import type { ServiceRefusal } from "~/.server/command-result";
 import { logVisit } from "~/.server/visits/commands/save-visit";
-import { ErrorPanel } from "~/components/error-panel";
 import { VisitForm } from "~/components/visit/visit-form";
 import { formatDateTime } from "~/lib/format";
 import { formObject } from "~/lib/forms/fields";
@@ -87,6 +86,4 @@ export default function VisitPool({ loaderData, actionData }: Route.ComponentPro
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

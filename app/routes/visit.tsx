@@ -1,3 +1,4 @@
+import type { ReactNode } from "react";
 import { Form, Link } from "react-router";
 import { requireArea } from "~/.server/guard";
 import { stopsForWeekday } from "~/.server/routebook/queries/home-summary";
@@ -5,7 +6,6 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { searchPools } from "~/.server/routebook/queries/pools";
 import { type MetalMark, metalMarks } from "~/.server/visits/queries/metal-marks";
 import { PageHeader } from "~/components/data-table";
-import { ErrorPanel } from "~/components/error-panel";
 import { MetalBadge } from "~/components/visit/metal-badge";
 import { formatDate, isoWeekdayIn, weekdayName } from "~/lib/format";
 import type { Route } from "./+types/visit";
@@ -27,15 +27,23 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   return { weekday, stops, q, found, marks, timeZone: scope.timeZone };
 }
 
-function PoolChoice({ poolId, street, detail, mark }: { poolId: number; street: string; detail: string; mark: MetalMark | undefined }) {
+type PoolChoice = { poolId: number; street: string; detail: string };
+
+/** Pools to pick from, each a link to its visit form with its metal mark; `empty` says why there are none. */
+function PoolChoices({ pools, marks, empty }: { pools: PoolChoice[]; marks: Record<number, MetalMark>; empty: ReactNode }) {
+  if (pools.length === 0) return <p className="text-muted">{empty}</p>;
   return (
-    <li>
-      <Link to={`/visit/${poolId}`} className="block rounded-xl border border-line bg-white px-4 py-3 hover:bg-verdigris-50">
-        <span className="block font-medium">{street}</span>
-        <span className="block text-sm text-muted">{detail}</span>
-        <MetalBadge mark={mark} />
-      </Link>
-    </li>
+    <ul className="space-y-2">
+      {pools.map(({ poolId, street, detail }) => (
+        <li key={poolId}>
+          <Link to={`/visit/${poolId}`} className="block rounded-xl border border-line bg-white px-4 py-3 hover:bg-verdigris-50">
+            <span className="block font-medium">{street}</span>
+            <span className="block text-sm text-muted">{detail}</span>
+            <MetalBadge mark={marks[poolId]} />
+          </Link>
+        </li>
+      ))}
+    </ul>
   );
 }
 
@@ -62,47 +70,25 @@ export default function VisitPicker({ loaderData }: Route.ComponentProps) {
       {q ? (
         <section aria-labelledby="found">
           <h2 id="found" className="mb-2 font-semibold">Matching “{q}”</h2>
-          {found.length === 0 ? (
-            <p className="text-muted">No pool on your routes matches.</p>
-          ) : (
-            <ul className="space-y-2">
-              {found.map((p) => (
-                <PoolChoice
-                  key={p.poolId}
-                  poolId={p.poolId}
-                  street={p.street}
-                  detail={`${p.customerName} · ${p.accountCode} · ${p.routeName ?? "no route"}`}
-                  mark={marks[p.poolId]}
-                />
-              ))}
-            </ul>
-          )}
+          <PoolChoices
+            pools={found.map((p) => ({ ...p, detail: `${p.customerName} · ${p.accountCode} · ${p.routeName ?? "no route"}` }))}
+            marks={marks}
+            empty="No pool on your routes matches."
+          />
         </section>
       ) : null}
       <section aria-labelledby="today">
         <h2 id="today" className="mb-2 font-semibold">
           {weekdayName(weekday)}'s route: {stops.length} {stops.length === 1 ? "pool" : "pools"}
         </h2>
-        {stops.length === 0 ? (
-          <p className="text-muted">None of your routes is served on {weekdayName(weekday)}. Search for the pool instead.</p>
-        ) : (
-          <ul className="space-y-2">
-            {stops.map((s) => (
-              <PoolChoice
-                key={s.poolId}
-                poolId={s.poolId}
-                street={s.street}
-                detail={`${s.customerName} · ${s.routeName} · last visit ${formatDate(s.lastVisitAt, timeZone)}`}
-                mark={marks[s.poolId]}
-              />
-            ))}
-          </ul>
-        )}
+        <PoolChoices
+          pools={stops.map((s) => ({ ...s, detail: `${s.customerName} · ${s.routeName} · last visit ${formatDate(s.lastVisitAt, timeZone)}` }))}
+          marks={marks}
+          empty={<>None of your routes is served on {weekdayName(weekday)}. Search for the pool instead.</>}
+        />
       </section>
     </div>
   );
 }
 
-export function ErrorBoundary({ error }: Route.ErrorBoundaryProps) {
-  return <ErrorPanel error={error} />;
-}
+export { ErrorPanel as ErrorBoundary } from "~/components/error-panel";

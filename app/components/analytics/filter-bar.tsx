@@ -2,8 +2,10 @@ import type { ReactNode } from "react";
 import { Form, useSearchParams } from "react-router";
 import { METALS } from "@analysis/metals/reading";
 import { METAL_LABELS } from "@analysis/metals/names";
+import { OptionList } from "~/components/form-controls";
 
 const fieldClass = "mt-1 block w-full rounded-lg border border-line bg-white px-3 py-2 text-base";
+const METAL_OPTIONS = METALS.map((m) => ({ value: m, label: METAL_LABELS[m] }));
 
 /**
  * Date window (and metal) of an analytics page, kept in the URL so a view
@@ -34,24 +36,37 @@ export function FilterBar({ metal = false, anyMetal = true, children }: { metal?
         To
         <input type="date" name="to" defaultValue={search.get("to") ?? ""} className={fieldClass} />
       </label>
-      {metal ? (
-        <label className="text-sm font-medium">
-          Metal
-          <select name="metal" defaultValue={search.get("metal") ?? ""} className={fieldClass}>
-            {anyMetal ? <option value="">All metals</option> : null}
-            {METALS.map((m) => (
-              <option key={m} value={m}>
-                {METAL_LABELS[m]}
-              </option>
-            ))}
-          </select>
-        </label>
-      ) : null}
+      {metal ? <FilterBarSelect name="metal" label="Metal" options={METAL_OPTIONS} blank={anyMetal ? "All metals" : undefined} /> : null}
       {children}
       <button type="submit" className="col-span-2 rounded-lg bg-verdigris-700 px-4 py-2 font-medium text-white sm:col-span-1">
         Show
       </button>
     </Form>
+  );
+}
+
+/** A select of the filter bar, kept in the URL like the dates; `fallback` is chosen while the URL names none. */
+export function FilterBarSelect({
+  name,
+  label,
+  options,
+  blank,
+  fallback = "",
+}: {
+  name: string;
+  label: string;
+  options: ReadonlyArray<{ value: string; label: string }>;
+  blank?: string;
+  fallback?: string;
+}) {
+  const [search] = useSearchParams();
+  return (
+    <label className="text-sm font-medium">
+      {label}
+      <select name={name} defaultValue={search.get(name) ?? fallback} className={fieldClass}>
+        <OptionList options={options} blank={blank} />
+      </select>
+    </label>
   );
 }
 

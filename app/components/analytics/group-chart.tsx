@@ -1,9 +1,9 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
+import { useMemo } from "react";
 import type { GroupFigure } from "~/.server/analytics/queries/group-figures";
+import { labelledRows } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { FLAG_COLOURS } from "~/lib/analytics/colours";
-import { shortLabel } from "~/lib/analytics/labels";
 
 const FLAG_WORDS = { risky: "Risky", ordinary: "Not set apart", small: "Too small to judge" } as const;
 type Flag = keyof typeof FLAG_WORDS;
@@ -20,13 +20,11 @@ export function GroupRateChart({ groups, dimension, overallRate }: { groups: Gro
         .map((g) => ({ ...g, flag: FLAG_WORDS[flagOf(g)], rate: g.ratePerPoolYear.estimate!, lower: g.ratePerPoolYear.lower ?? 0, upper: g.ratePerPoolYear.upper ?? 0 })),
     [groups],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: Math.max(160, 36 * rows.length + 60),
-      marginLeft: Math.min(230, Math.max(...rows.map((r) => shortLabel(r.label).length), 8) * 6.5),
+  const layout = useMemo(() => labelledRows(rows.map((r) => r.label), { rowHeight: 36, minHeight: 160, maxMargin: 230 }), [rows]);
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
+      ...layout.options,
       x: { label: "Episode openings per pool-year", grid: true, zero: true },
-      y: { label: null, domain: rows.map((r) => r.label), tickFormat: shortLabel },
       color: {
         domain: Object.values(FLAG_WORDS),
         range: [FLAG_COLOURS.risky, FLAG_COLOURS.ordinary, FLAG_COLOURS.small],
@@ -49,15 +47,15 @@ export function GroupRateChart({ groups, dimension, overallRate }: { groups: Gro
         }),
       ],
     }),
-    [rows, overallRate],
+    [layout, rows, overallRate],
   );
   return (
     <PlotFigure
       title={`Metal episodes per pool-year, by ${dimension.toLowerCase()}`}
       caption="Dot: episode openings per pool-year observed; bar: exact 95% interval (Poisson). Dashed line: the whole route book's rate. Groups with fewer than 3 pools are shown but too small to judge."
-      build={build}
+      plot={plot}
       rows={rows}
-      height={Math.max(160, 36 * rows.length + 60)}
+      height={layout.height}
       csvName="group-comparison.csv"
       columns={[
         { label: "Group", value: (r) => r.label },

@@ -1,9 +1,9 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
+import { useMemo } from "react";
 import type { ArmFigures } from "~/.server/analytics/queries/treatment-outcomes";
+import { labelledRows } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { ARM_COLOURS } from "~/lib/analytics/colours";
-import { shortLabel } from "~/lib/analytics/labels";
 
 export type ArmView = ArmFigures & { label: string };
 
@@ -19,10 +19,8 @@ export function TimeToClearChart({ arms, followUpDays }: { arms: ArmView[]; foll
       ),
     [arms],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 300,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 48,
       x: { label: "Days after treatment", domain: [0, followUpDays], grid: true },
       y: { label: "Courses not yet clear (%)", domain: [0, 100], grid: true },
@@ -51,7 +49,7 @@ export function TimeToClearChart({ arms, followUpDays }: { arms: ArmView[]; foll
     <PlotFigure
       title="Time to clear: share of courses with the metal still above the clear level (%)"
       caption={`Kaplan-Meier estimate over ${followUpDays} days; courses are no longer followed at the end of the window, at the end of the data, or when a different treatment starts.`}
-      build={build}
+      plot={plot}
       rows={rows}
       height={300}
       csvName="time-to-clear.csv"
@@ -78,13 +76,11 @@ export function ReductionChart({ arms }: { arms: ArmView[] }) {
         .map((a) => ({ arm: a.label, median: a.reduction.median!, count: a.reduction.count, judged: a.tooFewToCompare ? "Too few to compare" : "Enough pools" })),
     [arms],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: Math.max(140, 34 * rows.length + 60),
-      marginLeft: Math.min(240, Math.max(...rows.map((r) => shortLabel(r.arm).length), 8) * 6.5),
+  const layout = useMemo(() => labelledRows(rows.map((r) => r.arm), { rowHeight: 34, minHeight: 140, maxMargin: 240 }), [rows]);
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
+      ...layout.options,
       x: { label: "Median fall at first follow-up (%)", grid: true },
-      y: { label: null, domain: rows.map((r) => r.arm), tickFormat: shortLabel },
       color: { domain: ["Enough pools", "Too few to compare"], range: ["#22604f", "#9aa5a5"], legend: true },
       marks: [
         Plot.barX(rows, {
@@ -97,15 +93,15 @@ export function ReductionChart({ arms }: { arms: ArmView[] }) {
         Plot.ruleX([0]),
       ],
     }),
-    [rows],
+    [layout, rows],
   );
   return (
     <PlotFigure
       title="Fall in the metal at the first follow-up, 3 to 10 days after treatment (median %)"
       caption="Percent fall from the baseline reading (same visit or the 7 days before). Grey bars: fewer than 5 treated pools, too few to compare."
-      build={build}
+      plot={plot}
       rows={rows}
-      height={Math.max(140, 34 * rows.length + 60)}
+      height={layout.height}
       csvName="reduction-at-follow-up.csv"
       columns={[
         { label: "Treatment", value: (r) => r.arm },

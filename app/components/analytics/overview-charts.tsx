@@ -1,29 +1,22 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
+import { useMemo } from "react";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import type { MonthlyMetalFigure } from "~/.server/analytics/queries/metal-trend";
 import type { RouteBookSummary } from "~/.server/analytics/queries/route-book-summary";
+import { metalColourScale, metalNames, metalSymbolScale } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
-import { BALANCE_COLOURS, METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
+import { BALANCE_COLOURS } from "~/lib/analytics/colours";
 import { METAL_LABELS } from "@analysis/metals/names";
-
-const metalScale = {
-  domain: METALS.map((m) => METAL_LABELS[m]),
-  range: METALS.map((m) => METAL_COLOURS[m]),
-};
-const symbolScale = { domain: METALS.map((m) => METAL_LABELS[m]), range: METALS.map((m) => METAL_SYMBOLS[m]) };
 
 export function OpenEpisodesChart({ open }: { open: Record<Metal, number> }) {
   const rows = useMemo(() => METALS.map((metal) => ({ metal: METAL_LABELS[metal], open: open[metal] })), [open]);
   const total = rows.reduce((sum, r) => sum + r.open, 0);
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 200,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 90,
       x: { label: "Pools with an open episode", grid: true, tickFormat: (d: number) => (Number.isInteger(d) ? String(d) : "") },
       y: { label: null },
-      color: { ...metalScale, legend: true },
+      color: metalColourScale(),
       marks: [
         Plot.barX(rows, { y: "metal", x: "open", fill: "metal", tip: true, title: (d: (typeof rows)[number]) => `${d.metal}: ${d.open} open` }),
         Plot.text(rows, { y: "metal", x: "open", text: (d: (typeof rows)[number]) => String(d.open), dx: 12 }),
@@ -36,7 +29,7 @@ export function OpenEpisodesChart({ open }: { open: Record<Metal, number> }) {
     <PlotFigure
       title="Open metal episodes, by metal (pools)"
       caption="An episode opens at a reading at or above the elevated level and stays open until a reading below the clear level."
-      build={build}
+      plot={plot}
       rows={total === 0 ? [] : rows}
       height={200}
       csvName="open-episodes.csv"
@@ -60,10 +53,8 @@ export function BalanceChart({ balance }: { balance: RouteBookSummary["balance"]
     [balance],
   );
   const total = rows.reduce((sum, r) => sum + r.pools, 0);
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 200,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 190,
       x: { label: "Share of pools (%)", domain: [0, 100], grid: true },
       y: { label: null },
@@ -85,7 +76,7 @@ export function BalanceChart({ balance }: { balance: RouteBookSummary["balance"]
     <PlotFigure
       title="Water balance at each pool's latest full test (saturation index, share of pools in %)"
       caption="Saturation index from pH, temperature, calcium hardness and alkalinity corrected for cyanuric acid; the balanced band is the company's setting (common practice)."
-      build={build}
+      plot={plot}
       rows={total === 0 ? [] : rows}
       height={200}
       csvName="water-balance.csv"
@@ -106,17 +97,15 @@ export function MetalTrendChart({ months, rule }: { months: MonthlyMetalFigure[]
     () => months.map((m) => ({ ...m, label: METAL_LABELS[m.metal], at: new Date(`${m.month}-01T00:00:00Z`) })),
     [months],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 420,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 52,
       marginRight: 84,
       x: { type: "utc", label: "Month" },
       y: { label: "mg/L", grid: true, zero: true },
-      fy: { label: null, domain: symbolScale.domain },
-      color: { ...metalScale, legend: true },
-      symbol: symbolScale,
+      fy: { label: null, domain: metalNames() },
+      color: metalColourScale(),
+      symbol: metalSymbolScale(),
       facet: { data: rows, y: "label" },
       marks: [
         Plot.areaY(rows, { x: "at", y1: "p25", y2: "p75", fy: "label", fill: "label", fillOpacity: 0.18, curve: "step" }),
@@ -140,7 +129,7 @@ export function MetalTrendChart({ months, rule }: { months: MonthlyMetalFigure[]
     <PlotFigure
       title="Monthly median of each metal across the route book (mg/L)"
       caption={`Line: median reading per month; shaded band: the middle half of readings (25th to 75th percentile). ${rule}`}
-      build={build}
+      plot={plot}
       rows={rows}
       height={420}
       csvName="metal-trend-by-month.csv"

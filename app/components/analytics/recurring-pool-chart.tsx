@@ -1,9 +1,9 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
+import { useMemo } from "react";
 import type { MetalTest } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { isoDay, metalColourScale, metalLevels, metalSymbolScale, readingText, readingTip } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
-import { METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
 import type { RecurringPool } from "@analysis/metals/recurring-finder";
 import { METAL_LABELS } from "@analysis/metals/names";
 
@@ -42,28 +42,19 @@ export function RecurringPoolChart({
         .map((e) => ({ ...e, label: METAL_LABELS[e.metal], from: new Date(e.openedAt), until: new Date(e.endAt) })),
     [pool, shown],
   );
-  const levels = useMemo(
-    () =>
-      shown.flatMap((metal) => [
-        { metal: METAL_LABELS[metal], level: thresholds[metal].elevated, kind: "elevated" },
-        { metal: METAL_LABELS[metal], level: thresholds[metal].clear, kind: "clear" },
-      ]),
-    [shown, thresholds],
-  );
-  const marks = useMemo(() => treatments.map((t) => ({ ...t, at: new Date(t.appliedAt) })), [treatments]);
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 220,
+  const plot = useMemo((): Plot.PlotOptions => {
+    const levels = metalLevels(shown, thresholds);
+    const marks = treatments.map((t) => ({ ...t, at: new Date(t.appliedAt) }));
+    return {
       marginLeft: 44,
       x: { type: "utc", label: "Date" },
       y: { label: "mg/L", grid: true, zero: true },
-      color: { domain: shown.map((m) => METAL_LABELS[m]), range: shown.map((m) => METAL_COLOURS[m]), legend: true },
-      symbol: { domain: shown.map((m) => METAL_LABELS[m]), range: shown.map((m) => METAL_SYMBOLS[m]) },
+      color: metalColourScale(shown),
+      symbol: metalSymbolScale(shown),
       marks: [
         Plot.rectX(episodes, { x1: "from", x2: "until", fill: "label", fillOpacity: 0.12 }),
-        Plot.ruleY(levels.filter((l) => l.kind === "elevated"), { y: "level", stroke: "metal", strokeDasharray: "6,3" }),
-        Plot.ruleY(levels.filter((l) => l.kind === "clear"), { y: "level", stroke: "metal", strokeDasharray: "2,3" }),
+        Plot.ruleY(levels.filter((l) => l.kind === "elevated"), { y: "level", stroke: "label", strokeDasharray: "6,3" }),
+        Plot.ruleY(levels.filter((l) => l.kind === "clear"), { y: "level", stroke: "label", strokeDasharray: "2,3" }),
         Plot.lineY(points, { x: "at", y: "value", z: "metal", stroke: "metal" }),
         Plot.dot(points, {
           x: "at",
@@ -73,7 +64,7 @@ export function RecurringPoolChart({
           fill: (d: Point) => (d.belowDetection ? "white" : d.metal),
           r: 3,
           tip: true,
-          title: (d: Point) => `${d.metal} ${d.belowDetection ? "<" : ""}${d.value} mg/L\n${d.at.toISOString().slice(0, 10)}`,
+          title: (d: Point) => readingTip(d.metal, d, isoDay(d.at)),
         }),
         Plot.tickX(marks, {
           x: "at",
@@ -84,9 +75,8 @@ export function RecurringPoolChart({
           title: (d: (typeof marks)[number]) => `${d.productName}\n${d.appliedAt.slice(0, 10)}`,
         }),
       ],
-    }),
-    [points, episodes, levels, marks, shown],
-  );
+    };
+  }, [points, episodes, treatments, thresholds, shown]);
   const summary = pool.metals
     .map((m) => `${METAL_LABELS[m.metal]}: ${m.openings} openings${m.recurrent ? ", recurring" : ""}${m.chronic ? ", chronic" : ""}`)
     .join("; ");
@@ -94,14 +84,14 @@ export function RecurringPoolChart({
     <PlotFigure
       title={`${pool.street}: metal readings (mg/L)`}
       caption={`${summary}. Shaded: open episodes; dashed: elevated level, dotted: clear level; green ticks at the foot: treatments.`}
-      build={build}
+      plot={plot}
       rows={points}
       height={220}
       csvName={`metal-readings-${pool.poolId}.csv`}
       columns={[
-        { label: "Date", value: (r) => r.at.toISOString().slice(0, 10) },
+        { label: "Date", value: (r) => isoDay(r.at) },
         { label: "Metal", value: (r) => r.metal },
-        { label: "mg/L", value: (r) => `${r.belowDetection ? "<" : ""}${r.value}` },
+        { label: "mg/L", value: readingText },
       ]}
       empty="No metal readings for this pool in the window."
     />

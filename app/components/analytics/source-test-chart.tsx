@@ -1,8 +1,8 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
+import { useMemo } from "react";
 import { METALS, type MetalReading } from "@analysis/metals/reading";
+import { metalColourScale, metalSymbolScale, readingText, readingTip } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
-import { METAL_COLOURS, METAL_SYMBOLS } from "~/lib/analytics/colours";
 import { METAL_LABELS } from "@analysis/metals/names";
 
 type SourceTest = { sampledOn: string; copper: MetalReading | null; iron: MetalReading | null; manganese: MetalReading | null };
@@ -19,26 +19,16 @@ export function SourceTestChart({ name, tests }: { name: string; tests: readonly
       ),
     [tests],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 200,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 44,
       x: { type: "utc", label: "Sampled on" },
       y: { label: "mg/L", grid: true, zero: true },
-      color: { domain: METALS.map((m) => METAL_LABELS[m]), range: METALS.map((m) => METAL_COLOURS[m]), legend: true },
-      symbol: { domain: METALS.map((m) => METAL_LABELS[m]), range: METALS.map((m) => METAL_SYMBOLS[m]) },
+      color: metalColourScale(),
+      symbol: metalSymbolScale(),
       marks: [
         Plot.lineY(rows, { x: "at", y: "value", z: "metal", stroke: "metal" }),
-        Plot.dot(rows, {
-          x: "at",
-          y: "value",
-          stroke: "metal",
-          symbol: "metal",
-          r: 3.5,
-          tip: true,
-          title: (d: (typeof rows)[number]) => `${d.metal} ${d.belowDetection ? "<" : ""}${d.value} mg/L\n${d.day}`,
-        }),
+        Plot.dot(rows, { x: "at", y: "value", stroke: "metal", symbol: "metal", r: 3.5, tip: true, title: (d: (typeof rows)[number]) => readingTip(d.metal, d, d.day) }),
       ],
     }),
     [rows],
@@ -47,14 +37,14 @@ export function SourceTestChart({ name, tests }: { name: string; tests: readonly
     <PlotFigure
       title={`Metals in the fill water of ${name} (mg/L)`}
       caption="Each point is a test of the source water itself; hollow points read below the kit's detection limit."
-      build={build}
+      plot={plot}
       rows={rows}
       height={200}
       csvName="fill-water-tests.csv"
       columns={[
         { label: "Sampled on", value: (r) => r.day },
         { label: "Metal", value: (r) => r.metal },
-        { label: "mg/L", value: (r) => `${r.belowDetection ? "<" : ""}${r.value}` },
+        { label: "mg/L", value: readingText },
       ]}
       empty="This source's water has not been tested for metals. A fill-water test would show whether it brings metals in."
     />

@@ -1,34 +1,26 @@
 import * as Plot from "@observablehq/plot";
-import { useCallback, useMemo } from "react";
-import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { useMemo } from "react";
+import { type Metal, type MetalThresholds, METALS } from "@analysis/metals/reading";
 import { METAL_LABELS } from "@analysis/metals/names";
+import { isoDay, metalLevels, metalNames, readingText, readingTip } from "./chart-parts";
 import { PlotFigure } from "./plot-figure";
 
 export type MetalPoint = { at: Date; metal: Metal; value: number; belowDetection: boolean };
 
 /** Copper, iron and manganese over time, one panel each, with the company's elevated and clear levels drawn. */
 export function MetalHistoryChart({ points, thresholds }: { points: MetalPoint[]; thresholds: MetalThresholds }) {
-  const rows = useMemo(() => points.map((p) => ({ ...p, label: METAL_LABELS[p.metal] })), [points]);
-  const levels = useMemo(
-    () =>
-      (Object.keys(METAL_LABELS) as Metal[]).flatMap((metal) => [
-        { label: METAL_LABELS[metal], level: thresholds[metal].elevated, kind: "elevated" },
-        { label: METAL_LABELS[metal], level: thresholds[metal].clear, kind: "clear" },
-      ]),
-    [thresholds],
-  );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 330,
+  const plot = useMemo((): Plot.PlotOptions => {
+    const rows = points.map((p) => ({ ...p, label: METAL_LABELS[p.metal] }));
+    const levelStroke = (d: { kind: string }) => (d.kind === "elevated" ? "#b3541e" : "#2f6fa7");
+    return {
       marginLeft: 48,
       x: { type: "utc", label: null },
       y: { label: "mg/L", grid: true, zero: true },
-      fy: { label: null, domain: ["Copper", "Iron", "Manganese"] },
+      fy: { label: null, domain: metalNames() },
       facet: { data: rows, y: "label" },
       color: { legend: false },
       marks: [
-        Plot.ruleY(levels, { fy: "label", y: "level", stroke: (d: { kind: string }) => (d.kind === "elevated" ? "#b3541e" : "#2f6fa7"), strokeDasharray: "4,3" }),
+        Plot.ruleY(metalLevels(METALS, thresholds), { fy: "label", y: "level", stroke: levelStroke, strokeDasharray: "4,3" }),
         Plot.lineY(rows, { x: "at", y: "value", fy: "label", stroke: "#22604f", curve: "monotone-x" }),
         Plot.dot(rows, {
           x: "at",
@@ -38,23 +30,22 @@ export function MetalHistoryChart({ points, thresholds }: { points: MetalPoint[]
           fill: (d: { belowDetection: boolean }) => (d.belowDetection ? "white" : "#22604f"),
           stroke: "#22604f",
           tip: true,
-          title: (d: (typeof rows)[number]) => `${d.label} ${d.belowDetection ? "<" : ""}${d.value} mg/L\n${d.at.toISOString().slice(0, 10)}`,
+          title: (d: (typeof rows)[number]) => readingTip(d.label, d, isoDay(d.at)),
         }),
       ],
-    }),
-    [rows, levels],
-  );
+    };
+  }, [points, thresholds]);
   return (
     <PlotFigure
       title="Dissolved metals at each test (mg/L)"
       caption="Dashed lines: orange at the company's elevated level, blue at its clear level. Hollow dots are below the kit's detection limit."
-      build={build}
-      rows={rows}
+      plot={plot}
+      rows={points}
       height={330}
       columns={[
-        { label: "Date", value: (r) => r.at.toISOString().slice(0, 10) },
-        { label: "Metal", value: (r) => r.label },
-        { label: "mg/L", value: (r) => `${r.belowDetection ? "<" : ""}${r.value}` },
+        { label: "Date", value: (r) => isoDay(r.at) },
+        { label: "Metal", value: (r) => METAL_LABELS[r.metal] },
+        { label: "mg/L", value: readingText },
       ]}
       empty="No metal readings on this pool yet. Metals appear here once a visit logs copper, iron or manganese."
     />
@@ -73,23 +64,15 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
       ]),
     [points],
   );
-  const build = useCallback(
-    (width: number): Plot.PlotOptions => ({
-      width,
-      height: 300,
+  const plot = useMemo(
+    (): Plot.PlotOptions => ({
       marginLeft: 48,
       x: { type: "utc", label: null },
       y: { label: null, grid: true },
       fy: { label: null, domain: ["pH", "Saturation index"] },
       facet: { data: rows, y: "series" },
       marks: [
-        Plot.rectY([{ series: "Saturation index", y1: band.low, y2: band.high }], {
-          fy: "series",
-          y1: "y1",
-          y2: "y2",
-          fill: "#d3ebe3",
-          fillOpacity: 0.6,
-        }),
+        Plot.rectY([{ series: "Saturation index", y1: band.low, y2: band.high }], { fy: "series", y1: "y1", y2: "y2", fill: "#d3ebe3", fillOpacity: 0.6 }),
         Plot.lineY(rows, { x: "at", y: "value", fy: "series", stroke: "#1d2a2b" }),
         Plot.dot(rows, { x: "at", y: "value", fy: "series", r: 2.5, fill: "#1d2a2b", tip: true }),
       ],
@@ -100,11 +83,11 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
     <PlotFigure
       title="pH and saturation index at each test"
       caption={`Shaded: balanced (${band.low} to +${band.high}); below is corrosive, above is scale-forming.`}
-      build={build}
+      plot={plot}
       rows={rows}
       height={300}
       columns={[
-        { label: "Date", value: (r) => r.at.toISOString().slice(0, 10) },
+        { label: "Date", value: (r) => isoDay(r.at) },
         { label: "Series", value: (r) => r.series },
         { label: "Value", value: (r) => r.value.toFixed(2) },
       ]}

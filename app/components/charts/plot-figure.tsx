@@ -1,19 +1,21 @@
 import type { PlotOptions } from "@observablehq/plot";
 import { type ReactNode, useEffect, useRef, useState } from "react";
+import { TableHead } from "~/components/reading-table";
 import { displayTableCsv } from "~/lib/csv";
 
 export type TableColumn<Row> = { label: string; value: (row: Row) => string };
 
 /**
- * The one home of Observable Plot in Patina. The caller builds Plot options
- * from the available width; this component draws them after hydration,
- * redraws on resize, removes the old drawing on every change, and offers the
- * same data as a table for screen readers and for reading exact values.
+ * The one home of Observable Plot in Patina. The caller gives Plot options
+ * (memoized, without width and height: this component sets them); this
+ * component draws them after hydration at the available width, redraws on
+ * resize, removes the old drawing on every change, and offers the same data
+ * as a table for screen readers and for reading exact values.
  */
 export function PlotFigure<Row>({
   title,
   caption,
-  build,
+  plot,
   rows,
   columns,
   empty,
@@ -23,7 +25,8 @@ export function PlotFigure<Row>({
   /** Plain-language title, with units. */
   title: string;
   caption?: ReactNode;
-  build: (width: number) => PlotOptions;
+  /** Memoized by the caller: every new object redraws the chart. */
+  plot: PlotOptions;
   /** The rows behind the chart, shown in the table view. */
   rows: readonly Row[];
   columns: ReadonlyArray<TableColumn<Row>>;
@@ -55,14 +58,14 @@ export function PlotFigure<Row>({
     // Loaded in the browser only: Plot needs a document, and pages without charts stay light.
     void import("@observablehq/plot").then((Plot) => {
       if (cancelled) return;
-      drawn = Plot.plot({ height, ...build(width), width });
+      drawn = Plot.plot({ ...plot, height, width });
       element.append(drawn);
     });
     return () => {
       cancelled = true;
       drawn?.remove();
     };
-  }, [build, width, rows, height]);
+  }, [plot, width, rows, height]);
 
   return (
     <figure className="rounded-xl border border-line bg-white p-4">
@@ -95,16 +98,7 @@ export function PlotFigure<Row>({
           {showTable ? (
             <div className="mt-2 max-h-80 overflow-auto">
               <table className="w-full text-left text-sm tabular-nums">
-                <caption className="sr-only">{title}</caption>
-                <thead className="text-muted">
-                  <tr>
-                    {columns.map((c) => (
-                      <th key={c.label} scope="col" className="px-2 py-1 font-medium">
-                        {c.label}
-                      </th>
-                    ))}
-                  </tr>
-                </thead>
+                <TableHead caption={title} headings={columns.map((c) => c.label)} className="text-muted" cellClassName="px-2 py-1 font-medium" />
                 <tbody className="divide-y divide-line">
                   {rows.map((row, i) => (
                     <tr key={i}>

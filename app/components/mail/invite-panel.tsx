@@ -1,9 +1,12 @@
 import { useEffect, useRef } from "react";
 import { useFetcher } from "react-router";
+import { OptionList, SubmitButton } from "~/components/form-controls";
 import { formatDate } from "~/lib/format";
 import { ROLE_LABELS, ROLE_NAMES, type RoleName } from "~/lib/roles";
 
 type Pending = { id: number; email: string; role: RoleName; expiresAt: Date | string };
+const ROLE_OPTIONS = ROLE_NAMES.map((role) => ({ value: role, label: ROLE_LABELS[role] }));
+
 type InviteAnswer = { ok: boolean; fieldErrors: Record<string, string>; invited?: string | null };
 
 /** The owner's form for inviting people by e-mail, and the invitations still open. */
@@ -37,20 +40,12 @@ export function InvitePanel({ pending, timeZone }: { pending: Pending[]; timeZon
         <label className="block">
           <span className="text-sm font-medium">Role</span>
           <select name="role" defaultValue="technician" className="mt-1 block w-full rounded-lg border border-line bg-white px-3 py-3 text-base">
-            {ROLE_NAMES.map((role) => (
-              <option key={role} value={role}>
-                {ROLE_LABELS[role]}
-              </option>
-            ))}
+            <OptionList options={ROLE_OPTIONS} />
           </select>
         </label>
-        <button
-          type="submit"
-          disabled={busy}
-          className="rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60"
-        >
-          {busy ? "Sending…" : "Send invitation"}
-        </button>
+        <SubmitButton busy={busy} busyText="Sending…" className="rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60">
+          Send invitation
+        </SubmitButton>
       </invite.Form>
       {errors.email || errors.role ? (
         <p id="invite-email-error" role="alert" className="text-sm text-alert">

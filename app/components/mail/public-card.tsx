@@ -1,7 +1,8 @@
 import type { ReactNode } from "react";
-import { Link } from "react-router";
-import { ErrorPanel } from "~/components/error-panel";
+import { Form, useNavigation } from "react-router";
+import { FormProblem, SubmitButton } from "~/components/form-controls";
 import { PatinaMark } from "~/components/patina-mark";
+import { TextLink } from "~/components/text-link";
 
 /** The frame of the pages people reach from an e-mail link, before or without signing in. */
 export function PublicCard({ title, children }: { title: string; children: ReactNode }) {
@@ -19,15 +20,6 @@ export function PublicCard({ title, children }: { title: string; children: React
   );
 }
 
-/** A link on a public page: where to go next. */
-export function PublicLink({ to, children }: { to: string; children: ReactNode }) {
-  return (
-    <Link to={to} className="font-medium text-verdigris-700 underline">
-      {children}
-    </Link>
-  );
-}
-
 /** A public page that only tells how things stand (sent, done, closed) and where to go next. */
 export function PublicNotice({ title, message, next }: { title: string; message: ReactNode; next?: { to: string; label: string } }) {
   return (
@@ -35,19 +27,10 @@ export function PublicNotice({ title, message, next }: { title: string; message:
       <p>{message}</p>
       {next ? (
         <p>
-          <PublicLink to={next.to}>{next.label}</PublicLink>
+          <TextLink to={next.to}>{next.label}</TextLink>
         </p>
       ) : null}
     </PublicCard>
-  );
-}
-
-/** The error boundary of the public pages: no app frame around it. */
-export function PublicErrorPage({ error }: { error: unknown }) {
-  return (
-    <main className="mx-auto max-w-xl p-6">
-      <ErrorPanel error={error} />
-    </main>
   );
 }
 
@@ -107,3 +90,28 @@ export function NewPasswordFields({ label, errors }: { label: string; errors: Re
 
 export const primaryButton =
   "w-full rounded-lg bg-verdigris-700 px-4 py-3 font-semibold text-white hover:bg-verdigris-900 disabled:opacity-60";
+
+/** The end of a public form: its problem, if any, then the full-width submit button, saying `busyText` while the post runs. */
+export function PublicSubmit({ formError, busyText, children }: { formError: string | null | undefined; busyText: string; children: ReactNode }) {
+  const busy = useNavigation().state !== "idle";
+  return (
+    <>
+      <FormProblem message={formError} />
+      <SubmitButton busy={busy} busyText={busyText} className={primaryButton}>
+        {children}
+      </SubmitButton>
+    </>
+  );
+}
+
+/** A public page's form: posted to the page's action, its fields (`children`), then `PublicSubmit`. */
+export function PublicForm({ formError, submit, busyText, children }: { formError: string | null | undefined; submit: string; busyText: string; children: ReactNode }) {
+  return (
+    <Form method="post" className="space-y-4" noValidate>
+      {children}
+      <PublicSubmit formError={formError} busyText={busyText}>
+        {submit}
+      </PublicSubmit>
+    </Form>
+  );
+}

@@ -1,11 +1,11 @@
 import type { ReactNode } from "react";
-import { Link } from "react-router";
-import { type Column, DataTable, FilterSelect } from "~/components/data-table";
-import { ARCHIVE_STATUS_OPTIONS } from "~/lib/archived";
-import type { ListParams } from "~/lib/list-params";
+import { ButtonLink, type Column, DataTable, FilterSelect, ListFilters, PageHeader } from "~/components/data-table";
+import { TextLink } from "~/components/text-link";
+import { activeWanted, ARCHIVE_STATUS_OPTIONS, ARCHIVE_STATUSES } from "~/lib/archived";
+import { enumFilter, listParams, type ListParams } from "~/lib/list-params";
 
 /** "1 pool", "12 pools". */
-export function countOf(total: number, one: string, many: string): string {
+function countOf(total: number, one: string, many: string): string {
   return `${total} ${total === 1 ? one : many}`;
 }
 
@@ -14,10 +14,13 @@ export function NameCell({ to, children }: { to: string | null; children: ReactN
   return to === null ? (
     <span className="font-medium">{children}</span>
   ) : (
-    <Link to={to} className="font-medium text-verdigris-700 underline">
-      {children}
-    </Link>
+    <TextLink to={to}>{children}</TextLink>
   );
+}
+
+/** The name column of a list: sorted by name, each name linking to `href` (plain text where it gives null). */
+export function nameColumn<Row extends { id: number; name: string }>(label: string, href: (row: Row) => string | null): Column<Row> {
+  return { key: "name", label, sortKey: "name", cell: (r) => <NameCell to={href(r)}>{r.name}</NameCell> };
 }
 
 /** The "In use" / "Archived" column of lists whose entries are archived, never deleted. */
@@ -30,10 +33,64 @@ export function ArchiveStatusFilter() {
 }
 
 /**
+ * What a list of archivable entries (routes, fill sources, products) reads
+ * from its URL: sorting by name unless asked otherwise, paging, and the
+ * status of `ArchiveStatusFilter` (entries in use unless the URL says otherwise).
+ */
+export function archivableListQuery<const K extends readonly ["name", ...string[]]>(request: Request, sortKeys: K) {
+  const url = new URL(request.url);
+  const active = activeWanted(enumFilter(url, "status", ARCHIVE_STATUSES) ?? "active");
+  return { url, params: listParams(url, sortKeys, "name"), active };
+}
+
+/**
  * A route book list: the table sorted and paged by the list's URL params, and
  * an empty state that says whether the search or the book is empty.
  */
-export function ListTable<Row extends { id: number }>({
+type ListParamsShown = Pick<ListParams, "sort" | "dir" | "page" | "q">;
+
+/**
+ * A route book list page: the title with the count and, for editors, the add
+ * button; the search box with the list's own filters (`children`); the table,
+ * captioned with the title.
+ */
+export function ListPage<Row extends { id: number }>({
+  title,
+  intro,
+  nouns: [one, many],
+  add,
+  searchLabel,
+  list,
+  columns,
+  emptyText,
+  children,
+}: {
+  title: string;
+  /** Said before the count under the title. */
+  intro?: string;
+  /** The entry's noun, one and many: "1 pool", "12 pools". */
+  nouns: readonly [string, string];
+  /** Where editors add an entry, and the button's words. */
+  add: { to: string; label: string };
+  searchLabel: string;
+  list: { rows: readonly Row[]; total: number; params: ListParamsShown; mayEdit: boolean };
+  columns: ReadonlyArray<Column<Row>>;
+  emptyText: string;
+  children?: ReactNode;
+}) {
+  const count = countOf(list.total, one, many);
+  return (
+    <div>
+      <PageHeader title={title} action={list.mayEdit ? <ButtonLink to={add.to}>{add.label}</ButtonLink> : null}>
+        {intro ? `${intro} · ${count}` : count}
+      </PageHeader>
+      <ListFilters searchLabel={searchLabel}>{children}</ListFilters>
+      <ListTable caption={title} columns={columns} rows={list.rows} total={list.total} params={list.params} noun={one} emptyText={emptyText} />
+    </div>
+  );
+}
+
+function ListTable<Row extends { id: number }>({
   caption,
   columns,
   rows,
@@ -46,7 +103,7 @@ export function ListTable<Row extends { id: number }>({
   columns: ReadonlyArray<Column<Row>>;
   rows: readonly Row[];
   total: number;
-  params: Pick<ListParams, "sort" | "dir" | "page" | "q">;
+  params: ListParamsShown;
   /** The singular noun of a search miss: `No pool matches "…".` */
   noun: string;
   emptyText: string;

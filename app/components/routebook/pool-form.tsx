@@ -1,7 +1,7 @@
 import { useState } from "react";
-import { Form, useNavigation } from "react-router";
 import { isVolumeError, poolVolume } from "@analysis/units/volume";
-import { FormProblem, options, SelectField, SubmitButton, TextField } from "~/components/form-controls";
+import { options, SelectField, TextField } from "~/components/form-controls";
+import { type EntryAnswer, EntryForm } from "~/components/routebook/entry-form";
 import { type ArchivableOption, pickerOptions } from "~/lib/archived";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { shapeFromForm } from "~/lib/forms/routebook";
@@ -52,9 +52,8 @@ export function PoolForm({
   units: UnitSystem;
   routes: ArchivableOption[];
   sources: ArchivableOption[];
-  answer: { fieldErrors: FieldErrors; formError: string | null } | undefined;
+  answer: EntryAnswer;
 }) {
-  const busy = useNavigation().state === "submitting";
   const errors = answer?.fieldErrors;
   const [mode, setMode] = useState<"direct" | "shape">("direct");
   const [shapeValues, setShapeValues] = useState<Record<string, string>>({
@@ -69,7 +68,7 @@ export function PoolForm({
   const lengthUnit = shapeValues.lengthUnit === "m" ? "m" : "ft";
 
   return (
-    <Form method="post" className="max-w-2xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
+    <EntryForm answer={answer} save="Save pool" wide>
       <input type="hidden" name="intent" value="save-pool" />
       <div className="grid gap-4 sm:grid-cols-2">
         <TextField name="accountCode" label="Account code" defaultValue={pool?.accountCode} errors={errors} maxLength={40} />
@@ -130,10 +129,6 @@ export function PoolForm({
         <input type="checkbox" name="active" defaultChecked={pool?.active ?? true} className="size-5 accent-verdigris-700" />
         <span>In service (untick to archive; its history stays)</span>
       </label>
-      <FormProblem message={answer?.formError} />
-      <SubmitButton busy={busy} busyText="Saving…">
-        Save pool
-      </SubmitButton>
-    </Form>
+    </EntryForm>
   );
 }

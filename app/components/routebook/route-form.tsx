@@ -1,7 +1,6 @@
-import { Form, useNavigation } from "react-router";
 import { ArchiveToggle } from "~/components/routebook/archive-toggle";
-import { ChoiceGroup, FormProblem, SubmitButton, TextField } from "~/components/form-controls";
-import type { FieldErrors } from "~/lib/forms/fields";
+import { type EntryAnswer, EntryForm } from "~/components/routebook/entry-form";
+import { ChoiceGroup, TextField } from "~/components/form-controls";
 import { WEEKDAY_OPTIONS } from "~/lib/weekdays";
 
 export function RouteForm({
@@ -11,12 +10,11 @@ export function RouteForm({
 }: {
   route: { name: string; serviceWeekdays: string; technicianIds: string[]; active: boolean } | null;
   technicians: Array<{ userId: string; name: string }>;
-  answer: { fieldErrors: FieldErrors; formError: string | null } | undefined;
+  answer: EntryAnswer;
 }) {
-  const busy = useNavigation().state === "submitting";
   const errors = answer?.fieldErrors;
   return (
-    <Form method="post" className="max-w-xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
+    <EntryForm answer={answer} save="Save route">
       <TextField name="name" label="Route name" defaultValue={route?.name} errors={errors} required maxLength={120} />
       <ChoiceGroup
         name="serviceWeekdays"
@@ -41,10 +39,6 @@ export function RouteForm({
       {route ? (
         <ArchiveToggle active={route.active} explanation="untick to archive: its pools keep their history, but the route leaves the day's list and the pickers" />
       ) : null}
-      <FormProblem message={answer?.formError} />
-      <SubmitButton busy={busy} busyText="Saving…">
-        Save route
-      </SubmitButton>
-    </Form>
+    </EntryForm>
   );
 }

@@ -1,33 +1,25 @@
-import { Form, useNavigation } from "react-router";
 import { ArchiveToggle } from "~/components/routebook/archive-toggle";
-import { FormProblem, options, SelectField, SubmitButton, TextAreaField, TextField } from "~/components/form-controls";
-import type { FieldErrors } from "~/lib/forms/fields";
+import { type EntryAnswer, EntryForm } from "~/components/routebook/entry-form";
+import { options, SelectField, TextAreaField, TextField } from "~/components/form-controls";
 import { DOSE_BASIS_LABELS, PRODUCT_CATEGORY_LABELS, SOURCE_KIND_LABELS } from "~/lib/labels";
-
-type Answer = { fieldErrors: FieldErrors; formError: string | null } | undefined;
 
 export function SourceForm({
   source,
   answer,
 }: {
   source: { name: string; kind: string; notes: string | null; active: boolean } | null;
-  answer: Answer;
+  answer: EntryAnswer;
 }) {
-  const busy = useNavigation().state === "submitting";
   const errors = answer?.fieldErrors;
   return (
-    <Form method="post" className="max-w-xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
+    <EntryForm answer={answer} save="Save source">
       <TextField name="name" label="Source name" defaultValue={source?.name} errors={errors} required maxLength={160} />
       <SelectField name="kind" label="Kind" defaultValue={source?.kind ?? ""} placeholder="Choose…" options={options(SOURCE_KIND_LABELS)} errors={errors} />
       <TextAreaField name="notes" label="Notes" defaultValue={source?.notes ?? ""} errors={errors} maxLength={2000} />
       {source ? (
         <ArchiveToggle active={source.active} explanation="untick to archive: its tests and pools stay, but it leaves the pickers" />
       ) : null}
-      <FormProblem message={answer?.formError} />
-      <SubmitButton busy={busy} busyText="Saving…">
-        Save source
-      </SubmitButton>
-    </Form>
+    </EntryForm>
   );
 }
 
@@ -42,11 +34,10 @@ type ProductValues = {
   active: boolean;
 };
 
-export function ProductForm({ product, answer }: { product: ProductValues | null; answer: Answer }) {
-  const busy = useNavigation().state === "submitting";
+export function ProductForm({ product, answer }: { product: ProductValues | null; answer: EntryAnswer }) {
   const errors = answer?.fieldErrors;
   return (
-    <Form method="post" className="max-w-xl space-y-4 rounded-xl border border-line bg-white p-4" noValidate>
+    <EntryForm answer={answer} save="Save product">
       <TextField name="name" label="Product name (your company's own)" defaultValue={product?.name} errors={errors} required maxLength={160} />
       <SelectField name="category" label="Category" defaultValue={product?.category ?? ""} placeholder="Choose…" options={options(PRODUCT_CATEGORY_LABELS)} errors={errors} />
       <div className="grid gap-4 sm:grid-cols-2">
@@ -60,10 +51,6 @@ export function ProductForm({ product, answer }: { product: ProductValues | null
         <input type="checkbox" name="active" defaultChecked={product?.active ?? true} className="size-5 accent-verdigris-700" />
         <span>In use (untick to archive; past treatments keep it)</span>
       </label>
-      <FormProblem message={answer?.formError} />
-      <SubmitButton busy={busy} busyText="Saving…">
-        Save product
-      </SubmitButton>
-    </Form>
+    </EntryForm>
   );
 }

@@ -1,7 +1,7 @@
-import { Form, useNavigation } from "react-router";
-import { FormProblem, SubmitButton, TextField } from "~/components/form-controls";
+import { Form } from "react-router";
+import { SaveFooter, TextField } from "~/components/form-controls";
 import { ReadingTable } from "~/components/reading-table";
-import type { FieldErrors } from "~/lib/forms/fields";
+import type { EntryAnswer } from "~/components/routebook/entry-form";
 import { formatMgL } from "~/lib/format";
 import type { StoredMetals } from "@analysis/metals/names";
 
@@ -24,8 +24,7 @@ export function SourceTestTable({ tests }: { tests: SourceTest[] }) {
   );
 }
 
-export function SourceTestForm({ today, answer }: { today: string; answer: { fieldErrors: FieldErrors; formError: string | null } | undefined }) {
-  const busy = useNavigation().state === "submitting";
+export function SourceTestForm({ today, answer }: { today: string; answer: EntryAnswer }) {
   const errors = answer?.fieldErrors;
   return (
     <Form method="post" className="space-y-3 rounded-xl border border-line bg-white p-4" noValidate>
@@ -37,10 +36,7 @@ export function SourceTestForm({ today, answer }: { today: string; answer: { fie
         <TextField name="manganese" label="Manganese (mg/L)" inputMode="decimal" errors={errors} />
       </div>
       <TextField name="note" label="Note (lab, method)" maxLength={2000} errors={errors} />
-      <FormProblem message={answer?.formError} />
-      <SubmitButton busy={busy} busyText="Saving…">
-        Save source test
-      </SubmitButton>
+      <SaveFooter formError={answer?.formError}>Save source test</SaveFooter>
     </Form>
   );
 }

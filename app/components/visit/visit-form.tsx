@@ -1,9 +1,9 @@
-import { type ChangeEvent, useEffect, useRef, useState, useSyncExternalStore } from "react";
+import { type ChangeEvent, type InputHTMLAttributes, useEffect, useRef, useState, useSyncExternalStore } from "react";
 import { Form, useNavigation } from "react-router";
 import { classifyBalance, type BalanceBand } from "@analysis/chemistry/saturation";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import { CautionNote } from "~/components/caution-note";
-import { FormProblem } from "~/components/form-controls";
+import { FormProblem, OptionList, SubmitButton } from "~/components/form-controls";
 import type { FieldErrors } from "~/lib/forms/fields";
 import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
 import { formatMoney } from "~/lib/format";
@@ -65,6 +65,22 @@ function FieldError({ id, message }: { id: string; message: string | undefined }
       {message}
     </span>
   ) : null;
+}
+
+/** A text field of a treatment line; its error is shown under the line, beside its neighbour's. */
+function LineInput({
+  line,
+  label,
+  error,
+  errorId,
+  ...input
+}: { line: number; label: string; error: string | undefined; errorId: string } & InputHTMLAttributes<HTMLInputElement>) {
+  return (
+    <label className="block">
+      <span className="text-sm font-medium">{label}</span>
+      <input data-line={line} className={bigInput} {...errorProps(error, errorId)} {...input} />
+    </label>
+  );
 }
 
 function Choice({
@@ -169,6 +185,7 @@ export function VisitForm({
   const labelShown = labelAmounts.some((a) => a?.kind === "amounts");
   const errorFor = (key: string): string | undefined => liveErrors[key] ?? (changed.has(key) ? undefined : answer?.fieldErrors[key]);
   const productById = new Map(products.map((p) => [String(p.id), p]));
+  const productOptions = products.map((p) => ({ value: String(p.id), label: p.name }));
 
   const onChange = (event: ChangeEvent<HTMLFormElement>) => {
     const target = event.target as unknown as HTMLInputElement | HTMLSelectElement;
@@ -328,38 +345,12 @@ export function VisitForm({
                   className={bigInput}
                   {...errorProps(productError, `treatment-${i}-product-error`)}
                 >
-                  <option value="">None</option>
-                  {products.map((p) => (
-                    <option key={p.id} value={p.id}>
-                      {p.name}
-                    </option>
-                  ))}
+                  <OptionList options={productOptions} blank="None" />
                 </select>
                 <FieldError id={`treatment-${i}-product-error`} message={productError} />
               </label>
-              <label className="block">
-                <span className="text-sm font-medium">Amount</span>
-                <input
-                  name="treatmentAmount"
-                  data-line={i}
-                  inputMode="decimal"
-                  autoComplete="off"
-                  defaultValue={start.amount}
-                  className={bigInput}
-                  {...errorProps(amountError, `treatment-${i}-amount-error`)}
-                />
-              </label>
-              <label className="block">
-                <span className="text-sm font-medium">Unit</span>
-                <input
-                  name="treatmentUnit"
-                  data-line={i}
-                  defaultValue={start.unit}
-                  maxLength={16}
-                  className={bigInput}
-                  {...errorProps(unitError, `treatment-${i}-unit-error`)}
-                />
-              </label>
+              <LineInput line={i} label="Amount" name="treatmentAmount" inputMode="decimal" autoComplete="off" defaultValue={start.amount} error={amountError} errorId={`treatment-${i}-amount-error`} />
+              <LineInput line={i} label="Unit" name="treatmentUnit" defaultValue={start.unit} maxLength={16} error={unitError} errorId={`treatment-${i}-unit-error`} />
               <span className="col-span-2">
                 <FieldError id={`treatment-${i}-amount-error`} message={amountError} />
                 <FieldError id={`treatment-${i}-unit-error`} message={unitError} />
@@ -396,13 +387,9 @@ export function VisitForm({
         <FormProblem key={message} message={message} />
       ))}
       <div className="fixed inset-x-0 bottom-0 border-t border-line bg-paper/95 p-3 backdrop-blur">
-        <button
-          type="submit"
-          disabled={busy}
-          className="mx-auto block w-full max-w-xl rounded-xl bg-verdigris-700 px-4 py-4 text-lg font-semibold text-white disabled:opacity-60"
-        >
-          {busy ? "Saving…" : "Save visit"}
-        </button>
+        <SubmitButton busy={busy} busyText="Saving…" className="mx-auto block w-full max-w-xl rounded-xl bg-verdigris-700 px-4 py-4 text-lg font-semibold text-white disabled:opacity-60">
+          Save visit
+        </SubmitButton>
       </div>
     </Form>
   );
