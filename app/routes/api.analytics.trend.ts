@@ -4,6 +4,6 @@ import { trendQuery } from "~/lib/analytics/params";
 import type { Route } from "./+types/api.analytics.trend";
 
 export async function loader({ request, context }: Route.LoaderArgs) {
-  const { scope, query, window } = await readAnalyticsRequest(request, context, "overview", trendQuery, "api");
-  return Response.json(await metalTrend(scope, window, query.metal ?? null));
+  const { scope, query, window, thresholds } = await readAnalyticsRequest(request, context, "overview", trendQuery, "api");
+  return Response.json(await metalTrend(scope, window, query.metal ?? null, thresholds));
 }

@@ -27,7 +27,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   const dataset = await loadMetalDataset(scope, params);
   const [summary, trend, alerts] = await Promise.all([
     routeBookSummary(scope, params, dataset),
-    metalTrend(scope, window, null),
+    metalTrend(scope, window, null, thresholds),
     sharedSourceAlertList(scope, params),
   ]);
   return { search: loaderSearch(request, PARAMS), timeZone: scope.timeZone, summary, trend, alerts };
@@ -115,7 +115,7 @@ export default function Overview({ loaderData }: Route.ComponentProps) {
         )}
       </section>
 
-      <MetalTrendChart months={trend.months} rule={trend.belowDetectionRule} />
+      <MetalTrendChart months={trend.months} />
       <p className="text-xs text-muted">Elevated and clear levels are the company's settings (staining levels from common practice, not health limits).</p>
     </div>
   );

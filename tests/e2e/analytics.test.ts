@@ -46,9 +46,18 @@ describe("analytics pages", () => {
     const byMetal = Object.fromEntries(rows.map(([metal, n]) => [metal, Number(n)]));
     expect(Object.keys(byMetal)).toEqual(["Copper", "Iron", "Manganese"]);
     expect(byMetal.Copper! + byMetal.Iron! + byMetal.Manganese!).toBe(headline);
-    const trend = await tableOf(page, "Monthly median of each metal");
+    const trend = await tableOf(page, "Share of metal tests at or above the elevated level, per month");
     expect(trend.length).toBeGreaterThan(12);
-    expect(Number(trend[0]![3])).toBeGreaterThanOrEqual(0); // median (mg/L)
+    expect(Number(trend[0]![6])).toBeGreaterThanOrEqual(0); // median (mg/L)
+    // Month, metal, tests, at or above elevated, share (%), pools: the share is the one over the other.
+    for (const [, , tests, elevated, share, pools] of trend) {
+      expect(Number(share)).toBeCloseTo((100 * Number(elevated)) / Number(tests), 1);
+      expect(Number(pools)).toBeLessThanOrEqual(Number(elevated));
+    }
+    // The reading under the chart names the worst month in words.
+    expect(await page.locator("[data-chart-reading]").filter({ hasText: "Worst month:" }).innerText()).toMatch(
+      /^Worst month: (copper|iron|manganese) in \d{4}-\d{2}, [\d.]+% of \d+ tests at or above the elevated level, on \d+ pools?\.$/,
+    );
   });
 
   it("the manager sees the iron well flagged on the risk page, then switches to heater age without a reload", async () => {

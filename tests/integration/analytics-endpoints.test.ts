@@ -454,6 +454,20 @@ describe("GET /api/analytics/trend", () => {
     const january = body.months.find((m: Body) => m.metal === "copper" && m.month === "2025-01");
     expect(january.median).toBeCloseTo(0.025, 6);
   });
+
+  it("gives the share of each month's readings at or above the elevated level, and on how many pools", async () => {
+    const { body } = await get(trendApi.loader, owner, "/api/analytics/trend");
+    const march = body.months.find((m: Body) => m.metal === "iron" && m.month === "2025-03");
+    // Iron elevated at 0.2 (the default): 0.40 (P1), 0.35 (P2), 0.25 (P3) of the 7 March readings: 3 of 7 on 3 pools.
+    expect(march).toMatchObject({ readings: 7, elevated: 3, poolsElevated: 3 });
+    expect(march.elevatedShare).toBeCloseTo(3 / 7, 9);
+    // A "<0.05" reading is below detection, never elevated.
+    const january = body.months.find((m: Body) => m.metal === "copper" && m.month === "2025-01");
+    expect(january).toMatchObject({ elevated: 0, elevatedShare: 0, poolsElevated: 0 });
+    // A lower elevated level in the request counts more: iron at 0.1 adds P1's 0.15 and P2's 0.10 (5 of 7, still 3 pools).
+    const lowered = (await get(trendApi.loader, owner, "/api/analytics/trend?metal=iron&ironElevated=0.1&ironClear=0.05")).body;
+    expect(lowered.months.find((m: Body) => m.month === "2025-03")).toMatchObject({ readings: 7, elevated: 5, poolsElevated: 3 });
+  });
 });
 
 describe("GET /api/analytics/outcomes", () => {

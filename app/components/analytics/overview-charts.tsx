@@ -3,7 +3,7 @@ import { useMemo } from "react";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import type { MonthlyMetalFigure } from "~/.server/analytics/queries/metal-trend";
 import type { RouteBookSummary } from "~/.server/analytics/queries/route-book-summary";
-import { metalColourScale, metalNames, metalSymbolScale } from "~/components/charts/chart-parts";
+import { metalColourScale, metalSymbolScale } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { BALANCE_COLOURS } from "~/lib/analytics/colours";
 import { METAL_LABELS } from "@analysis/metals/names";
@@ -90,57 +90,64 @@ export function BalanceChart({ balance }: { balance: RouteBookSummary["balance"]
   );
 }
 
-type TrendRow = MonthlyMetalFigure & { label: string; at: Date };
+type TrendRow = MonthlyMetalFigure & { label: string; at: Date; percent: number };
 
-export function MetalTrendChart({ months, rule }: { months: MonthlyMetalFigure[]; rule: string }) {
+const percentText = (share: number) => `${(share * 100).toFixed(share > 0 && share < 0.1 ? 1 : 0)}%`;
+
+/** The month and metal with the largest share of elevated readings, in words; null when none was elevated. */
+export function worstMonthReading(months: readonly MonthlyMetalFigure[]): string | null {
+  const worst = months.reduce<MonthlyMetalFigure | null>((top, m) => (m.elevated > 0 && (!top || m.elevatedShare > top.elevatedShare) ? m : top), null);
+  if (!worst) return null;
+  return `Worst month: ${METAL_LABELS[worst.metal].toLowerCase()} in ${worst.month}, ${percentText(worst.elevatedShare)} of ${worst.readings} tests at or above the elevated level, on ${worst.poolsElevated} pool${worst.poolsElevated === 1 ? "" : "s"}.`;
+}
+
+/** Per month and metal, the share of metal tests at or above the company's elevated level: a bad season stands out. */
+export function MetalTrendChart({ months }: { months: MonthlyMetalFigure[] }) {
   const rows: TrendRow[] = useMemo(
-    () => months.map((m) => ({ ...m, label: METAL_LABELS[m.metal], at: new Date(`${m.month}-01T00:00:00Z`) })),
+    () => months.map((m) => ({ ...m, label: METAL_LABELS[m.metal], at: new Date(`${m.month}-01T00:00:00Z`), percent: m.elevatedShare * 100 })),
     [months],
   );
   const plot = useMemo(
     (): Plot.PlotOptions => ({
       marginLeft: 52,
-      marginRight: 84,
       x: { type: "utc", label: "Month" },
-      y: { label: "mg/L", grid: true, zero: true },
-      fy: { label: null, domain: metalNames() },
+      y: { label: "Tests at or above elevated (%)", grid: true, zero: true, domain: [0, Math.max(10, ...rows.map((r) => r.percent))] },
       color: metalColourScale(),
       symbol: metalSymbolScale(),
-      facet: { data: rows, y: "label" },
       marks: [
-        Plot.areaY(rows, { x: "at", y1: "p25", y2: "p75", fy: "label", fill: "label", fillOpacity: 0.18, curve: "step" }),
-        Plot.lineY(rows, { x: "at", y: "median", fy: "label", stroke: "label", curve: "monotone-x" }),
+        Plot.lineY(rows, { x: "at", y: "percent", stroke: "label", curve: "monotone-x" }),
         Plot.dot(rows, {
           x: "at",
-          y: "median",
-          fy: "label",
+          y: "percent",
           stroke: "label",
           symbol: "label",
           r: 3,
           tip: true,
           title: (d: TrendRow) =>
-            `${d.label}, ${d.month}\nmedian ${d.median.toFixed(3)} mg/L\nmiddle half ${d.p25.toFixed(3)} to ${d.p75.toFixed(3)} mg/L\n${d.readings} readings`,
+            `${d.label}, ${d.month}\n${d.elevated} of ${d.readings} tests (${percentText(d.elevatedShare)}) at or above elevated\n${d.poolsElevated} pools`,
         }),
+        Plot.ruleY([0]),
       ],
     }),
     [rows],
   );
   return (
     <PlotFigure
-      title="Monthly median of each metal across the route book (mg/L)"
-      caption={`Line: median reading per month; shaded band: the middle half of readings (25th to 75th percentile). ${rule}`}
+      title="How often was each metal elevated? Share of metal tests at or above the elevated level, per month (%)"
+      caption="Each dot is one month of one metal: the tests at or above the company's elevated level over all tests of that metal. The table gives the counts, pools and medians."
+      reading={worstMonthReading(months) ?? "No metal test in this window reached the elevated level."}
       plot={plot}
       rows={rows}
-      height={420}
+      height={360}
       csvName="metal-trend-by-month.csv"
       columns={[
         { label: "Month", value: (r) => r.month },
         { label: "Metal", value: (r) => r.label },
-        { label: "Readings", value: (r) => String(r.readings) },
+        { label: "Tests", value: (r) => String(r.readings) },
+        { label: "At or above elevated", value: (r) => String(r.elevated) },
+        { label: "Share (%)", value: (r) => (r.elevatedShare * 100).toFixed(1) },
+        { label: "Pools elevated", value: (r) => String(r.poolsElevated) },
         { label: "Median (mg/L)", value: (r) => r.median.toFixed(3) },
-        { label: "25th percentile (mg/L)", value: (r) => r.p25.toFixed(3) },
-        { label: "75th percentile (mg/L)", value: (r) => r.p75.toFixed(3) },
-        { label: "Highest (mg/L)", value: (r) => r.max.toFixed(3) },
       ]}
       empty="No metal was measured in this window. Readings of copper, iron or manganese on any visit fill this chart."
     />

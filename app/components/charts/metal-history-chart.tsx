@@ -15,11 +15,13 @@ export function MetalHistoryChart({ points, thresholds }: { points: MetalPoint[]
     return {
       marginLeft: 48,
       x: { type: "utc", label: null },
-      y: { label: "mg/L", grid: true, zero: true },
-      fy: { label: null, domain: metalNames() },
+      // Each panel's name sits inside its top left corner: a facet axis at the right edge is cut off on a phone.
+      y: { label: "mg/L", grid: true, zero: true, insetTop: 16 },
+      fy: { label: null, domain: metalNames(), axis: null },
       facet: { data: rows, y: "label" },
       color: { legend: false },
       marks: [
+        Plot.text(metalNames(), { fy: (d: string) => d, text: (d: string) => d, frameAnchor: "top-left", dx: 4, dy: 2, fontWeight: 600 }),
         Plot.ruleY(metalLevels(METALS, thresholds), { fy: "label", y: "level", stroke: levelStroke, strokeDasharray: "4,3" }),
         Plot.lineY(rows, { x: "at", y: "value", fy: "label", stroke: "#22604f", curve: "monotone-x" }),
         Plot.dot(rows, {
@@ -54,44 +56,83 @@ export function MetalHistoryChart({ points, thresholds }: { points: MetalPoint[]
 
 export type BalancePoint = { at: Date; ph: number | null; index: number | null };
 
-/** pH and saturation index over time, with the balanced band shaded. */
+/** The usual pH scale of a pool chart: 6.5 to 8.5 at least, wider when a reading falls outside. */
+export function phDomain(values: readonly number[]): [number, number] {
+  return [Math.min(6.5, ...values.map((v) => Math.floor(v * 10 - 1) / 10)), Math.max(8.5, ...values.map((v) => Math.ceil(v * 10 + 1) / 10))];
+}
+
+/** A saturation index scale symmetric around 0 (balanced in the middle), at least -1 to +1. */
+export function indexDomain(values: readonly number[]): [number, number] {
+  const reach = Math.max(1, ...values.map((v) => Math.ceil(Math.abs(v) * 10 + 1) / 10));
+  return [-reach, reach];
+}
+
+/** pH and saturation index over time, each on its own scale around its data, the balanced band shaded on the index. */
 export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; band: { low: number; high: number } }) {
-  const rows = useMemo(
-    () =>
-      points.flatMap((p) => [
-        ...(p.ph !== null ? [{ at: p.at, series: "pH", value: p.ph }] : []),
-        ...(p.index !== null ? [{ at: p.at, series: "Saturation index", value: p.index }] : []),
-      ]),
-    [points],
-  );
-  const plot = useMemo(
+  const ph = useMemo(() => points.flatMap((p) => (p.ph !== null ? [{ at: p.at, value: p.ph }] : [])), [points]);
+  const index = useMemo(() => points.flatMap((p) => (p.index !== null ? [{ at: p.at, value: p.index }] : [])), [points]);
+  const phPlot = useMemo(
     (): Plot.PlotOptions => ({
       marginLeft: 48,
       x: { type: "utc", label: null },
-      y: { label: null, grid: true },
-      fy: { label: null, domain: ["pH", "Saturation index"] },
-      facet: { data: rows, y: "series" },
+      y: { label: "pH", grid: true, domain: phDomain(ph.map((r) => r.value)) },
       marks: [
-        Plot.rectY([{ series: "Saturation index", y1: band.low, y2: band.high }], { fy: "series", y1: "y1", y2: "y2", fill: "#d3ebe3", fillOpacity: 0.6 }),
-        Plot.lineY(rows, { x: "at", y: "value", fy: "series", stroke: "#1d2a2b" }),
-        Plot.dot(rows, { x: "at", y: "value", fy: "series", r: 2.5, fill: "#1d2a2b", tip: true }),
+        Plot.lineY(ph, { x: "at", y: "value", stroke: "#1d2a2b" }),
+        Plot.dot(ph, { x: "at", y: "value", r: 2.5, fill: "#1d2a2b", tip: true, title: (d: { at: Date; value: number }) => `pH ${d.value}\n${isoDay(d.at)}` }),
       ],
     }),
-    [rows, band.low, band.high],
+    [ph],
   );
+  const indexPlot = useMemo(
+    (): Plot.PlotOptions => ({
+      marginLeft: 48,
+      x: { type: "utc", label: null },
+      y: { label: "Saturation index", grid: true, domain: indexDomain(index.map((r) => r.value)) },
+      marks: [
+        Plot.rectY([{ y1: band.low, y2: band.high }], { y1: "y1", y2: "y2", fill: "#d3ebe3", fillOpacity: 0.6 }),
+        Plot.ruleY([0], { stroke: "#9aa5a0" }),
+        Plot.lineY(index, { x: "at", y: "value", stroke: "#1d2a2b" }),
+        Plot.dot(index, {
+          x: "at",
+          y: "value",
+          r: 2.5,
+          fill: "#1d2a2b",
+          tip: true,
+          title: (d: { at: Date; value: number }) => `Index ${d.value.toFixed(2)}\n${isoDay(d.at)}`,
+        }),
+      ],
+    }),
+    [index, band.low, band.high],
+  );
+  const lastPh = ph.at(-1);
+  const lastIndex = index.at(-1);
+  const indexWord = (v: number) => (v < band.low ? "corrosive" : v > band.high ? "scale-forming" : "balanced");
+  const columns = [
+    { label: "Date", value: (r: { at: Date }) => isoDay(r.at) },
+    { label: "Value", value: (r: { value: number }) => r.value.toFixed(2) },
+  ];
   return (
-    <PlotFigure
-      title="pH and saturation index at each test"
-      caption={`Shaded: balanced (${band.low} to +${band.high}); below is corrosive, above is scale-forming.`}
-      plot={plot}
-      rows={rows}
-      height={300}
-      columns={[
-        { label: "Date", value: (r) => isoDay(r.at) },
-        { label: "Series", value: (r) => r.series },
-        { label: "Value", value: (r) => r.value.toFixed(2) },
-      ]}
-      empty="No pH readings yet. The saturation index also needs temperature, calcium hardness and alkalinity."
-    />
+    <div className="space-y-4">
+      <PlotFigure
+        title="pH at each test"
+        caption="Scale from 6.5 to 8.5, wider when a reading falls outside."
+        reading={lastPh ? `Latest pH ${lastPh.value} on ${isoDay(lastPh.at)}.` : undefined}
+        plot={phPlot}
+        rows={ph}
+        height={220}
+        columns={columns}
+        empty="No pH readings yet."
+      />
+      <PlotFigure
+        title="Saturation index at each test"
+        caption={`Shaded: balanced (${band.low} to +${band.high}); below is corrosive, above is scale-forming. The scale is centred on 0.`}
+        reading={lastIndex ? `Latest index ${lastIndex.value.toFixed(2)} on ${isoDay(lastIndex.at)}: ${indexWord(lastIndex.value)}.` : undefined}
+        plot={indexPlot}
+        rows={index}
+        height={220}
+        columns={columns}
+        empty="No saturation index yet: it needs pH, temperature, calcium hardness and alkalinity on the same test."
+      />
+    </div>
   );
 }

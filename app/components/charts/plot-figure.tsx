@@ -21,10 +21,13 @@ export function PlotFigure<Row>({
   empty,
   height = 260,
   csvName,
+  reading,
 }: {
   /** Plain-language title, with units. */
   title: string;
   caption?: ReactNode;
+  /** The chart's main result in one line of words, shown under it. */
+  reading?: ReactNode;
   /** Memoized by the caller: every new object redraws the chart. */
   plot: PlotOptions;
   /** The rows behind the chart, shown in the table view. */
@@ -78,6 +81,11 @@ export function PlotFigure<Row>({
       ) : (
         <>
           <div ref={holder} aria-hidden={showTable} className="w-full overflow-hidden" style={{ minHeight: height }} />
+          {reading ? (
+            <p className="mt-2 text-sm font-medium" data-chart-reading>
+              {reading}
+            </p>
+          ) : null}
           <button
             type="button"
             onClick={() => setShowTable((v) => !v)}

@@ -144,7 +144,7 @@ export const outcomesQuery = z
 
 export const summaryQuery = z.object({ ...windowShape, ...thresholdShape }).refine(fromBeforeTo, fromBeforeToIssue);
 
-export const trendQuery = z.object({ ...windowShape, metal: metalParam }).refine(fromBeforeTo, fromBeforeToIssue);
+export const trendQuery = z.object({ ...windowShape, ...thresholdShape, metal: metalParam }).refine(fromBeforeTo, fromBeforeToIssue);
 
 export const evidenceQuery = z.object({ ...windowShape, ...thresholdShape }).refine(fromBeforeTo, fromBeforeToIssue);
 

@@ -1,5 +1,5 @@
 import { sql } from "drizzle-orm";
-import { METALS, type Metal } from "@analysis/metals/reading";
+import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import type { Scope } from "../../scope";
 import { anyMetalMeasured } from "./metal-readings";
@@ -15,6 +15,12 @@ export type MonthlyMetalFigure = {
   p25: number;
   p75: number;
   max: number;
+  /** Readings at or above the company's elevated level (not below detection). */
+  elevated: number;
+  /** elevated / readings. */
+  elevatedShare: number;
+  /** Pools with at least one such reading in the month. */
+  poolsElevated: number;
 };
 
 export type MetalTrend = { months: MonthlyMetalFigure[]; belowDetectionRule: string };
@@ -36,31 +42,51 @@ function utcOffsetMinutes(timeZone: string, at: Date): number {
 }
 
 /**
- * Median and interquartile spread of each metal per month across the route
+ * For each metal and month: how many readings, how many of them at or above
+ * the elevated level (and on how many pools), and the median and
+ * interquartile spread across the route
  * book, from per-reading counts grouped in MariaDB rather than the readings.
  * A "<x" reading counts as x/2, a common substitution for values below a
  * detection limit (US EPA, Guidance for Data Quality Assessment QA/G-9, 4.7).
  */
-export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal | null): Promise<MetalTrend> {
+export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal | null, thresholds: MetalThresholds): Promise<MetalTrend> {
   const offset = utcOffsetMinutes(scope.timeZone, window.to ?? new Date());
   const metals = metal ? [metal] : METALS;
+  const monthOf = sql`DATE_FORMAT(water_tests.sampled_at + INTERVAL ${offset} MINUTE, '%Y-%m')`;
+  const elevatedReading = (m: Metal) =>
+    sql`${sql.raw(`water_tests.${m}`)} >= ${thresholds[m].elevated} AND ${sql.raw(`water_tests.${m}_below_detection`)} = 0`;
+  const poolsQuery = db().execute(sql`
+    SELECT ${monthOf} AS month,
+      ${sql.join(
+        metals.map((m) => sql`COUNT(DISTINCT CASE WHEN ${elevatedReading(m)} THEN water_tests.pool_id END) AS ${sql.raw(`${m}_pools`)}`),
+        sql`, `,
+      )}
+    FROM water_tests JOIN pools ON pools.id = water_tests.pool_id
+    WHERE ${testsInScope({ scope }, window)} AND (${anyMetalMeasured(metals)})
+    GROUP BY 1
+  `);
   // One pass over the metal readings, grouped in MariaDB by month and reading
   // (a few thousand rows however large the book); the percentiles are then
   // exact from those counts. A PERCENTILE_CONT window took seconds on 500k readings.
   const [rows] = (await db().execute(sql`
-    SELECT DATE_FORMAT(water_tests.sampled_at + INTERVAL ${offset} MINUTE, '%Y-%m') AS month,
+    SELECT ${monthOf} AS month,
       water_tests.copper, water_tests.copper_below_detection AS copper_bd, water_tests.iron, water_tests.iron_below_detection AS iron_bd,
       water_tests.manganese, water_tests.manganese_below_detection AS manganese_bd, COUNT(*) AS n
     FROM water_tests JOIN pools ON pools.id = water_tests.pool_id
     WHERE ${testsInScope({ scope }, window)} AND (${anyMetalMeasured(metals)})
     GROUP BY 1, 2, 3, 4, 5, 6, 7
   `)) as unknown as [Array<Record<string, unknown>>];
+  const [poolRows] = (await poolsQuery) as unknown as [Array<Record<string, unknown>>];
+  const poolsElevated = new Map<string, number>(poolRows.flatMap((row) => metals.map((m) => [`${m}/${String(row.month)}`, Number(row[`${m}_pools`])] as const)));
   const buckets = new Map<string, Map<number, number>>();
+  const elevatedCounts = new Map<string, number>();
   for (const row of rows) {
     for (const m of metals) {
       if (row[m] === null || row[m] === undefined) continue;
-      const value = Number(row[`${m}_bd`]) === 1 ? Number(row[m]) / 2 : Number(row[m]);
+      const belowDetection = Number(row[`${m}_bd`]) === 1;
+      const value = belowDetection ? Number(row[m]) / 2 : Number(row[m]);
       const key = `${m}/${row.month}`;
+      if (!belowDetection && Number(row[m]) >= thresholds[m].elevated) elevatedCounts.set(key, (elevatedCounts.get(key) ?? 0) + Number(row.n));
       const counts = buckets.get(key) ?? new Map<number, number>();
       counts.set(value, (counts.get(value) ?? 0) + Number(row.n));
       buckets.set(key, counts);
@@ -72,6 +98,7 @@ export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal 
       const [m, month] = key.split("/") as [Metal, string];
       const sorted = [...counts.entries()].sort((a, b) => a[0] - b[0]).map(([value, n]) => ({ value, n }));
       const readings = sorted.reduce((sum, b) => sum + b.n, 0);
+      const elevated = elevatedCounts.get(key) ?? 0;
       return {
         metal: m,
         month,
@@ -80,6 +107,9 @@ export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal 
         p25: percentileOfCounts(sorted, readings, 0.25),
         p75: percentileOfCounts(sorted, readings, 0.75),
         max: sorted[sorted.length - 1]!.value,
+        elevated,
+        elevatedShare: elevated / readings,
+        poolsElevated: poolsElevated.get(key) ?? 0,
       };
     });
   return {
