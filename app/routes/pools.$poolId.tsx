@@ -30,6 +30,7 @@ import { idParam, notFoundPage } from "~/lib/route-params";
 import { judgeTest, testSaturationIndex } from "@analysis/chemistry/test-judgements";
 import { formatTemperature, formatVolume } from "~/lib/units";
 import type { Route } from "./+types/pools.$poolId";
+import { StateMark } from "~/components/state-mark";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.detail.pool.street ?? "Pool"} · Patina` }];
 
@@ -54,7 +55,7 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
   };
 }
 
-const toneClass = { ok: "text-verdigris-700", watch: "text-watch", alert: "text-alert font-semibold" } as const;
+const STATE_OF_TONE = { ok: "fine", watch: "between", alert: "above" } as const;
 
 function observationText(t: {
   hardnessEndpoint: string | null;
@@ -200,7 +201,9 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
                 <td className="px-3 py-2">{j.label}</td>
                 <td className="px-3 py-2">{j.value}</td>
                 <td className="px-3 py-2 text-muted">{j.expected}</td>
-                <td className={`px-3 py-2 ${toneClass[j.tone]}`}>{j.verdict}</td>
+                <td className="px-3 py-2">
+                  <StateMark level={STATE_OF_TONE[j.tone]}>{j.verdict}</StateMark>
+                </td>
               </tr>
             ))}
             {latest.temperatureC !== null ? (

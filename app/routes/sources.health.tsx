@@ -10,6 +10,7 @@ import { formatDate } from "~/lib/format";
 import { SOURCE_KIND_LABELS, labelOf } from "~/lib/labels";
 import { METAL_LABELS } from "@analysis/metals/names";
 import type { Route } from "./+types/sources.health";
+import { StateMark, type StateLevel } from "~/components/state-mark";
 
 export const meta: Route.MetaFunction = () => [{ title: "Source health · Patina" }];
 
@@ -28,8 +29,8 @@ export async function loader({ request, context }: Route.LoaderArgs) {
 
 export const shouldRevalidate = onlyOnNewPath;
 
-const STATE_WORDS: Record<PoolMetalState, string> = { open: "▲ episode open", clear: "● no open episode", "not-tested": "○ not tested" };
-const STATE_CLASS: Record<PoolMetalState, string> = { open: "text-alert font-medium", clear: "text-verdigris-700", "not-tested": "text-muted" };
+const STATE_WORDS: Record<PoolMetalState, string> = { open: "episode open", clear: "no open episode", "not-tested": "not tested" };
+const STATE_LEVEL: Record<PoolMetalState, StateLevel> = { open: "above", clear: "fine", "not-tested": "fine" };
 
 export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
@@ -112,8 +113,8 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
                             <span className="block text-xs text-muted">{p.routeName ?? "no route"}</span>
                           </td>
                           {METALS.map((m) => (
-                            <td key={m} className={`py-1 pr-3 ${STATE_CLASS[p.metals[m].state]}`}>
-                              {STATE_WORDS[p.metals[m].state]}
+                            <td key={m} className={`py-1 pr-3 ${p.metals[m].state === "not-tested" ? "text-muted" : ""}`}>
+                              <StateMark level={STATE_LEVEL[p.metals[m].state]}>{STATE_WORDS[p.metals[m].state]}</StateMark>
                             </td>
                           ))}
                         </tr>
