@@ -1,6 +1,3 @@
-import { classifyBalance, type BalanceBand } from "@analysis/chemistry/saturation";
-import { metalStatus, type Metal, type MetalStatus, type MetalThresholds } from "@analysis/metals/reading";
-
 export type RangedAnalyte =
   | "freeChlorine"
   | "combinedChlorine"
@@ -35,19 +32,3 @@ export function judgeAnalyte(analyte: RangedAnalyte, value: number, ranges = DEF
   return "in range";
 }
 
-export const METAL_STATUS_WORDS: Record<MetalStatus, string> = {
-  elevated: "elevated",
-  watch: "watch",
-  clear: "clear",
-  unknown: "limit above clear",
-};
-
-export function judgeMetal(metal: Metal, value: number, belowDetection: boolean, thresholds: MetalThresholds): MetalStatus {
-  return metalStatus({ value, belowDetection }, thresholds[metal]);
-}
-
-export const BALANCE_WORDS = { corrosive: "corrosive", balanced: "balanced", "scale-forming": "scale-forming" } as const;
-
-export function judgeBalance(index: number, band: BalanceBand) {
-  return classifyBalance(index, band);
-}

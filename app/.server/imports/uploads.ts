@@ -218,13 +218,6 @@ export async function uploadsInProgress(scope: Scope) {
     .limit(50);
 }
 
-export async function setUploadOptions(scope: Scope, uploadId: string, options: ImportOptions) {
-  await db()
-    .update(importUploads)
-    .set({ options, summary: null, phase: "uploaded", updatedAt: new Date() })
-    .where(and(eq(importUploads.id, uploadId), eq(importUploads.companyId, scope.companyId)));
-}
-
 export async function discardUpload(scope: Scope, uploadId: string) {
   await db()
     .update(importUploads)

@@ -1,4 +1,4 @@
-import { and, count, eq, inArray, or } from "drizzle-orm";
+import { and, count, eq, inArray } from "drizzle-orm";
 import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
@@ -250,15 +250,3 @@ export async function afterWaterTestsSaved(
   }
 }
 
-/** Events already recorded for a pool or its fill source (for pages and tests). */
-export async function alertEventsFor(companyId: number, where: { poolId?: number; fillSourceId?: number }) {
-  const conditions = [
-    where.poolId !== undefined ? eq(alertEvents.poolId, where.poolId) : undefined,
-    where.fillSourceId !== undefined ? eq(alertEvents.fillSourceId, where.fillSourceId) : undefined,
-  ].filter(Boolean);
-  return db()
-    .select()
-    .from(alertEvents)
-    .where(and(eq(alertEvents.companyId, companyId), conditions.length > 0 ? or(...conditions) : undefined))
-    .orderBy(alertEvents.occurredAt);
-}

@@ -53,10 +53,6 @@ export function fieldLabel(target: ColumnTarget): string {
   return OTHER_FIELDS[target as OtherField];
 }
 
-export function isAnalyte(target: ColumnTarget): target is AnalyteField {
-  return target in ANALYTE_FIELDS;
-}
-
 export function isMetal(target: ColumnTarget): target is MetalField {
   return (METAL_FIELDS as readonly string[]).includes(target);
 }

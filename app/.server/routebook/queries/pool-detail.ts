@@ -38,4 +38,3 @@ export async function poolDetail(scope: Scope, poolId: number, testLimit = 12) {
   return { ...row, equipment: installed, tests };
 }
 
-export type PoolDetail = NonNullable<Awaited<ReturnType<typeof poolDetail>>>;

@@ -69,4 +69,3 @@ export async function poolPage(scope: Scope, poolId: number) {
   };
 }
 
-export type PoolPageData = NonNullable<Awaited<ReturnType<typeof poolPage>>>;

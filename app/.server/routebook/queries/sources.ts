@@ -73,7 +73,6 @@ export async function sourceDetail(scope: Scope, sourceId: number) {
   return { source, pools: fed, tests };
 }
 
-export type SourceDetail = NonNullable<Awaited<ReturnType<typeof sourceDetail>>>;
 
 /** Source names for pickers and filters, in the member's scope. */
 export async function sourceOptions(scope: Scope) {
