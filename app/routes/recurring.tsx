@@ -6,6 +6,7 @@ import { readAnalyticsRequest } from "~/.server/analytics/request";
 import { recurringReadings } from "~/.server/analytics/queries/recurring-pools";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { RecurringPoolChart } from "~/components/analytics/recurring-pool-chart";
+import { RecurringTable } from "~/components/analytics/recurring-table";
 import { Stat } from "~/components/stat";
 import { TextLink } from "~/components/text-link";
 import { analyticsQueries, loaderSearch, onlyOnNewPath } from "~/hooks/analytics-queries";
@@ -167,25 +168,34 @@ export default function Recurring({ loaderData }: Route.ComponentProps) {
           and none came back within a year.
         </p>
       ) : (
-        <ol className="grid gap-4 lg:grid-cols-2">
-          {findings.pools.slice(0, shown).map((pool) => (
-            <li key={pool.poolId} className="space-y-1">
-              <RecurringPoolChart
-                pool={pool}
-                readings={readingsByPool.get(pool.poolId) ?? []}
-                treatments={treatments.filter((t) => t.poolId === pool.poolId)}
-                thresholds={levels}
-                metals={data.metals}
-              />
-              <p className="text-sm">
-                <TextLink to={`/pools/${pool.poolId}`}>Open {pool.street}</TextLink>{" "}
-                <span className="text-muted">
-                  · {pool.routeName ?? "no route"} · {pool.fillSourceName ?? "fill source not recorded"}
-                </span>
-              </p>
-            </li>
-          ))}
-        </ol>
+        <>
+          <section aria-labelledby="listed-pools" className="space-y-2">
+            <h2 id="listed-pools" className="text-lg font-semibold">
+              Listed pools{counts.listedPools > findings.pools.length ? ` (first ${findings.pools.length} of ${counts.listedPools})` : ""}
+            </h2>
+            <RecurringTable pools={findings.pools} />
+          </section>
+          <h2 className="text-lg font-semibold">Each pool's readings and treatments</h2>
+          <ol className="grid gap-4 lg:grid-cols-2">
+            {findings.pools.slice(0, shown).map((pool) => (
+              <li key={pool.poolId} className="space-y-1">
+                <RecurringPoolChart
+                  pool={pool}
+                  readings={readingsByPool.get(pool.poolId) ?? []}
+                  treatments={treatments.filter((t) => t.poolId === pool.poolId)}
+                  thresholds={levels}
+                  metals={data.metals}
+                />
+                <p className="text-sm">
+                  <TextLink to={`/pools/${pool.poolId}`}>Open {pool.street}</TextLink>{" "}
+                  <span className="text-muted">
+                    · {pool.routeName ?? "no route"} · {pool.fillSourceName ?? "fill source not recorded"}
+                  </span>
+                </p>
+              </li>
+            ))}
+          </ol>
+        </>
       )}
       {counts.listedPools > shown ? (
         <button type="button" onClick={() => setShown((n) => n + PAGE)} className="rounded-lg border border-line bg-white px-4 py-2 font-medium">
