@@ -1,9 +1,10 @@
-import { Link } from "react-router";
+import { data, Form, Link } from "react-router";
 import { type Metal, METALS } from "@analysis/metals/reading";
 import { requireArea } from "~/.server/guard";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { poolMetalPanel } from "~/.server/analytics/queries/pool-evidence";
 import { poolPage } from "~/.server/routebook/queries/pool-page";
+import { poolTestHistory } from "~/.server/routebook/queries/pool-history";
 import { CautionNote } from "~/components/caution-note";
 import { BalanceHistoryChart, MetalHistoryChart, type MetalPoint } from "~/components/charts/metal-history-chart";
 import { PoolMetalPanel } from "~/components/pool-metal-panel";
@@ -25,6 +26,7 @@ import {
   SURFACE_LABELS,
 } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
+import { readPoolHistoryQuery } from "~/lib/pool-history";
 import { roleMayOpen } from "~/lib/roles";
 import { idParam, notFoundPage } from "~/lib/route-params";
 import { judgeTest, testSaturationIndex } from "@analysis/chemistry/test-judgements";
@@ -37,10 +39,13 @@ export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderD
 export async function loader({ request, params, context }: Route.LoaderArgs) {
   const scope = requireArea(context, "pools");
   const poolId = idParam(params, "poolId", "pool");
-  const [detail, prefs, metalEvidence] = await Promise.all([
+  const filter = readPoolHistoryQuery(new URL(request.url));
+  if (!filter.ok) throw data(filter.message, { status: 400 });
+  const [detail, prefs, metalEvidence, history] = await Promise.all([
     poolPage(scope, poolId),
     companyPreferences(scope),
     poolMetalPanel(scope, poolId),
+    poolTestHistory(scope, poolId, filter.query),
   ]);
   if (!detail) notFoundPage("No pool with that number is on your routes.");
   const saved = Number(new URL(request.url).searchParams.get("saved"));
@@ -48,11 +53,73 @@ export async function loader({ request, params, context }: Route.LoaderArgs) {
     detail,
     prefs,
     metalEvidence,
+    history,
+    filter: filter.query,
     today: todayIn(prefs.timeZone),
     justSaved: detail.tests.some((t) => t.id === saved),
     mayEdit: roleMayOpen(scope.role, "routebookEdit"),
     mayLogVisit: roleMayOpen(scope.role, "visit"),
   };
+}
+
+const RECENT_TREATMENTS = 10;
+
+type HistoryFilterValues = { page: number; year: number | undefined; metalOnly: boolean };
+
+function historyHref(filter: HistoryFilterValues, page: number) {
+  const search = new URLSearchParams();
+  if (filter.year) search.set("year", String(filter.year));
+  if (filter.metalOnly) search.set("metal", "only");
+  if (page > 1) search.set("page", String(page));
+  const text = search.toString();
+  return `?${text}#tests`;
+}
+
+/** Year and "metal tests only": a plain GET form, so the filter lives in the URL and works without the script. */
+function HistoryFilter({ years, filter }: { years: number[]; filter: HistoryFilterValues }) {
+  return (
+    <Form method="get" className="mb-3 flex flex-wrap items-end gap-3 text-sm" preventScrollReset>
+      <label className="flex flex-col gap-1">
+        <span>Year</span>
+        <select name="year" defaultValue={filter.year ?? ""} className="rounded-lg border border-line bg-white px-2 py-2">
+          <option value="">All years</option>
+          {years.map((y) => (
+            <option key={y} value={y}>
+              {y}
+            </option>
+          ))}
+        </select>
+      </label>
+      <label className="flex min-h-10 items-center gap-2">
+        <input type="checkbox" name="metal" value="only" defaultChecked={filter.metalOnly} className="size-5 accent-verdigris-700" />
+        Metal tests only
+      </label>
+      <button type="submit" className="rounded-lg border border-verdigris-700 px-4 py-2 font-medium text-verdigris-900">
+        Show
+      </button>
+    </Form>
+  );
+}
+
+function HistoryPager({ page, pages, filter }: { page: number; pages: number; filter: HistoryFilterValues }) {
+  if (pages <= 1) return null;
+  return (
+    <nav aria-label="Water test pages" className="mt-2 flex items-center gap-4 text-sm">
+      {page > 1 ? (
+        <Link to={historyHref(filter, page - 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
+          Newer
+        </Link>
+      ) : null}
+      <span className="text-muted">
+        Page {page} of {pages}
+      </span>
+      {page < pages ? (
+        <Link to={historyHref(filter, page + 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
+          Older
+        </Link>
+      ) : null}
+    </nav>
+  );
 }
 
 const STATE_OF_TONE = { ok: "fine", watch: "between", alert: "above" } as const;
@@ -75,7 +142,7 @@ function observationText(t: {
 }
 
 export default function PoolPage({ loaderData }: Route.ComponentProps) {
-  const { detail, prefs, metalEvidence, today, justSaved, mayEdit, mayLogVisit } = loaderData;
+  const { detail, prefs, metalEvidence, history, filter, today, justSaved, mayEdit, mayLogVisit } = loaderData;
   const { pool, tests, treatments } = detail;
   const { units, timeZone, thresholds, balanceBand, currency } = prefs;
   const latest = tests[0];
@@ -229,45 +296,49 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
         ) : null}
       </section>
 
+      {metalEvidence ? <PoolMetalPanel evidence={metalEvidence} timeZone={prefs.timeZone} /> : null}
+
       <section aria-labelledby="history" className="space-y-4">
         <h2 id="history" className="text-lg font-semibold">Chemistry history</h2>
         <MetalHistoryChart points={metalPoints} thresholds={thresholds} />
         <BalanceHistoryChart points={balancePoints} band={balanceBand} />
       </section>
 
-      {metalEvidence ? <PoolMetalPanel evidence={metalEvidence} timeZone={prefs.timeZone} /> : null}
-
       <section aria-labelledby="tests">
-        <h2 id="tests" className="mb-2 text-lg font-semibold">Water tests ({tests.length})</h2>
-        {tests.length === 0 ? (
-          <p className="text-muted">No water tests yet.</p>
+        <h2 id="tests" className="mb-2 text-lg font-semibold">Water tests ({history.total})</h2>
+        <HistoryFilter years={history.years} filter={filter} />
+        {history.tests.length === 0 ? (
+          <p className="text-muted">{tests.length === 0 ? "No water tests yet." : "No water test matches this filter."}</p>
         ) : (
+          <>
           <ReadingTable
             caption="Water tests, newest first"
             headings={["Sampled", "pH", "Free Cl", "Alk.", "Hardness", "Temp.", "SI", "Copper", "Iron", "Manganese", "Seen"]}
           >
-            {tests.map((t) => {
+            {history.tests.map((t) => {
               const index = testSaturationIndex(t);
               return (
                 <tr key={t.id}>
-                  <td className="px-3 py-2 whitespace-nowrap">
+                  <td className="px-3 py-1 whitespace-nowrap">
                     {formatDateTime(t.sampledAt, timeZone)}
-                    {t.technicianName ? <span className="block text-xs text-muted">{t.technicianName}</span> : null}
+                    {t.technicianName ? <span className="text-xs text-muted"> · {t.technicianName}</span> : null}
                   </td>
-                  <td className="px-3 py-2">{t.ph?.toFixed(2) ?? "—"}</td>
-                  <td className="px-3 py-2">{t.freeChlorine?.toFixed(1) ?? "—"}</td>
-                  <td className="px-3 py-2">{t.totalAlkalinity?.toFixed(0) ?? "—"}</td>
-                  <td className="px-3 py-2">{t.calciumHardness?.toFixed(0) ?? "—"}</td>
-                  <td className="px-3 py-2 whitespace-nowrap">{formatTemperature(t.temperatureC, units)}</td>
-                  <td className="px-3 py-2">{index === null ? "—" : index.toFixed(2)}</td>
-                  <td className="px-3 py-2 whitespace-nowrap">{t.copper === null ? "—" : formatMgL(t.copper, t.copperBelowDetection)}</td>
-                  <td className="px-3 py-2 whitespace-nowrap">{t.iron === null ? "—" : formatMgL(t.iron, t.ironBelowDetection)}</td>
-                  <td className="px-3 py-2 whitespace-nowrap">{t.manganese === null ? "—" : formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
-                  <td className="min-w-48 px-3 py-2">{observationText(t)}</td>
+                  <td className="px-3 py-1">{t.ph?.toFixed(2) ?? "—"}</td>
+                  <td className="px-3 py-1">{t.freeChlorine?.toFixed(1) ?? "—"}</td>
+                  <td className="px-3 py-1">{t.totalAlkalinity?.toFixed(0) ?? "—"}</td>
+                  <td className="px-3 py-1">{t.calciumHardness?.toFixed(0) ?? "—"}</td>
+                  <td className="px-3 py-1 whitespace-nowrap">{formatTemperature(t.temperatureC, units)}</td>
+                  <td className="px-3 py-1">{index === null ? "—" : index.toFixed(2)}</td>
+                  <td className="px-3 py-1 whitespace-nowrap">{t.copper === null ? "—" : formatMgL(t.copper, t.copperBelowDetection)}</td>
+                  <td className="px-3 py-1 whitespace-nowrap">{t.iron === null ? "—" : formatMgL(t.iron, t.ironBelowDetection)}</td>
+                  <td className="px-3 py-1 whitespace-nowrap">{t.manganese === null ? "—" : formatMgL(t.manganese, t.manganeseBelowDetection)}</td>
+                  <td className="min-w-72 px-3 py-1">{observationText(t)}</td>
                 </tr>
               );
             })}
           </ReadingTable>
+          <HistoryPager page={history.page} pages={history.pages} filter={filter} />
+          </>
         )}
         <p className="mt-2 text-xs text-muted">
           SI: saturation index, pool-code factor-table form with alkalinity corrected for cyanuric acid. Since {formatDate(pool.createdAt, timeZone)} on Patina.
@@ -276,11 +347,12 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
 
       <section aria-labelledby="treatments">
         <h2 id="treatments" className="mb-2 text-lg font-semibold">Treatments ({treatments.length})</h2>
+        {treatments.length > RECENT_TREATMENTS ? <p className="mb-2 text-sm text-muted">The {RECENT_TREATMENTS} most recent.</p> : null}
         {treatments.length === 0 ? (
           <p className="text-muted">No treatments logged.</p>
         ) : (
           <ul className="divide-y divide-line rounded-xl border border-line bg-white text-sm">
-            {treatments.map((t) => (
+            {treatments.slice(0, RECENT_TREATMENTS).map((t) => (
               <li key={t.id} className="flex flex-wrap justify-between gap-2 px-4 py-2">
                 <span>
                   <span className="font-medium">{t.productName}</span>{" "}

@@ -112,7 +112,7 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
     { label: "Value", value: (r: { value: number }) => r.value.toFixed(2) },
   ];
   return (
-    <div className="space-y-4">
+    <div className="grid gap-4 lg:grid-cols-2">
       <PlotFigure
         title="pH at each test"
         caption="Scale from 6.5 to 8.5, wider when a reading falls outside."
