@@ -1,6 +1,7 @@
-import { METALS } from "@analysis/metals/reading";
+import { Link, useSearchParams } from "react-router";
+import { METALS, metalStatus, type MetalThresholds } from "@analysis/metals/reading";
 import { readAnalyticsRequest } from "~/.server/analytics/request";
-import { sourceHealth, type PoolMetalState } from "~/.server/analytics/queries/source-health";
+import { sourceHealth, type PoolMetalState, type SourceHealth } from "~/.server/analytics/queries/source-health";
 import { FilterBar, QueryState, useSearchObject } from "~/components/analytics/filter-bar";
 import { SourceTestChart } from "~/components/analytics/source-test-chart";
 import { TextLink } from "~/components/text-link";
@@ -23,8 +24,30 @@ export async function loader({ request, context }: Route.LoaderArgs) {
     search: loaderSearch(request, PARAMS),
     timeZone: scope.timeZone,
     technician: scope.role === "technician",
+    thresholds,
     report,
   };
+}
+
+/** Sources shown in full per page; the ones needing attention come first. */
+const SOURCES_PER_PAGE = 4;
+
+/** Why a source needs a look, one phrase each: a wave of episodes, pools with an open episode, fill water at or above the elevated level. */
+function attentionReasons(source: SourceHealth, thresholds: MetalThresholds): string[] {
+  const reasons = METALS.flatMap((metal) => {
+    const waves = source.alerts.filter((a) => a.metal === metal);
+    if (waves.length === 0) return [];
+    const latest = waves.reduce((a, b) => (b.lastOpeningAt > a.lastOpeningAt ? b : a));
+    const name = METAL_LABELS[metal].toLowerCase();
+    return [`${waves.length} ${waves.length === 1 ? "wave" : "waves"} of ${name} episodes (the latest: ${latest.poolCount} pools by ${latest.lastOpeningAt.slice(0, 10)})`];
+  });
+  const open = source.pools.filter((p) => METALS.some((m) => p.metals[m].state === "open")).length;
+  if (open > 0) reasons.push(`${open} ${open === 1 ? "pool has" : "pools have"} an open episode`);
+  const elevatedTest = [...source.sourceTests]
+    .reverse()
+    .flatMap((t) => METALS.flatMap((m) => (t[m] && metalStatus(t[m], thresholds[m]) === "elevated" ? [{ metal: m, value: t[m].value, on: t.sampledOn }] : [])))[0];
+  if (elevatedTest) reasons.push(`fill water ${METAL_LABELS[elevatedTest.metal].toLowerCase()} ${elevatedTest.value} mg/L on ${elevatedTest.on}`);
+  return reasons;
 }
 
 export const shouldRevalidate = onlyOnNewPath;
@@ -36,8 +59,20 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
   const params = useSearchObject(PARAMS);
   const query = useSeededQuery(analyticsQueries.sources(params), { search: loaderData.search, data: loaderData.report });
   const report = query.data;
-  const { timeZone, technician } = loaderData;
+  const { timeZone, technician, thresholds } = loaderData;
   const flagged = report.sources.filter((s) => s.flagged);
+  const attention = report.sources.map((s) => ({ source: s, reasons: attentionReasons(s, thresholds) }));
+  const ordered = [...attention.filter((a) => a.reasons.length > 0), ...attention.filter((a) => a.reasons.length === 0)];
+  const [search] = useSearchParams();
+  const pages = Math.max(1, Math.ceil(ordered.length / SOURCES_PER_PAGE));
+  const page = Math.min(pages, Math.max(1, Number.parseInt(search.get("page") ?? "1", 10) || 1));
+  const shown = ordered.slice((page - 1) * SOURCES_PER_PAGE, page * SOURCES_PER_PAGE);
+  const pageHref = (n: number) => {
+    const next = new URLSearchParams(search);
+    if (n > 1) next.set("page", String(n));
+    else next.delete("page");
+    return `?${next.toString()}#sources`;
+  };
 
   return (
     <div className="space-y-6">
@@ -65,10 +100,35 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
           {technician ? "No pool on your routes is linked to a fill source yet." : "No fill source is recorded in the route book yet."}
         </p>
       ) : (
+        <>
+        <section aria-labelledby="attention" className="space-y-2">
+          <h2 id="attention" className="text-lg font-semibold">Needs a look</h2>
+          {ordered[0]?.reasons.length ? (
+            <ul className="divide-y divide-line rounded-xl border border-line bg-white text-sm">
+              {ordered
+                .filter((a) => a.reasons.length > 0)
+                .map(({ source, reasons }, i) => (
+                  <li key={source.fillSourceId} className="px-4 py-2">
+                    <Link to={pageHref(Math.floor(i / SOURCES_PER_PAGE) + 1).replace("#sources", `#source-${source.fillSourceId}`)} className="font-medium text-verdigris-700 underline">
+                      {source.name}
+                    </Link>
+                    <span className="text-muted"> · {reasons.join("; ")}</span>
+                  </li>
+                ))}
+            </ul>
+          ) : (
+            <p className="rounded-xl border border-line bg-white p-4 text-muted">No source has a wave of episodes, a pool with an open episode or a fill-water test at or above the elevated level.</p>
+          )}
+        </section>
+        <h2 id="sources" className="text-lg font-semibold">
+          Every source ({ordered.length}){pages > 1 ? `, page ${page} of ${pages}` : ""}
+        </h2>
         <ul className="space-y-4">
-          {report.sources.map((source) => (
-            <li key={source.fillSourceId} className="space-y-3 rounded-xl border border-line bg-white p-4">
-              <div className="flex flex-wrap items-baseline justify-between gap-2">
+          {shown.map(({ source }) => (
+            <li key={source.fillSourceId} id={`source-${source.fillSourceId}`} className="rounded-xl border border-line bg-white p-4">
+              {/* Details on demand: a flagged source opens by itself, the others on a tap. */}
+              <details open={source.flagged} className="group space-y-3">
+              <summary className="flex cursor-pointer flex-wrap items-baseline justify-between gap-2">
                 <h2 className="text-lg font-semibold">
                   {source.name}
                   {source.flagged ? <span className="ml-2 rounded bg-alert px-2 py-0.5 text-xs font-semibold text-white">flagged</span> : null}
@@ -76,7 +136,7 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
                 <span className="text-sm text-muted">
                   {labelOf(SOURCE_KIND_LABELS, source.kind)} · {source.activePools} active pools in the company
                 </span>
-              </div>
+              </summary>
               {source.alerts.length > 0 ? (
                 <ul className="space-y-1 text-sm">
                   {source.alerts.map((a) => (
@@ -126,9 +186,28 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
               {source.sourceTests.length > 0 || source.flagged || source.kind !== "municipal" ? (
                 <SourceTestChart name={source.name} tests={source.sourceTests} />
               ) : null}
+              </details>
             </li>
           ))}
         </ul>
+        {pages > 1 ? (
+          <nav aria-label="Source pages" className="flex items-center gap-4 text-sm">
+            {page > 1 ? (
+              <Link to={pageHref(page - 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
+                Previous sources
+              </Link>
+            ) : null}
+            <span className="text-muted">
+              Page {page} of {pages}
+            </span>
+            {page < pages ? (
+              <Link to={pageHref(page + 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
+                Next sources
+              </Link>
+            ) : null}
+          </nav>
+        ) : null}
+        </>
       )}
       <p className="text-xs text-muted">
         A shared-source alert: at least 3 pools, and at least a quarter of the source's active pools, opened an episode of the same metal within
