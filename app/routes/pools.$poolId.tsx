@@ -33,6 +33,7 @@ import { judgeTest, testSaturationIndex } from "@analysis/chemistry/test-judgeme
 import { formatTemperature, formatVolume } from "~/lib/units";
 import type { Route } from "./+types/pools.$poolId";
 import { StateMark } from "~/components/state-mark";
+import { Pager } from "~/components/pager";
 
 export const meta: Route.MetaFunction = ({ loaderData }) => [{ title: `${loaderData?.detail.pool.street ?? "Pool"} · Patina` }];
 
@@ -98,27 +99,6 @@ function HistoryFilter({ years, filter }: { years: number[]; filter: HistoryFilt
         Show
       </button>
     </Form>
-  );
-}
-
-function HistoryPager({ page, pages, filter }: { page: number; pages: number; filter: HistoryFilterValues }) {
-  if (pages <= 1) return null;
-  return (
-    <nav aria-label="Water test pages" className="mt-2 flex items-center gap-4 text-sm">
-      {page > 1 ? (
-        <Link to={historyHref(filter, page - 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
-          Newer
-        </Link>
-      ) : null}
-      <span className="text-muted">
-        Page {page} of {pages}
-      </span>
-      {page < pages ? (
-        <Link to={historyHref(filter, page + 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
-          Older
-        </Link>
-      ) : null}
-    </nav>
   );
 }
 
@@ -337,7 +317,7 @@ export default function PoolPage({ loaderData }: Route.ComponentProps) {
               );
             })}
           </ReadingTable>
-          <HistoryPager page={history.page} pages={history.pages} filter={filter} />
+          <Pager label="Water test pages" page={history.page} pages={history.pages} href={(n) => historyHref(filter, n)} earlier="Newer" later="Older" />
           </>
         )}
         <p className="mt-2 text-xs text-muted">

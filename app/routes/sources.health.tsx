@@ -12,6 +12,7 @@ import { SOURCE_KIND_LABELS, labelOf } from "~/lib/labels";
 import { METAL_LABELS } from "@analysis/metals/names";
 import type { Route } from "./+types/sources.health";
 import { StateMark, type StateLevel } from "~/components/state-mark";
+import { Pager } from "~/components/pager";
 
 export const meta: Route.MetaFunction = () => [{ title: "Source health · Patina" }];
 
@@ -190,23 +191,7 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
             </li>
           ))}
         </ul>
-        {pages > 1 ? (
-          <nav aria-label="Source pages" className="flex items-center gap-4 text-sm">
-            {page > 1 ? (
-              <Link to={pageHref(page - 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
-                Previous sources
-              </Link>
-            ) : null}
-            <span className="text-muted">
-              Page {page} of {pages}
-            </span>
-            {page < pages ? (
-              <Link to={pageHref(page + 1)} preventScrollReset className="font-medium text-verdigris-700 underline">
-                Next sources
-              </Link>
-            ) : null}
-          </nav>
-        ) : null}
+        <Pager label="Source pages" page={page} pages={pages} href={pageHref} earlier="Previous sources" later="Next sources" />
         </>
       )}
       <p className="text-xs text-muted">
