@@ -11,6 +11,18 @@ type Flag = keyof typeof FLAG_WORDS;
 const flagOf = (g: GroupFigure): Flag => (g.tooSmallToJudge ? "small" : g.risky ? "risky" : "ordinary");
 const fixed = (n: number | null, digits = 2) => (n === null ? "—" : n.toFixed(digits));
 
+/** The main result in words: the risky group furthest above the rest, or that none stands apart. */
+export function groupReading(groups: readonly GroupFigure[]): string {
+  const risky = groups.filter((g) => g.risky && !g.tooSmallToJudge && g.rateRatio.lower !== null);
+  if (risky.length === 0) return "No group stands apart: every group's interval reaches the rest of the route book's rate.";
+  const top = risky.reduce((a, b) => ((b.rateRatio.lower ?? 0) > (a.rateRatio.lower ?? 0) ? b : a));
+  const lower = top.rateRatio.lower!.toFixed(1);
+  if (top.rateRatio.estimate === null) {
+    return `${top.label}: at least ${lower} times the rest of the route book's rate (95%); the rest had no opening to compare with.`;
+  }
+  return `${top.label}: ${top.rateRatio.estimate.toFixed(1)} times the rest of the route book's rate (at least ${lower} times, 95%).`;
+}
+
 /** Episode openings per pool-year for each group, with its exact 95% interval. */
 export function GroupRateChart({ groups, dimension, overallRate }: { groups: GroupFigure[]; dimension: string; overallRate: number | null }) {
   const rows = useMemo(
@@ -53,6 +65,7 @@ export function GroupRateChart({ groups, dimension, overallRate }: { groups: Gro
     <PlotFigure
       title={`Metal episodes per pool-year, by ${dimension.toLowerCase()}`}
       caption="Dot: episode openings per pool-year observed; bar: exact 95% interval (Poisson). Dashed line: the whole route book's rate. Groups with fewer than 3 pools are shown but too small to judge."
+      reading={groupReading(groups)}
       plot={plot}
       rows={rows}
       height={layout.height}

@@ -28,6 +28,11 @@ export function OpenEpisodesChart({ open }: { open: Record<Metal, number> }) {
   return (
     <PlotFigure
       title="Open metal episodes, by metal (pools)"
+      reading={
+        total === 0
+          ? "No pool has an open episode."
+          : `Most open: ${rows.reduce((a, b) => (b.open > a.open ? b : a)).metal.toLowerCase()}, ${Math.max(...rows.map((r) => r.open))} of ${total} open episodes.`
+      }
       caption="An episode opens at a reading at or above the elevated level and stays open until a reading below the clear level."
       plot={plot}
       rows={total === 0 ? [] : rows}
