@@ -2,17 +2,15 @@ import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { browserPerFile } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
-import { signInAs } from "../fixtures/sign-in";
+import { firstPoolPathAs, signInAs } from "../fixtures/sign-in";
 
 const browser = browserPerFile();
 
 const WIDTHS = [1280, 390] as const;
 
-async function ownerAt(width: number): Promise<Page> {
+async function pageAt(width: number): Promise<Page> {
   const context = await browser().newContext({ viewport: { width, height: 900 } });
-  const page = await context.newPage();
-  await signInAs(page, "owner", "/pools");
-  return page;
+  return context.newPage();
 }
 
 function chart(page: Page, title: string) {
@@ -44,14 +42,13 @@ async function cutOffTexts(page: Page, title: string): Promise<string[]> {
 }
 
 async function firstPoolPage(page: Page) {
-  const href = await page.getByRole("table", { name: "Pools" }).locator("tbody a").first().getAttribute("href");
-  await page.goto(`${BROWSER_TEST_URL}${href}`);
+  await page.goto(`${BROWSER_TEST_URL}${await firstPoolPathAs(page, "owner")}`);
   await chart(page, "pH at each test").locator("svg").first().waitFor();
 }
 
 describe.each(WIDTHS)("charts at %i px", (width) => {
   it("the pool page draws pH and the saturation index each on its own scale, and cuts no label off", async () => {
-    const page = await ownerAt(width);
+    const page = await pageAt(width);
     await firstPoolPage(page);
 
     const ph = await yTicks(page, "pH at each test");
@@ -76,8 +73,8 @@ describe.each(WIDTHS)("charts at %i px", (width) => {
   });
 
   it("the overview's monthly chart is a share in %, with its reading in words", async () => {
-    const page = await ownerAt(width);
-    await page.goto(`${BROWSER_TEST_URL}/overview`);
+    const page = await pageAt(width);
+    await signInAs(page, "owner", "/overview");
     const title = "Share of metal tests at or above the elevated level, per month";
     const ticks = await yTicks(page, title);
     expect(Math.min(...ticks)).toBe(0);

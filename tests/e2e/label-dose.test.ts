@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
-import { signInAs } from "../fixtures/sign-in";
+import { firstPoolPathAs } from "../fixtures/sign-in";
 
 const browser = browserPerFile();
 
@@ -9,10 +9,8 @@ describe("the label dose on the visit form", () => {
   it("shows the label amount for the pool's volume when a product is picked, without filling in the amount", async () => {
     const context = await phoneContext(browser());
     const page = await context.newPage();
-    await signInAs(page, "tech1", "/pools");
-    await page.getByRole("heading", { level: 1, name: "Pools" }).waitFor();
-    const href = await page.getByRole("table", { name: "Pools" }).locator("tbody a").first().getAttribute("href");
-    await page.goto(`${BROWSER_TEST_URL}${href!.replace("/pools/", "/visit/")}`);
+    const poolPath = await firstPoolPathAs(page, "tech1");
+    await page.goto(`${BROWSER_TEST_URL}${poolPath.replace("/pools/", "/visit/")}`);
     await page.getByRole("button", { name: "Save visit" }).waitFor();
     await page.waitForLoadState("networkidle");
 

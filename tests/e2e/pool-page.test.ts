@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { browserPerFile } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
-import { signInAs } from "../fixtures/sign-in";
+import { firstPoolPathAs } from "../fixtures/sign-in";
 
 const browser = browserPerFile();
 
@@ -9,9 +9,7 @@ describe("the pool page at 1280 px", () => {
   it("leads with the latest test, pages its history 25 at a time, and stays under 4,000 px tall", async () => {
     const context = await browser().newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
-    await signInAs(page, "owner", "/pools");
-    const href = await page.getByRole("table", { name: "Pools" }).locator("tbody a").first().getAttribute("href");
-    await page.goto(`${BROWSER_TEST_URL}${href}`);
+    await page.goto(`${BROWSER_TEST_URL}${await firstPoolPathAs(page, "owner")}`);
     const history = page.getByRole("table", { name: "Water tests, newest first" });
     await history.waitFor();
     await page.waitForLoadState("networkidle");

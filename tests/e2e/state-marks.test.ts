@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { BROWSER_TEST_URL } from "../fixtures/server";
-import { signInAs } from "../fixtures/sign-in";
+import { firstPoolPathAs } from "../fixtures/sign-in";
 
 const browser = browserPerFile();
 
@@ -9,9 +9,7 @@ describe("states are marked by shape and word, colour second", () => {
   it("on the pool page's latest test and on source health", async () => {
     const context = await phoneContext(browser());
     const page = await context.newPage();
-    await signInAs(page, "owner", "/pools");
-    const href = await page.getByRole("table", { name: "Pools" }).locator("tbody a").first().getAttribute("href");
-    await page.goto(`${BROWSER_TEST_URL}${href}`);
+    await page.goto(`${BROWSER_TEST_URL}${await firstPoolPathAs(page, "owner")}`);
     const table = page.getByRole("table", { name: "Latest test, each value judged" });
     await table.waitFor();
     const marks = await table.locator("[data-state]").evaluateAll((spans) =>
