@@ -3,7 +3,8 @@
 // DATABASE_URL picks the database (default: the local development database).
 // --causes also prints where the metal causes were planted, to check analytics against.
 import { parseArgs } from "node:util";
-import { analyzeTables, createDatabase, createPool } from "../../app/.server/db/client";
+import { keepCompanyCurrent } from "../../app/.server/analytics/kept/versions";
+import { analyzeTables, closeDatabase, createDatabase, createPool } from "../../app/.server/db/client";
 import { localDatabaseUrl } from "../../app/.server/db/local-url";
 import { seedDemo, type SeedSummary } from "./insert";
 import { buildRouteBook } from "./routebook";
@@ -41,6 +42,8 @@ function printCounts(summary: SeedSummary) {
 }
 
 const url = process.env.DATABASE_URL ?? DEFAULT_URL;
+// The kept analytics are built through the server's own database access, which reads DATABASE_URL.
+process.env.DATABASE_URL = url;
 const pool = createPool(url);
 try {
   const db = createDatabase(pool);
@@ -67,6 +70,10 @@ try {
     });
     // Fresh statistics, so the first analytics queries get the right join order.
     await analyzeTables(pool);
+    // The kept analytics, so the first pages answer from them.
+    const keptStarted = Date.now();
+    await keepCompanyCurrent(summary.companyId);
+    console.log(`[seed] kept analytics built in ${((Date.now() - keptStarted) / 1000).toFixed(1)} s`);
     const seconds = ((Date.now() - started) / 1000).toFixed(1);
     console.log(`[seed] seeded ${options.pools} pools over ${options.years} years (seed ${options.seed}) in ${seconds} s`);
     printCounts(summary);
@@ -80,4 +87,5 @@ try {
   process.exitCode = 1;
 } finally {
   await pool.end();
+  await closeDatabase();
 }

@@ -3,8 +3,11 @@ import { and, eq } from "drizzle-orm";
 import { ANALYTES, type AnalyteField, METAL_FIELDS } from "~/lib/imports/fields";
 import { readImportOptions } from "~/lib/imports/options";
 import { accountKey } from "~/lib/imports/match-keys";
+import { drizzle } from "drizzle-orm/mysql2";
 import { analyzeTables, db, pool as connectionPool } from "../db/client";
+import * as schema from "../db/schema";
 import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
+import { keepPoolsInStep, lockPoolsForKeeping } from "../analytics/kept/keep-pools";
 import type { Scope } from "../scope";
 import { type ImportPlan, planImport, type PlanSummary } from "./plan";
 import { PlannedRows } from "./planned-rows";
@@ -75,6 +78,16 @@ function rowsWith(rows: PlannedRows, flag: number): Uint32Array {
   return out;
 }
 
+/** The pools already in the route book that the upload adds tests to: their kept results change. */
+function existingPoolsOf(rows: PlannedRows): number[] {
+  const pools = new Set<number>();
+  for (let i = 0; i < rows.length; i++) {
+    const pool = rows.pool[i]!;
+    if (pool > 0 && rows.has(i, PlannedRows.TEST_IS_NEW)) pools.add(pool);
+  }
+  return [...pools];
+}
+
 /**
  * Stores every accepted row of the upload as one import batch, in one
  * transaction: a failure anywhere (a refused insert, a lost connection, a
@@ -133,10 +146,13 @@ async function commitClaimed(
   try {
     const [[{ connectionId }]] = (await connection.query("SELECT CONNECTION_ID() AS connectionId")) as unknown as [[{ connectionId: number }]];
     await connection.beginTransaction();
+    const keeper = drizzle(connection, { schema, mode: "default" });
+    const rows = plan.planned;
+    const touchedPools = existingPoolsOf(rows);
+    await lockPoolsForKeeping(keeper, touchedPools);
     const batchId = await insertBatch(connection, scope, upload.fileName, upload.fileSha256, plan);
     const newPools = await createPools(connection, scope, plan);
     const newProducts = await createProducts(connection, scope, plan);
-    const rows = plan.planned;
     const poolIdOf = (i: number) => {
       const pool = rows.pool[i]!;
       return pool > 0 ? pool : newPools.get(rows.newPoolKeys[-pool - 1]!)!;
@@ -188,6 +204,8 @@ async function commitClaimed(
       await reportProgress(upload.id, { rowsDone: stored });
       await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
     }
+
+    await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()]);
 
     // Fenced by the claim token: a commit taken over after going quiet rolls back here.
     const finish = finishClaimSql(claim);
@@ -276,12 +294,16 @@ export async function undoBatch(scope: Scope, batchId: number): Promise<{ ok: tr
       .for("update");
     if (!batch) return { ok: false as const, status: 404 as const, message: "No import batch with that number in your company." };
     if (batch.status === "undone") return { ok: false as const, status: 409 as const, message: "This import has already been undone." };
+    const touched = await tx.selectDistinct({ poolId: waterTests.poolId }).from(waterTests).where(eq(waterTests.importBatchId, batchId));
+    const touchedPools = touched.map((t) => t.poolId);
+    await lockPoolsForKeeping(tx, touchedPools);
     const [removedTreatments] = await tx
       .delete(treatments)
       .where(and(eq(treatments.importBatchId, batchId), eq(treatments.companyId, scope.companyId)));
     const [removedTests] = await tx
       .delete(waterTests)
       .where(and(eq(waterTests.importBatchId, batchId), eq(waterTests.companyId, scope.companyId)));
+    await keepPoolsInStep(tx, scope.companyId, touchedPools);
     await tx.update(importBatches).set({ status: "undone", undoneAt: new Date() }).where(eq(importBatches.id, batchId));
     await tx
       .update(importUploads)

@@ -1,15 +1,16 @@
 import { count, eq, max, min } from "drizzle-orm";
-import { analyseMetalHistory, type MetalHistory, type MetalTest } from "@analysis/metals/episodes";
+import { analyseMetalHistory, type MetalHistory } from "@analysis/metals/episodes";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
 import { stopIfAbandoned } from "../../request-context";
+import { keptMetalHistory, keptSpans, keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { metalReadings } from "./metal-readings";
 import { poolProfiles, type RouteBookProfiles } from "./pool-profiles";
 import { testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
-export type ObservedSpan = { poolId: string; firstAt: number; lastAt: number; tests: number };
+export type ObservedSpan = { poolId: string; firstAt: number; lastAt: number; tests: number; latestBalanceAt?: number | null };
 
 /**
  * Each pool's first and last test in the window (any analyte): the time it
@@ -26,7 +27,8 @@ async function observedSpans(scope: Scope, window: TimeWindow): Promise<Observed
     .from(waterTests)
     .innerJoin(pools, eq(pools.id, waterTests.poolId))
     .where(testsInScope({ scope }, window))
-    .groupBy(waterTests.poolId);
+    .groupBy(waterTests.poolId)
+    .orderBy(waterTests.poolId);
   return rows
     .filter((r) => r.firstAt !== null && r.lastAt !== null)
     .map((r) => ({ poolId: String(r.poolId), firstAt: r.firstAt!.getTime(), lastAt: r.lastAt!.getTime(), tests: r.tests }));
@@ -40,14 +42,31 @@ async function observedSpans(scope: Scope, window: TimeWindow): Promise<Observed
 export type MetalDataset = {
   metals: readonly Metal[];
   thresholds: MetalThresholds;
-  readings: MetalTest[];
   book: RouteBookProfiles;
   spans: ObservedSpan[];
   history: MetalHistory;
+  source: AnswerSource;
 };
 
 export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): Promise<MetalDataset> {
   const metals = params.metal ? [params.metal] : METALS;
+  const versionId = await keptVersionFor(scope.companyId, params);
+  if (versionId !== null) {
+    const tenant = { scope };
+    const [history, book, spans] = await Promise.all([
+      keptMetalHistory(tenant, versionId, params.metal ?? "all"),
+      poolProfiles(tenant),
+      keptSpans(tenant, versionId, "any"),
+    ]);
+    return {
+      metals,
+      thresholds: params.thresholds,
+      book,
+      spans: spans.map((s) => ({ poolId: s.poolId, firstAt: s.firstTestAt, lastAt: s.lastTestAt, tests: s.tests, latestBalanceAt: s.latestBalanceAt })),
+      history,
+      source: "kept",
+    };
+  }
   const [readings, book, spans] = await Promise.all([
     metalReadings({ scope }, { window: params.window, metals }),
     poolProfiles({ scope }),
@@ -55,5 +74,5 @@ export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): P
   ]);
   stopIfAbandoned();
   const history = analyseMetalHistory(readings, { thresholds: params.thresholds, metals });
-  return { metals, thresholds: params.thresholds, readings, book, spans, history };
+  return { metals, thresholds: params.thresholds, book, spans, history, source: "recomputed" };
 }

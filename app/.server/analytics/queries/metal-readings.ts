@@ -69,7 +69,8 @@ export async function waterTestReadings(tenant: Tenant, query: WaterTestQuery = 
         query.where,
       ),
     )
-    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt))
+    // The id settles tests taken at the same instant, so kept and recomputed answers read them alike.
+    .orderBy(asc(waterTests.poolId), asc(waterTests.sampledAt), asc(waterTests.id))
     .toSQL();
   // Hundreds of thousands of rows on a large route book: read them as arrays with
   // the driver's own date and decimal parsing, which costs a fraction of the query

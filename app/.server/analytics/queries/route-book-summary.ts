@@ -5,6 +5,7 @@ import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
+import type { AnswerSource } from "../kept/read-kept";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
@@ -13,6 +14,7 @@ import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } 
 export type BalanceShare = { pools: number; share: number | null };
 
 export type RouteBookSummary = {
+  source: AnswerSource;
   counts: { activePools: number; routes: number; fillSources: number; tests: number; metalTests: number; poolsTested: number };
   openEpisodes: Record<Metal, number>;
   /** Pools with two or more openings of one metal within the recurrence window. */
@@ -51,6 +53,17 @@ function poolTestFigures(scope: Scope, window: TimeWindow) {
     .groupBy(waterTests.poolId);
 }
 
+/** The same figures from the kept spans: every test, the metal tests, the latest complete balance test. */
+function keptTestFigures(dataset: MetalDataset) {
+  const metalTests = new Map(dataset.history.pools.map((p) => [p.poolId, p.tests]));
+  return dataset.spans.map((span) => ({
+    poolId: Number(span.poolId),
+    tests: span.tests,
+    metalTests: metalTests.get(span.poolId) ?? 0,
+    latestBalanceAt: span.latestBalanceAt ? new Date(span.latestBalanceAt) : null,
+  }));
+}
+
 async function poolCounts(scope: Scope) {
   const [row] = await db()
     .select({
@@ -85,11 +98,11 @@ export async function routeBookSummary(
   params: AnalyticsParams & { balanceBand: BalanceBand },
   loaded?: MetalDataset,
 ): Promise<RouteBookSummary> {
-  const [poolFigures, perPool, dataset] = await Promise.all([
+  const [poolFigures, dataset] = await Promise.all([
     poolCounts(scope),
-    poolTestFigures(scope, params.window),
     loaded ? Promise.resolve(loaded) : loadMetalDataset(scope, { ...params, metal: null }),
   ]);
+  const perPool = dataset.source === "kept" ? keptTestFigures(dataset) : await poolTestFigures(scope, params.window);
   const latest = perPool.flatMap((p) => (p.latestBalanceAt ? [{ poolId: p.poolId, at: p.latestBalanceAt }] : []));
   const balanceRows = await balanceTestsAt(scope, latest);
   const figures = {
@@ -117,6 +130,7 @@ export async function routeBookSummary(
   const classified = tally.corrosive + tally.balanced + tally["scale-forming"];
   const share = (n: number): BalanceShare => ({ pools: n, share: classified > 0 ? n / classified : null });
   return {
+    source: dataset.source,
     counts: figures,
     openEpisodes,
     recurringPools: recurring.size,

@@ -1,5 +1,6 @@
 import { eq } from "drizzle-orm";
 import type { SettingsInput } from "~/lib/forms/settings";
+import { keepCompanyCurrent } from "../../analytics/kept/versions";
 import { db } from "../../db/client";
 import { companies } from "../../db/schema";
 import type { Scope } from "../../scope";
@@ -28,5 +29,7 @@ export async function updateCompanySettings(scope: Scope, input: SettingsInput):
       .set({ settings, unitSystem: input.unitSystem, timeZone: input.timeZone })
       .where(eq(companies.id, scope.companyId));
   });
+  // New levels: the kept results are built again under them, in the background; until then answers are worked out from the tests.
+  void keepCompanyCurrent(scope.companyId).catch((error: unknown) => console.error(`[kept] build for company ${scope.companyId} failed`, error));
   return { ok: true, id: scope.companyId };
 }

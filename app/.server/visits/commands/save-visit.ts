@@ -1,4 +1,5 @@
 import { setTimeout as sleep } from "node:timers/promises";
+import { keepPoolsInStep, lockPoolsForKeeping } from "../../analytics/kept/keep-pools";
 import { and, eq, inArray } from "drizzle-orm";
 import type { VisitInput } from "~/lib/forms/visit";
 import { db } from "../../db/client";
@@ -99,6 +100,7 @@ async function storeVisit(
 ): Promise<number> {
   const r = input.readings;
   return db().transaction(async (tx) => {
+    await lockPoolsForKeeping(tx, [poolId]);
     const [test] = await tx
       .insert(waterTests)
       .values({
@@ -137,6 +139,7 @@ async function storeVisit(
         })),
       );
     }
+    await keepPoolsInStep(tx, scope.companyId, [poolId]);
     return id;
   });
 }

@@ -1,0 +1,102 @@
+import {
+  analyseMetalHistory,
+  type Episode,
+  type MetalHistory,
+  type MetalTest,
+  type PoolObservation,
+  type RecurrenceFinding,
+} from "./episodes";
+import { METALS, type Metal, type MetalThresholds } from "./reading";
+
+/**
+ * How tests are read for a metal history: "all" with every metal (a pool's
+ * tests are those with any metal measured) or one metal alone (only the tests
+ * where it was measured). Episode lengths and test counts differ between the
+ * two, so both are kept.
+ */
+export type ReadAs = "all" | Metal;
+export const READ_AS: readonly ReadAs[] = ["all", ...METALS];
+
+export type KeptEpisode = Episode & { readAs: ReadAs; seq: number };
+export type KeptSpan = PoolObservation & { readAs: ReadAs | "any"; latestBalanceAt?: number | null };
+
+/** A test as kept results read it: its metals, and whether it carries the saturation index's four inputs. */
+export type KeptInputTest = MetalTest & { balanceComplete?: boolean };
+
+export const metalsReadAs = (readAs: ReadAs): readonly Metal[] => (readAs === "all" ? METALS : [readAs]);
+
+/** The tests as they are read one way: only those with the metal(s) measured, other metals left out. */
+export function testsReadAs(tests: readonly MetalTest[], readAs: ReadAs): MetalTest[] {
+  if (readAs === "all") return tests.filter((t) => t.copper || t.iron || t.manganese);
+  const read: MetalTest[] = [];
+  for (const t of tests) {
+    const reading = t[readAs];
+    if (reading) read.push({ id: t.id, poolId: t.poolId, takenAt: t.takenAt, [readAs]: reading });
+  }
+  return read;
+}
+
+/**
+ * What is kept of some pools' tests under one set of levels: each reading's
+ * episodes in the order the analysis finds them, and each pool's observed
+ * span (every test, with its latest complete balance test, and each
+ * reading). `tests` holds every test of the pools
+ * (any analyte), ordered by pool, time and id.
+ */
+export function keptRowsOf(tests: readonly KeptInputTest[], thresholds: MetalThresholds): { episodes: KeptEpisode[]; spans: KeptSpan[] } {
+  const episodes: KeptEpisode[] = [];
+  const spans: KeptSpan[] = [];
+  let current = null as KeptSpan | null;
+  for (const t of tests) {
+    if (current?.poolId !== t.poolId) {
+      current = { readAs: "any", poolId: t.poolId, firstTestAt: t.takenAt, lastTestAt: t.takenAt, tests: 0, latestBalanceAt: null };
+      spans.push(current);
+    }
+    current.lastTestAt = t.takenAt;
+    current.tests++;
+    if (t.balanceComplete) current.latestBalanceAt = t.takenAt;
+  }
+  for (const readAs of READ_AS) {
+    const history = analyseMetalHistory(testsReadAs(tests, readAs), { thresholds, metals: metalsReadAs(readAs) });
+    let seq = 0;
+    let pool: string | null = null;
+    for (const e of history.episodes) {
+      seq = e.poolId === pool ? seq + 1 : 0;
+      pool = e.poolId;
+      episodes.push({ ...e, readAs, seq });
+    }
+    for (const p of history.pools) spans.push({ ...p, readAs });
+  }
+  return { episodes, spans };
+}
+
+/**
+ * The metal history the analysis would find, rebuilt from kept rows of one
+ * reading (episodes ordered by pool and seq, spans ordered by pool). Openings
+ * and recurrence are the episodes' own; suspicions need the hardness
+ * endpoint, which route-book reads leave out, so there are none.
+ */
+export function historyFromKept(episodes: readonly Episode[], spans: readonly PoolObservation[], metals: readonly Metal[]): MetalHistory {
+  const recurrence: RecurrenceFinding[] = [];
+  const byPool = new Map<string, Episode[]>();
+  for (const e of episodes) {
+    const list = byPool.get(e.poolId);
+    if (list) list.push(e);
+    else byPool.set(e.poolId, [e]);
+  }
+  for (const span of spans) {
+    const poolEpisodes = byPool.get(span.poolId);
+    if (!poolEpisodes) continue;
+    for (const metal of metals) {
+      let openings = 0;
+      let firstRecurrenceAt: number | null = null;
+      for (const e of poolEpisodes) {
+        if (e.metal !== metal) continue;
+        openings++;
+        if (e.recurrence && (firstRecurrenceAt === null || e.openedAt < firstRecurrenceAt)) firstRecurrenceAt = e.openedAt;
+      }
+      if (openings > 0) recurrence.push({ poolId: span.poolId, metal, openings, recurrent: firstRecurrenceAt !== null, firstRecurrenceAt });
+    }
+  }
+  return { episodes: [...episodes], recurrence, suspicions: [], pools: [...spans] };
+}

@@ -1,0 +1,118 @@
+import { sql, type SQL } from "drizzle-orm";
+import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
+import type { MetalThresholds } from "@analysis/metals/reading";
+import type { Database } from "../../db/client";
+import { utcDate } from "../../db/values";
+import { metalReading } from "../queries/metal-readings";
+
+/** A connection inside a transaction: the drizzle transaction of a write, or a drizzle over the import's connection. */
+export type Writer = Pick<Database, "execute">;
+
+type Row = Record<string, unknown>;
+
+async function rowsOf(writer: Writer, statement: SQL): Promise<Row[]> {
+  const [rows] = (await writer.execute(statement)) as unknown as [Row[]];
+  return rows;
+}
+
+const idList = (ids: readonly number[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `);
+
+/**
+ * Locks the pools a write is about to change, in id order, before it changes
+ * any test: two writes on one pool then keep its results one after the other,
+ * each seeing the other's tests, and never deadlock on each other.
+ */
+export async function lockPoolsForKeeping(writer: Writer, poolIds: readonly number[]): Promise<void> {
+  const ids = [...new Set(poolIds)].sort((a, b) => a - b);
+  for (let from = 0; from < ids.length; from += 1000) {
+    await writer.execute(sql`SELECT id FROM pools WHERE id IN (${idList(ids.slice(from, from + 1000))}) ORDER BY id FOR UPDATE`);
+  }
+}
+
+export type LiveVersion = { id: number; levels: MetalThresholds };
+
+/**
+ * The company's versions that writes keep in step: the one answers come from
+ * and any being built. A locking read, so a version whose build started after
+ * this transaction began is seen too.
+ */
+export async function liveVersions(writer: Writer, companyId: number): Promise<LiveVersion[]> {
+  const rows = await rowsOf(
+    writer,
+    sql`SELECT id, levels FROM kept_versions WHERE company_id = ${companyId} AND state IN ('building', 'ready') ORDER BY id LOCK IN SHARE MODE`,
+  );
+  return rows.map((r) => ({ id: Number(r.id), levels: (typeof r.levels === "string" ? JSON.parse(r.levels) : r.levels) as MetalThresholds }));
+}
+
+/**
+ * Every test of the pools (any analyte) with its metals, ordered by pool, time
+ * and id: the order the analysis reads them in. A locking read, so it sees the
+ * latest committed tests whatever the transaction's snapshot.
+ */
+export async function poolTests(writer: Writer, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
+  if (poolIds.length === 0) return [];
+  const rows = await rowsOf(
+    writer,
+    sql`SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
+        (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete
+      FROM water_tests WHERE company_id = ${companyId} AND pool_id IN (${idList(poolIds)})
+      ORDER BY pool_id, sampled_at, id ${lock ? sql`LOCK IN SHARE MODE` : sql``}`,
+  );
+  return rows.map((r) => ({
+    id: String(r.id),
+    poolId: String(r.pool_id),
+    takenAt: utcDate(r.sampled_at)!.getTime(),
+    copper: metalReading(r.copper === null ? null : Number(r.copper), Number(r.copper_below_detection) === 1),
+    iron: metalReading(r.iron === null ? null : Number(r.iron), Number(r.iron_below_detection) === 1),
+    manganese: metalReading(r.manganese === null ? null : Number(r.manganese), Number(r.manganese_below_detection) === 1),
+    balanceComplete: Number(r.balance_complete) === 1,
+  }));
+}
+
+const at = (ms: number | null) => (ms === null ? null : new Date(ms));
+
+async function insertEpisodes(writer: Writer, versionId: number, companyId: number, episodes: readonly KeptEpisode[]) {
+  for (let from = 0; from < episodes.length; from += 500) {
+    const values = episodes.slice(from, from + 500).map(
+      (e) => sql`(${versionId}, ${companyId}, ${Number(e.poolId)}, ${e.readAs}, ${e.seq}, ${e.metal}, ${at(e.openedAt)}, ${Number(e.openedByTestId)},
+        ${at(e.closedAt)}, ${e.closedByTestId === null ? null : Number(e.closedByTestId)}, ${at(e.endAt)}, ${e.peak}, ${e.testCount}, ${e.chronic}, ${e.recurrence})`,
+    );
+    await writer.execute(sql`INSERT INTO kept_episodes (version_id, company_id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id,
+      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence) VALUES ${sql.join(values, sql`, `)}`);
+  }
+}
+
+async function insertSpans(writer: Writer, versionId: number, companyId: number, spans: readonly KeptSpan[]) {
+  for (let from = 0; from < spans.length; from += 1000) {
+    const values = spans
+      .slice(from, from + 1000)
+      .map((s) => sql`(${versionId}, ${Number(s.poolId)}, ${s.readAs}, ${companyId}, ${at(s.firstTestAt)}, ${at(s.lastTestAt)}, ${s.tests}, ${at(s.latestBalanceAt ?? null)})`);
+    await writer.execute(sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at) VALUES ${sql.join(values, sql`, `)}`);
+  }
+}
+
+/** Replaces one version's kept rows of these pools with those worked out from their tests. */
+export async function replaceKeptRows(writer: Writer, companyId: number, version: LiveVersion, poolIds: readonly number[], tests: readonly KeptInputTest[]) {
+  for (let from = 0; from < poolIds.length; from += 1000) {
+    const ids = idList(poolIds.slice(from, from + 1000));
+    await writer.execute(sql`DELETE FROM kept_episodes WHERE version_id = ${version.id} AND pool_id IN (${ids})`);
+    await writer.execute(sql`DELETE FROM kept_pool_spans WHERE version_id = ${version.id} AND pool_id IN (${ids})`);
+  }
+  const rows = keptRowsOf(tests, version.levels);
+  await insertEpisodes(writer, version.id, companyId, rows.episodes);
+  await insertSpans(writer, version.id, companyId, rows.spans);
+}
+
+/**
+ * Keeps the results of the pools a write changed in step with their tests, in
+ * the write's own transaction (after lockPoolsForKeeping): each pool is worked
+ * out again from its own tests, for every live version of the levels.
+ */
+export async function keepPoolsInStep(writer: Writer, companyId: number, poolIds: readonly number[]): Promise<void> {
+  const ids = [...new Set(poolIds)].sort((a, b) => a - b);
+  if (ids.length === 0) return;
+  const versions = await liveVersions(writer, companyId);
+  if (versions.length === 0) return;
+  const tests = await poolTests(writer, companyId, ids);
+  for (const version of versions) await replaceKeptRows(writer, companyId, version, ids, tests);
+}

@@ -1,0 +1,105 @@
+import { and, asc, eq, inArray } from "drizzle-orm";
+import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@analysis/metals/episodes";
+import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
+import type { MetalThresholds } from "@analysis/metals/reading";
+import { db } from "../../db/client";
+import { keptEpisodes, keptPoolSpans, pools } from "../../db/schema";
+import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
+import { readyVersionFor } from "./versions";
+
+/** Where an answer came from: the kept results, or the tests read and worked out for this request. */
+export type AnswerSource = "kept" | "recomputed";
+
+/**
+ * The kept version that can answer a request, or null. Kept results cover
+ * all of a pool's history under the company's own levels; a date window or
+ * levels laid over the settings are answered from the tests.
+ */
+export async function keptVersionFor(companyId: number, request: { window?: TimeWindow; thresholds: MetalThresholds }): Promise<number | null> {
+  if (request.window && (request.window.from || request.window.to)) return null;
+  return readyVersionFor(companyId, request.thresholds);
+}
+
+/** Tenant rows of a kept table: the company and, for a member's Scope, their pools (joined). */
+function keptRowsOfTenant(tenant: Tenant, poolIds: readonly number[] | undefined, poolColumn: typeof keptEpisodes.poolId | typeof keptPoolSpans.poolId) {
+  return and(tenantCondition(tenant), poolIds ? inArray(poolColumn, [...poolIds]) : undefined);
+}
+
+export type KeptPoolSpan = PoolObservation & { latestBalanceAt: number | null };
+
+/** Each pool's observed span, read one way ("any": every test), ordered by pool. */
+export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadAs | "any", poolIds?: readonly number[]): Promise<KeptPoolSpan[]> {
+  if (poolIds && poolIds.length === 0) return [];
+  const rows = await db()
+    .select({
+      poolId: keptPoolSpans.poolId,
+      firstAt: keptPoolSpans.firstAt,
+      lastAt: keptPoolSpans.lastAt,
+      tests: keptPoolSpans.tests,
+      latestBalanceAt: keptPoolSpans.latestBalanceAt,
+    })
+    .from(keptPoolSpans)
+    .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
+    .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId)))
+    .orderBy(asc(keptPoolSpans.poolId));
+  return rows.map((r) => ({
+    poolId: String(r.poolId),
+    firstTestAt: r.firstAt.getTime(),
+    lastTestAt: r.lastAt.getTime(),
+    tests: r.tests,
+    latestBalanceAt: r.latestBalanceAt ? r.latestBalanceAt.getTime() : null,
+  }));
+}
+
+/** Kept episodes read one way, ordered by pool and in the order the analysis found them. */
+export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs: ReadAs, poolIds?: readonly number[]): Promise<Episode[]> {
+  if (poolIds && poolIds.length === 0) return [];
+  const rows = await db()
+    .select({
+      poolId: keptEpisodes.poolId,
+      metal: keptEpisodes.metal,
+      openedAt: keptEpisodes.openedAt,
+      openedByTestId: keptEpisodes.openedByTestId,
+      closedAt: keptEpisodes.closedAt,
+      closedByTestId: keptEpisodes.closedByTestId,
+      endAt: keptEpisodes.endAt,
+      peak: keptEpisodes.peak,
+      testCount: keptEpisodes.testCount,
+      chronic: keptEpisodes.chronic,
+      recurrence: keptEpisodes.recurrence,
+    })
+    .from(keptEpisodes)
+    .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
+    .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId)))
+    .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq));
+  return rows.map((r) => {
+    const openedAt = r.openedAt.getTime();
+    const endAt = r.endAt.getTime();
+    const closedAt = r.closedAt ? r.closedAt.getTime() : null;
+    return {
+      poolId: String(r.poolId),
+      metal: r.metal,
+      openedAt,
+      openedByTestId: String(r.openedByTestId),
+      closedAt,
+      closedByTestId: r.closedByTestId === null ? null : String(r.closedByTestId),
+      censored: closedAt === null,
+      endAt,
+      durationDays: (endAt - openedAt) / DAY_MS,
+      peak: r.peak,
+      testCount: r.testCount,
+      chronic: r.chronic,
+      recurrence: r.recurrence,
+    };
+  });
+}
+
+/** The metal history of the tenant's pools (or some of them) as kept, read one way. */
+export async function keptMetalHistory(tenant: Tenant, versionId: number, readAs: ReadAs, poolIds?: readonly number[]): Promise<MetalHistory> {
+  const [episodes, spans] = await Promise.all([
+    keptEpisodeList(tenant, versionId, readAs, poolIds),
+    keptSpans(tenant, versionId, readAs, poolIds),
+  ]);
+  const observed = spans.map(({ poolId, firstTestAt, lastTestAt, tests }) => ({ poolId, firstTestAt, lastTestAt, tests }));
+  return historyFromKept(episodes, observed, metalsReadAs(readAs));
+}

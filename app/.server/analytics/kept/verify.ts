@@ -1,0 +1,97 @@
+import { sql } from "drizzle-orm";
+import { keptRowsOf, type KeptEpisode, type KeptSpan } from "@analysis/metals/kept-history";
+import type { MetalThresholds } from "@analysis/metals/reading";
+import { db } from "../../db/client";
+import { utcDate } from "../../db/values";
+import { poolTests } from "./keep-pools";
+
+export type KeptDifference = { table: "kept_episodes" | "kept_pool_spans"; key: string; kept: string | null; recomputed: string | null };
+
+export type KeptCheck = {
+  companyId: number;
+  versionId: number | null;
+  pools: number;
+  tests: number;
+  episodes: number;
+  spans: number;
+  differences: KeptDifference[];
+};
+
+const ms = (value: unknown) => (value === null || value === undefined ? null : utcDate(value)!.getTime());
+
+function episodeLine(e: Pick<KeptEpisode, "metal" | "openedAt" | "openedByTestId" | "closedAt" | "closedByTestId" | "endAt" | "peak" | "testCount" | "chronic" | "recurrence">) {
+  return [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join(" ");
+}
+
+const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">) =>
+  [s.firstTestAt, s.lastTestAt, s.tests, s.latestBalanceAt ?? null].join(" ");
+
+function compare(table: KeptDifference["table"], kept: Map<string, string>, recomputed: Map<string, string>, into: KeptDifference[]) {
+  for (const [key, line] of recomputed) {
+    if (kept.get(key) !== line) into.push({ table, key, kept: kept.get(key) ?? null, recomputed: line });
+  }
+  for (const [key, line] of kept) if (!recomputed.has(key)) into.push({ table, key, kept: line, recomputed: null });
+}
+
+/**
+ * Compares a company's kept results (the version answers come from) with the
+ * same rows worked out again from every one of its tests. No differences is
+ * the promise writes keep.
+ */
+export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
+  const [versions] = (await db().execute(
+    sql`SELECT id, levels FROM kept_versions WHERE company_id = ${companyId} AND state = 'ready' ORDER BY id DESC LIMIT 1`,
+  )) as unknown as [Array<{ id: number; levels: string | MetalThresholds }>];
+  const version = versions[0];
+  if (!version) return { companyId, versionId: null, pools: 0, tests: 0, episodes: 0, spans: 0, differences: [] };
+  const levels = typeof version.levels === "string" ? (JSON.parse(version.levels) as MetalThresholds) : version.levels;
+  const [poolRows] = (await db().execute(sql`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY id`)) as unknown as [Array<{ id: number }>];
+  const poolIds = poolRows.map((p) => p.id);
+  const tests = await poolTests(db(), companyId, poolIds, false);
+  const expected = keptRowsOf(tests, levels);
+
+  const [episodeRows] = (await db().execute(
+    sql`SELECT read_as, pool_id, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
+      FROM kept_episodes WHERE version_id = ${version.id}`,
+  )) as unknown as [Array<Record<string, unknown>>];
+  const [spanRows] = (await db().execute(
+    sql`SELECT read_as, pool_id, first_at, last_at, tests, latest_balance_at FROM kept_pool_spans WHERE version_id = ${version.id}`,
+  )) as unknown as [Array<Record<string, unknown>>];
+
+  const keptEpisodes = new Map(
+    episodeRows.map((r) => [
+      `${String(r.read_as)}/${String(r.pool_id)}/${String(r.seq)}`,
+      episodeLine({
+        metal: r.metal as KeptEpisode["metal"],
+        openedAt: ms(r.opened_at)!,
+        openedByTestId: String(r.opened_by_test_id),
+        closedAt: ms(r.closed_at),
+        closedByTestId: r.closed_by_test_id === null ? null : String(r.closed_by_test_id),
+        endAt: ms(r.end_at)!,
+        peak: Number(r.peak),
+        testCount: Number(r.test_count),
+        chronic: Number(r.chronic) === 1,
+        recurrence: Number(r.recurrence) === 1,
+      }),
+    ]),
+  );
+  const recomputedEpisodes = new Map(expected.episodes.map((e) => [`${e.readAs}/${e.poolId}/${e.seq}`, episodeLine(e)]));
+  const keptSpans = new Map(
+    spanRows.map((r) => [
+      `${String(r.read_as)}/${String(r.pool_id)}`,
+      spanLine({
+        firstTestAt: ms(r.first_at)!,
+        lastTestAt: ms(r.last_at)!,
+        tests: Number(r.tests),
+        latestBalanceAt: r.read_as === "any" ? ms(r.latest_balance_at) : undefined,
+      }),
+    ]),
+  );
+  const recomputedSpans = new Map(
+    expected.spans.map((s) => [`${s.readAs}/${s.poolId}`, spanLine({ ...s, latestBalanceAt: s.readAs === "any" ? s.latestBalanceAt : undefined })]),
+  );
+  const differences: KeptDifference[] = [];
+  compare("kept_episodes", keptEpisodes, recomputedEpisodes, differences);
+  compare("kept_pool_spans", keptSpans, recomputedSpans, differences);
+  return { companyId, versionId: version.id, pools: poolIds.length, tests: tests.length, episodes: keptEpisodes.size, spans: keptSpans.size, differences };
+}

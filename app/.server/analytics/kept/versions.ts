@@ -1,0 +1,151 @@
+import { hostname } from "node:os";
+import { sql } from "drizzle-orm";
+import { drizzle } from "drizzle-orm/mysql2";
+import type { PoolConnection } from "mysql2/promise";
+import { METALS, type MetalThresholds } from "@analysis/metals/reading";
+import { db, pool, type Database } from "../../db/client";
+import * as schema from "../../db/schema";
+import { companySettings } from "../../settings/queries/company-settings";
+import { lockPoolsForKeeping, poolTests, replaceKeptRows, type LiveVersion } from "./keep-pools";
+
+/** Pools worked out per transaction by a build: short enough not to hold up the writes to them. */
+const BUILD_CHUNK = 250;
+/** A build's claim lapses when it has not moved for this long; another instance then takes it over. */
+const CLAIM_MS = 60_000;
+
+const instanceName = `${hostname()}:${process.pid}:${Math.random().toString(36).slice(2, 8)}`;
+
+export function sameLevels(a: MetalThresholds, b: MetalThresholds): boolean {
+  return METALS.every((m) => a[m].elevated === b[m].elevated && a[m].clear === b[m].clear);
+}
+
+type VersionRow = { id: number; levels: MetalThresholds; state: "building" | "ready" | "retired"; claimExpiresAt: Date | null };
+
+async function versionsOf(database: Pick<Database, "select">, companyId: number): Promise<VersionRow[]> {
+  return database
+    .select({ id: schema.keptVersions.id, levels: schema.keptVersions.levels, state: schema.keptVersions.state, claimExpiresAt: schema.keptVersions.claimExpiresAt })
+    .from(schema.keptVersions)
+    .where(sql`${schema.keptVersions.companyId} = ${companyId} AND ${schema.keptVersions.state} <> 'retired'`);
+}
+
+/**
+ * The version kept answers come from for these levels, or null: then the
+ * answer is worked out from the tests, and a build is started (or taken over
+ * from an instance that stopped) so the next answers can be kept ones.
+ */
+export async function readyVersionFor(companyId: number, levels: MetalThresholds): Promise<number | null> {
+  const versions = await versionsOf(db(), companyId);
+  const ready = versions.find((v) => v.state === "ready" && sameLevels(v.levels, levels));
+  if (ready) return ready.id;
+  const building = versions.find((v) => v.state === "building" && sameLevels(v.levels, levels));
+  const stalled = building && (building.claimExpiresAt === null || building.claimExpiresAt.getTime() < Date.now());
+  const companyLevels = (await companySettings(companyId))?.thresholds;
+  // Only the company's own levels are kept; a request's own levels are answered from the tests.
+  if ((!building || stalled) && companyLevels && sameLevels(companyLevels, levels)) {
+    void keepCompanyCurrent(companyId).catch((error: unknown) => console.error(`[kept] build for company ${companyId} failed`, error));
+  }
+  return null;
+}
+
+/**
+ * Makes sure a version for the company's current levels exists and is built:
+ * starts one (retiring a build for levels no longer set), or resumes a build
+ * whose instance went quiet. Returns the version id once it is ready, or null
+ * when another instance is building it.
+ */
+export async function keepCompanyCurrent(
+  companyId: number,
+  options: { rebuild?: boolean; onProgress?: (poolsDone: number) => void } = {},
+): Promise<number | null> {
+  const settings = await companySettings(companyId);
+  if (!settings) return null;
+  const levels = settings.thresholds;
+  const claimed = await db().transaction(async (tx) => {
+    // One instance at a time decides, with the company's row locked.
+    await tx.execute(sql`SELECT id FROM companies WHERE id = ${companyId} FOR UPDATE`);
+    const versions = await versionsOf(tx, companyId);
+    const ready = versions.find((v) => v.state === "ready" && sameLevels(v.levels, levels));
+    if (ready && !options.rebuild) return { id: ready.id, build: false };
+    const resumable = (v: VersionRow) => v.state === "building" && sameLevels(v.levels, levels) && !options.rebuild;
+    for (const v of versions) {
+      if (v.state === "building" && !resumable(v)) await tx.execute(sql`DELETE FROM kept_versions WHERE id = ${v.id}`);
+    }
+    const building = versions.find(resumable);
+    if (building) {
+      const [result] = (await tx.execute(
+        sql`UPDATE kept_versions SET claimed_by = ${instanceName}, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND
+          WHERE id = ${building.id} AND (claim_expires_at IS NULL OR claim_expires_at < NOW(3) OR claimed_by = ${instanceName})`,
+      )) as unknown as [{ affectedRows: number }];
+      return result.affectedRows === 1 ? { id: building.id, build: true } : null;
+    }
+    const [inserted] = (await tx.execute(
+      sql`INSERT INTO kept_versions (company_id, levels, state, claimed_by, claim_expires_at)
+        VALUES (${companyId}, ${JSON.stringify(levels)}, 'building', ${instanceName}, NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND)`,
+    )) as unknown as [{ insertId: number }];
+    return { id: inserted.insertId, build: true };
+  });
+  if (!claimed) return null;
+  if (!claimed.build) return claimed.id;
+  return (await buildVersion(companyId, { id: claimed.id, levels }, options.onProgress)) ? claimed.id : null;
+}
+
+class ClaimLost extends Error {}
+
+/**
+ * Works out every pool of the company under a version's levels, a chunk of
+ * pools per transaction (each chunk's pools locked, as a write locks them),
+ * resuming after the last chunk done; then makes it the version answers come
+ * from and drops the one it replaces. Writes made meanwhile keep the building
+ * version in step themselves (see keepPoolsInStep).
+ */
+async function buildVersion(companyId: number, version: LiveVersion, onProgress?: (poolsDone: number) => void): Promise<boolean> {
+  const connection = await pool().getConnection();
+  const writer = drizzle(connection as PoolConnection, { schema, mode: "default" });
+  let done = 0;
+  try {
+    for (;;) {
+      await connection.beginTransaction();
+      // The version's row is written last in each chunk: a write locks its pools and then reads the
+      // versions, so holding the row while waiting for pools could close a circle with it.
+      const [[state]] = (await connection.query("SELECT built_through_pool_id AS through FROM kept_versions WHERE id = ?", [
+        version.id,
+      ])) as unknown as [[{ through: number } | undefined]];
+      if (!state) throw new ClaimLost();
+      const [chunk] = (await connection.query("SELECT id FROM pools WHERE company_id = ? AND id > ? ORDER BY id LIMIT ?", [
+        companyId,
+        state.through,
+        BUILD_CHUNK,
+      ])) as unknown as [Array<{ id: number }>];
+      if (chunk.length === 0) {
+        const [claim] = (await connection.query(
+          "UPDATE kept_versions SET state = 'ready', ready_at = NOW(3), claimed_by = NULL, claim_expires_at = NULL WHERE id = ? AND claimed_by = ?",
+          [version.id, instanceName],
+        )) as unknown as [{ affectedRows: number }];
+        if (claim.affectedRows !== 1) throw new ClaimLost();
+        await connection.query("UPDATE kept_versions SET state = 'retired' WHERE company_id = ? AND state = 'ready' AND id <> ?", [companyId, version.id]);
+        await connection.commit();
+        // The rows of replaced versions go with them (the foreign keys cascade).
+        await connection.query("DELETE FROM kept_versions WHERE company_id = ? AND state = 'retired'", [companyId]);
+        return true;
+      }
+      const ids = chunk.map((p) => p.id);
+      await lockPoolsForKeeping(writer, ids);
+      const tests = await poolTests(writer, companyId, ids);
+      await replaceKeptRows(writer, companyId, version, ids, tests);
+      const [claim] = (await connection.query(
+        `UPDATE kept_versions SET built_through_pool_id = ?, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND WHERE id = ? AND claimed_by = ?`,
+        [ids[ids.length - 1], version.id, instanceName],
+      )) as unknown as [{ affectedRows: number }];
+      if (claim.affectedRows !== 1) throw new ClaimLost();
+      await connection.commit();
+      done += ids.length;
+      onProgress?.(done);
+    }
+  } catch (error) {
+    await connection.rollback().catch(() => undefined);
+    if (error instanceof ClaimLost) return false;
+    throw error;
+  } finally {
+    connection.release();
+  }
+}

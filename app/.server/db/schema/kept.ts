@@ -1,0 +1,100 @@
+import { bigint, double, index, int, json, mysqlEnum, mysqlTable, primaryKey, smallint, unique, varchar } from "drizzle-orm/mysql-core";
+import type { MetalThresholds } from "../../../../analysis/metals/reading";
+import { bigSerialId, flag, instant, instantNow } from "./columns";
+import { owningCompany } from "./company";
+import { owningPool } from "./routebook";
+
+// Kept analytics: what the route-book answers are built from, kept up to date by
+// every write that changes a pool's tests, so a request reads a few thousand
+// rows instead of every reading of the company. Each row belongs to one version
+// of the company's levels; a change of levels builds a new version beside the
+// one in use and switches over when it is complete.
+
+export const KEPT_VERSION_STATES = ["building", "ready", "retired"] as const;
+
+/**
+ * How the tests were read when a row was worked out: "all" with every metal
+ * (a pool's tests are those with any metal measured), or one metal alone (its
+ * tests are those where that metal was measured). Episode lengths and test
+ * counts differ between the two, and requests ask for both.
+ */
+export const KEPT_READINGS = ["all", "copper", "iron", "manganese"] as const;
+export type KeptReading = (typeof KEPT_READINGS)[number];
+
+export const keptVersions = mysqlTable(
+  "kept_versions",
+  {
+    id: int("id").autoincrement().primaryKey(),
+    companyId: owningCompany(),
+    /** The metal levels every row of this version was worked out with. */
+    levels: json("levels").$type<MetalThresholds>().notNull(),
+    state: mysqlEnum("state", KEPT_VERSION_STATES).notNull().default("building"),
+    /** The instance building it, and until when that claim holds without a heartbeat. */
+    claimedBy: varchar("claimed_by", { length: 80 }),
+    claimExpiresAt: instant("claim_expires_at"),
+    /** Pools done so far by the build, in pool id order (a taken-over build resumes after it). */
+    builtThroughPoolId: int("built_through_pool_id").notNull().default(0),
+    startedAt: instantNow("started_at"),
+    readyAt: instant("ready_at"),
+  },
+  (t) => [index("kept_versions_company_idx").on(t.companyId, t.state)],
+);
+
+/** Each pool's metal episodes, read one way (see KEPT_READINGS), in the order the analysis found them. */
+export const keptEpisodes = mysqlTable(
+  "kept_episodes",
+  {
+    id: bigSerialId(),
+    versionId: int("version_id")
+      .notNull()
+      .references(() => keptVersions.id, { onDelete: "cascade" }),
+    companyId: owningCompany(),
+    poolId: owningPool(),
+    readAs: mysqlEnum("read_as", KEPT_READINGS).notNull(),
+    seq: smallint("seq", { unsigned: true }).notNull(),
+    metal: mysqlEnum("metal", ["copper", "iron", "manganese"]).notNull(),
+    openedAt: instant("opened_at").notNull(),
+    openedByTestId: bigint("opened_by_test_id", { mode: "number", unsigned: true }).notNull(),
+    closedAt: instant("closed_at"),
+    closedByTestId: bigint("closed_by_test_id", { mode: "number", unsigned: true }),
+    endAt: instant("end_at").notNull(),
+    peak: double("peak").notNull(),
+    testCount: int("test_count").notNull(),
+    chronic: flag("chronic", false),
+    recurrence: flag("recurrence", false),
+  },
+  (t) => [
+    unique("kept_episodes_order").on(t.versionId, t.readAs, t.poolId, t.seq),
+    index("kept_episodes_pool_idx").on(t.poolId),
+    index("kept_episodes_company_idx").on(t.companyId),
+  ],
+);
+
+/**
+ * Each pool's observed time, read one way: first and last test and how many.
+ * "any" counts every test (any analyte); the others as in KEPT_READINGS.
+ */
+export const KEPT_SPANS = ["any", ...KEPT_READINGS] as const;
+export type KeptSpan = (typeof KEPT_SPANS)[number];
+
+export const keptPoolSpans = mysqlTable(
+  "kept_pool_spans",
+  {
+    versionId: int("version_id")
+      .notNull()
+      .references(() => keptVersions.id, { onDelete: "cascade" }),
+    poolId: owningPool(),
+    readAs: mysqlEnum("read_as", KEPT_SPANS).notNull(),
+    companyId: owningCompany(),
+    firstAt: instant("first_at").notNull(),
+    lastAt: instant("last_at").notNull(),
+    tests: int("tests").notNull(),
+    /** "any" only: the latest test carrying the four inputs the saturation index needs. */
+    latestBalanceAt: instant("latest_balance_at"),
+  },
+  (t) => [
+    primaryKey({ columns: [t.versionId, t.readAs, t.poolId] }),
+    index("kept_pool_spans_pool_idx").on(t.poolId),
+    index("kept_pool_spans_company_idx").on(t.companyId),
+  ],
+);
