@@ -41,7 +41,9 @@ CREATE TABLE `kept_versions` (
 	`built_through_pool_id` int NOT NULL DEFAULT 0,
 	`started_at` datetime(3) NOT NULL DEFAULT CURRENT_TIMESTAMP(3),
 	`ready_at` datetime(3),
-	CONSTRAINT `kept_versions_id` PRIMARY KEY(`id`)
+	`building_slot` tinyint,
+	CONSTRAINT `kept_versions_id` PRIMARY KEY(`id`),
+	CONSTRAINT `kept_versions_one_build` UNIQUE(`company_id`,`building_slot`)
 );
 --> statement-breakpoint
 ALTER TABLE `kept_episodes` ADD CONSTRAINT `kept_episodes_version_id_kept_versions_id_fk` FOREIGN KEY (`version_id`) REFERENCES `kept_versions`(`id`) ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
@@ -51,8 +53,8 @@ ALTER TABLE `kept_pool_spans` ADD CONSTRAINT `kept_pool_spans_version_id_kept_ve
 ALTER TABLE `kept_pool_spans` ADD CONSTRAINT `kept_pool_spans_pool_id_pools_id_fk` FOREIGN KEY (`pool_id`) REFERENCES `pools`(`id`) ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE `kept_pool_spans` ADD CONSTRAINT `kept_pool_spans_company_id_companies_id_fk` FOREIGN KEY (`company_id`) REFERENCES `companies`(`id`) ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
 ALTER TABLE `kept_versions` ADD CONSTRAINT `kept_versions_company_id_companies_id_fk` FOREIGN KEY (`company_id`) REFERENCES `companies`(`id`) ON DELETE cascade ON UPDATE no action;--> statement-breakpoint
-CREATE INDEX `kept_episodes_pool_idx` ON `kept_episodes` (`pool_id`);--> statement-breakpoint
+CREATE INDEX `kept_episodes_pool_idx` ON `kept_episodes` (`pool_id`,`version_id`);--> statement-breakpoint
 CREATE INDEX `kept_episodes_company_idx` ON `kept_episodes` (`company_id`);--> statement-breakpoint
-CREATE INDEX `kept_pool_spans_pool_idx` ON `kept_pool_spans` (`pool_id`);--> statement-breakpoint
+CREATE INDEX `kept_pool_spans_pool_idx` ON `kept_pool_spans` (`pool_id`,`version_id`);--> statement-breakpoint
 CREATE INDEX `kept_pool_spans_company_idx` ON `kept_pool_spans` (`company_id`);--> statement-breakpoint
 CREATE INDEX `kept_versions_company_idx` ON `kept_versions` (`company_id`,`state`);

@@ -95,8 +95,8 @@ async function insertSpans(writer: Writer, versionId: number, companyId: number,
 export async function replaceKeptRows(writer: Writer, companyId: number, version: LiveVersion, poolIds: readonly number[], tests: readonly KeptInputTest[]) {
   for (let from = 0; from < poolIds.length; from += 1000) {
     const ids = idList(poolIds.slice(from, from + 1000));
-    await writer.execute(sql`DELETE FROM kept_episodes WHERE version_id = ${version.id} AND pool_id IN (${ids})`);
-    await writer.execute(sql`DELETE FROM kept_pool_spans WHERE version_id = ${version.id} AND pool_id IN (${ids})`);
+    await writer.execute(sql`DELETE FROM kept_episodes WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
+    await writer.execute(sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
   }
   const rows = keptRowsOf(tests, version.levels);
   await insertEpisodes(writer, version.id, companyId, rows.episodes);

@@ -3,6 +3,7 @@ import { sql } from "drizzle-orm";
 import { drizzle } from "drizzle-orm/mysql2";
 import type { PoolConnection } from "mysql2/promise";
 import { METALS, type MetalThresholds } from "@analysis/metals/reading";
+import { isDuplicateKey } from "../../command-result";
 import { db, pool, type Database } from "../../db/client";
 import * as schema from "../../db/schema";
 import { companySettings } from "../../settings/queries/company-settings";
@@ -19,11 +20,21 @@ export function sameLevels(a: MetalThresholds, b: MetalThresholds): boolean {
   return METALS.every((m) => a[m].elevated === b[m].elevated && a[m].clear === b[m].clear);
 }
 
-type VersionRow = { id: number; levels: MetalThresholds; state: "building" | "ready" | "retired"; claimExpiresAt: Date | null };
+type VersionRow = {
+  id: number;
+  levels: MetalThresholds;
+  state: "building" | "ready" | "retired";
+  claimExpiresAt: Date | null;
+};
 
 async function versionsOf(database: Pick<Database, "select">, companyId: number): Promise<VersionRow[]> {
   return database
-    .select({ id: schema.keptVersions.id, levels: schema.keptVersions.levels, state: schema.keptVersions.state, claimExpiresAt: schema.keptVersions.claimExpiresAt })
+    .select({
+      id: schema.keptVersions.id,
+      levels: schema.keptVersions.levels,
+      state: schema.keptVersions.state,
+      claimExpiresAt: schema.keptVersions.claimExpiresAt,
+    })
     .from(schema.keptVersions)
     .where(sql`${schema.keptVersions.companyId} = ${companyId} AND ${schema.keptVersions.state} <> 'retired'`);
 }
@@ -60,36 +71,53 @@ export async function keepCompanyCurrent(
   const settings = await companySettings(companyId);
   if (!settings) return null;
   const levels = settings.thresholds;
-  const claimed = await db().transaction(async (tx) => {
-    // One instance at a time decides, with the company's row locked.
-    await tx.execute(sql`SELECT id FROM companies WHERE id = ${companyId} FOR UPDATE`);
-    const versions = await versionsOf(tx, companyId);
-    const ready = versions.find((v) => v.state === "ready" && sameLevels(v.levels, levels));
-    if (ready && !options.rebuild) return { id: ready.id, build: false };
-    const resumable = (v: VersionRow) => v.state === "building" && sameLevels(v.levels, levels) && !options.rebuild;
-    for (const v of versions) {
-      if (v.state === "building" && !resumable(v)) await tx.execute(sql`DELETE FROM kept_versions WHERE id = ${v.id}`);
-    }
-    const building = versions.find(resumable);
-    if (building) {
-      const [result] = (await tx.execute(
-        sql`UPDATE kept_versions SET claimed_by = ${instanceName}, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND
-          WHERE id = ${building.id} AND (claim_expires_at IS NULL OR claim_expires_at < NOW(3) OR claimed_by = ${instanceName})`,
-      )) as unknown as [{ affectedRows: number }];
-      return result.affectedRows === 1 ? { id: building.id, build: true } : null;
-    }
-    const [inserted] = (await tx.execute(
-      sql`INSERT INTO kept_versions (company_id, levels, state, claimed_by, claim_expires_at)
-        VALUES (${companyId}, ${JSON.stringify(levels)}, 'building', ${instanceName}, NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND)`,
-    )) as unknown as [{ insertId: number }];
-    return { id: inserted.insertId, build: true };
-  });
+  const claimed = await claimBuild(companyId, levels, options.rebuild === true);
   if (!claimed) return null;
   if (!claimed.build) return claimed.id;
   return (await buildVersion(companyId, { id: claimed.id, levels }, options.onProgress)) ? claimed.id : null;
 }
 
+/**
+ * Decides, without holding any lock for long, who builds: a ready version
+ * for these levels needs no build; a stalled build for them is taken over;
+ * otherwise a new build starts, and the unique building slot lets only one
+ * instance start it. Returns null when another instance is building.
+ */
+async function claimBuild(companyId: number, levels: MetalThresholds, rebuild: boolean): Promise<{ id: number; build: boolean } | null> {
+  const versions = await versionsOf(db(), companyId);
+  const ready = versions.find((v) => v.state === "ready" && sameLevels(v.levels, levels));
+  if (ready && !rebuild) return { id: ready.id, build: false };
+  const resumable = (v: VersionRow) => v.state === "building" && sameLevels(v.levels, levels) && !rebuild;
+  const building = versions.find(resumable);
+  if (building) {
+    const [result] = (await db().execute(
+      sql`UPDATE kept_versions SET claimed_by = ${instanceName}, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND
+        WHERE id = ${building.id} AND state = 'building' AND (claim_expires_at IS NULL OR claim_expires_at < NOW(3) OR claimed_by = ${instanceName})`,
+    )) as unknown as [{ affectedRows: number }];
+    return result.affectedRows === 1 ? { id: building.id, build: true } : null;
+  }
+  // A build for levels no longer set (or one being replaced by hand) stops: its next chunk finds its row gone.
+  for (const v of versions) if (v.state === "building") await db().execute(sql`DELETE FROM kept_versions WHERE id = ${v.id} AND state = 'building'`);
+  try {
+    const [inserted] = (await db().execute(
+      sql`INSERT INTO kept_versions (company_id, levels, state, claimed_by, claim_expires_at, building_slot)
+        VALUES (${companyId}, ${JSON.stringify(levels)}, 'building', ${instanceName}, NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND, 1)`,
+    )) as unknown as [{ insertId: number }];
+    return { id: inserted.insertId, build: true };
+  } catch (error) {
+    if (isDuplicateKey(error)) return null;
+    throw error;
+  }
+}
+
 class ClaimLost extends Error {}
+
+function hasCode(error: unknown, code: string): boolean {
+  for (let e: unknown = error; e; e = (e as { cause?: unknown }).cause) {
+    if ((e as { code?: string }).code === code) return true;
+  }
+  return false;
+}
 
 /**
  * Works out every pool of the company under a version's levels, a chunk of
@@ -100,52 +128,72 @@ class ClaimLost extends Error {}
  */
 async function buildVersion(companyId: number, version: LiveVersion, onProgress?: (poolsDone: number) => void): Promise<boolean> {
   const connection = await pool().getConnection();
-  const writer = drizzle(connection as PoolConnection, { schema, mode: "default" });
+  const writer = drizzle(connection as PoolConnection, {
+    schema,
+    mode: "default",
+  });
   let done = 0;
+  let deadlocks = 0;
   try {
     for (;;) {
-      await connection.beginTransaction();
-      // The version's row is written last in each chunk: a write locks its pools and then reads the
-      // versions, so holding the row while waiting for pools could close a circle with it.
-      const [[state]] = (await connection.query("SELECT built_through_pool_id AS through FROM kept_versions WHERE id = ?", [
-        version.id,
-      ])) as unknown as [[{ through: number } | undefined]];
-      if (!state) throw new ClaimLost();
-      const [chunk] = (await connection.query("SELECT id FROM pools WHERE company_id = ? AND id > ? ORDER BY id LIMIT ?", [
-        companyId,
-        state.through,
-        BUILD_CHUNK,
-      ])) as unknown as [Array<{ id: number }>];
-      if (chunk.length === 0) {
-        const [claim] = (await connection.query(
-          "UPDATE kept_versions SET state = 'ready', ready_at = NOW(3), claimed_by = NULL, claim_expires_at = NULL WHERE id = ? AND claimed_by = ?",
-          [version.id, instanceName],
-        )) as unknown as [{ affectedRows: number }];
-        if (claim.affectedRows !== 1) throw new ClaimLost();
-        await connection.query("UPDATE kept_versions SET state = 'retired' WHERE company_id = ? AND state = 'ready' AND id <> ?", [companyId, version.id]);
-        await connection.commit();
-        // The rows of replaced versions go with them (the foreign keys cascade).
-        await connection.query("DELETE FROM kept_versions WHERE company_id = ? AND state = 'retired'", [companyId]);
-        return true;
+      try {
+        const finished = await buildChunk();
+        if (finished) return true;
+      } catch (error) {
+        await connection.rollback().catch(() => undefined);
+        // A chunk that lost a deadlock to a write is simply done again.
+        if (hasCode(error, "ER_LOCK_DEADLOCK") && ++deadlocks < 20) continue;
+        throw error;
       }
-      const ids = chunk.map((p) => p.id);
-      await lockPoolsForKeeping(writer, ids);
-      const tests = await poolTests(writer, companyId, ids);
-      await replaceKeptRows(writer, companyId, version, ids, tests);
-      const [claim] = (await connection.query(
-        `UPDATE kept_versions SET built_through_pool_id = ?, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND WHERE id = ? AND claimed_by = ?`,
-        [ids[ids.length - 1], version.id, instanceName],
-      )) as unknown as [{ affectedRows: number }];
-      if (claim.affectedRows !== 1) throw new ClaimLost();
-      await connection.commit();
-      done += ids.length;
-      onProgress?.(done);
     }
   } catch (error) {
-    await connection.rollback().catch(() => undefined);
-    if (error instanceof ClaimLost) return false;
+    // Replaced while it ran: its row went, and with it any row a chunk could still add.
+    if (error instanceof ClaimLost || hasCode(error, "ER_NO_REFERENCED_ROW_2")) return false;
     throw error;
   } finally {
     connection.release();
+  }
+
+  async function buildChunk(): Promise<boolean> {
+    await connection.beginTransaction();
+    // The version's row is written last in each chunk: a write locks its pools and then reads the
+    // versions, so holding the row while waiting for pools could close a circle with it.
+    const [[state]] = (await connection.query("SELECT built_through_pool_id AS through FROM kept_versions WHERE id = ?", [
+      version.id,
+    ])) as unknown as [[{ through: number } | undefined]];
+    if (!state) throw new ClaimLost();
+    const [chunk] = (await connection.query("SELECT id FROM pools WHERE company_id = ? AND id > ? ORDER BY id LIMIT ?", [
+      companyId,
+      state.through,
+      BUILD_CHUNK,
+    ])) as unknown as [Array<{ id: number }>];
+    if (chunk.length === 0) {
+      const [claim] = (await connection.query(
+        "UPDATE kept_versions SET state = 'ready', ready_at = NOW(3), claimed_by = NULL, claim_expires_at = NULL, building_slot = NULL WHERE id = ? AND claimed_by = ?",
+        [version.id, instanceName],
+      )) as unknown as [{ affectedRows: number }];
+      if (claim.affectedRows !== 1) throw new ClaimLost();
+      await connection.query("UPDATE kept_versions SET state = 'retired' WHERE company_id = ? AND state = 'ready' AND id <> ?", [
+        companyId,
+        version.id,
+      ]);
+      await connection.commit();
+      // The rows of replaced versions go with them (the foreign keys cascade).
+      await connection.query("DELETE FROM kept_versions WHERE company_id = ? AND state = 'retired'", [companyId]);
+      return true;
+    }
+    const ids = chunk.map((p) => p.id);
+    await lockPoolsForKeeping(writer, ids);
+    const tests = await poolTests(writer, companyId, ids);
+    await replaceKeptRows(writer, companyId, version, ids, tests);
+    const [claim] = (await connection.query(
+      `UPDATE kept_versions SET built_through_pool_id = ?, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND WHERE id = ? AND claimed_by = ?`,
+      [ids[ids.length - 1], version.id, instanceName],
+    )) as unknown as [{ affectedRows: number }];
+    if (claim.affectedRows !== 1) throw new ClaimLost();
+    await connection.commit();
+    done += ids.length;
+    onProgress?.(done);
+    return false;
   }
 }

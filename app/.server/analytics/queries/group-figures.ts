@@ -4,6 +4,7 @@ import { groupValueLabel } from "~/lib/analytics/labels";
 import { observationInstants } from "~/lib/analytics/observation-points";
 import type { Scope } from "../../scope";
 import { jsonInterval, type JsonInterval } from "@analysis/json-shapes";
+import type { AnswerSource } from "../kept/read-kept";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import type { AnalyticsParams } from "./tenant-and-window";
 
@@ -96,8 +97,9 @@ export function computeGroupFigures(
   };
 }
 
-export async function groupFigures(scope: Scope, params: GroupFiguresParams): Promise<GroupFigures> {
-  return computeGroupFigures(await loadMetalDataset(scope, params), params.grouping, params.metal);
+export async function groupFigures(scope: Scope, params: GroupFiguresParams): Promise<GroupFigures & { source: AnswerSource }> {
+  const dataset = await loadMetalDataset(scope, params);
+  return { ...computeGroupFigures(dataset, params.grouping, params.metal), source: dataset.source };
 }
 
 export type RiskyGroup = GroupFigure & { grouping: GroupingKey; metal: Metal };

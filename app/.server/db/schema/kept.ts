@@ -1,4 +1,4 @@
-import { bigint, double, index, int, json, mysqlEnum, mysqlTable, primaryKey, smallint, unique, varchar } from "drizzle-orm/mysql-core";
+import { bigint, double, index, int, json, mysqlEnum, mysqlTable, primaryKey, smallint, tinyint, unique, varchar } from "drizzle-orm/mysql-core";
 import type { MetalThresholds } from "../../../../analysis/metals/reading";
 import { bigSerialId, flag, instant, instantNow } from "./columns";
 import { owningCompany } from "./company";
@@ -36,8 +36,10 @@ export const keptVersions = mysqlTable(
     builtThroughPoolId: int("built_through_pool_id").notNull().default(0),
     startedAt: instantNow("started_at"),
     readyAt: instant("ready_at"),
+    /** 1 while building, else null: a unique key lets one build per company start, whichever instance asks first. */
+    buildingSlot: tinyint("building_slot"),
   },
-  (t) => [index("kept_versions_company_idx").on(t.companyId, t.state)],
+  (t) => [index("kept_versions_company_idx").on(t.companyId, t.state), unique("kept_versions_one_build").on(t.companyId, t.buildingSlot)],
 );
 
 /** Each pool's metal episodes, read one way (see KEPT_READINGS), in the order the analysis found them. */
@@ -65,7 +67,8 @@ export const keptEpisodes = mysqlTable(
   },
   (t) => [
     unique("kept_episodes_order").on(t.versionId, t.readAs, t.poolId, t.seq),
-    index("kept_episodes_pool_idx").on(t.poolId),
+    // A write replaces its pools' rows through this key, locking only theirs.
+    index("kept_episodes_pool_idx").on(t.poolId, t.versionId),
     index("kept_episodes_company_idx").on(t.companyId),
   ],
 );
@@ -94,7 +97,7 @@ export const keptPoolSpans = mysqlTable(
   },
   (t) => [
     primaryKey({ columns: [t.versionId, t.readAs, t.poolId] }),
-    index("kept_pool_spans_pool_idx").on(t.poolId),
+    index("kept_pool_spans_pool_idx").on(t.poolId, t.versionId),
     index("kept_pool_spans_company_idx").on(t.companyId),
   ],
 );

@@ -1,0 +1,188 @@
+import { randomUUID } from "node:crypto";
+import { setTimeout as sleep } from "node:timers/promises";
+import { beforeAll, describe, expect, it } from "vitest";
+import fc from "fast-check";
+import { eq } from "drizzle-orm";
+import { DEFAULT_METAL_THRESHOLDS } from "@analysis/metals/reading";
+import { keepCompanyCurrent } from "~/.server/analytics/kept/versions";
+import { verifyKeptResults } from "~/.server/analytics/kept/verify";
+import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
+import { groupFigures } from "~/.server/analytics/queries/group-figures";
+import { ALL_TIME } from "~/.server/analytics/queries/tenant-and-window";
+import { db } from "~/.server/db/client";
+import { companies, importBatches, keptVersions } from "~/.server/db/schema";
+import { undoBatch } from "~/.server/imports/commit";
+import { updateCompanySettings } from "~/.server/settings/commands/update-company-settings";
+import { logVisit } from "~/.server/visits/commands/save-visit";
+import type { Scope } from "~/.server/scope";
+import type { VisitInput } from "~/lib/forms/visit";
+import { analystWithPools, postCheckForm, upload, useScratchUploadDir } from "./imports-helpers";
+
+const DAY = 86_400_000;
+const T0 = Date.UTC(2024, 2, 1, 12);
+const POOLS = 3;
+
+/** Levels a settings change may choose: the defaults, and stricter or looser ones. */
+const LEVEL_CHOICES = [
+  DEFAULT_METAL_THRESHOLDS,
+  { copper: { elevated: 0.2, clear: 0.1 }, iron: { elevated: 0.15, clear: 0.05 }, manganese: { elevated: 0.05, clear: 0.02 } },
+  { copper: { elevated: 0.6, clear: 0.3 }, iron: { elevated: 0.5, clear: 0.2 }, manganese: { elevated: 0.2, clear: 0.1 } },
+] as const;
+
+const metalValue = fc.option(fc.constantFrom(0.05, 0.1, 0.2, 0.3, 0.5, 0.9), { nil: undefined, freq: 2 });
+
+type Step =
+  | { kind: "visit"; pool: number; day: number; copper?: number; iron?: number; manganese?: number }
+  | { kind: "import"; rows: Array<{ pool: number; day: number; copper?: number; iron?: number }> }
+  | { kind: "undo" }
+  | { kind: "levels"; choice: number };
+
+const step: fc.Arbitrary<Step> = fc.oneof(
+  { weight: 4, arbitrary: fc.record({ kind: fc.constant("visit" as const), pool: fc.nat(POOLS - 1), day: fc.nat(400), copper: metalValue, iron: metalValue, manganese: metalValue }) },
+  {
+    weight: 2,
+    arbitrary: fc.record({
+      kind: fc.constant("import" as const),
+      rows: fc.array(fc.record({ pool: fc.nat(POOLS - 1), day: fc.nat(400), copper: metalValue, iron: metalValue }), { minLength: 1, maxLength: 12 }),
+    }),
+  },
+  { weight: 1, arbitrary: fc.constant({ kind: "undo" as const }) },
+  { weight: 1, arbitrary: fc.record({ kind: fc.constant("levels" as const), choice: fc.nat(LEVEL_CHOICES.length - 1) }) },
+);
+
+const reading = (value: number | undefined) => (value === undefined ? undefined : { value, belowDetection: false });
+
+function visitInput(s: Extract<Step, { kind: "visit" }>): VisitInput {
+  return {
+    submissionKey: randomUUID(),
+    readings: { ph: 7.4, copper: reading(s.copper), iron: reading(s.iron), manganese: reading(s.manganese) },
+    hardnessEndpoint: null,
+    stain: null,
+    stainColour: null,
+    padTint: null,
+    note: null,
+    treatments: [],
+  };
+}
+
+function importFile(prefix: string, rows: Extract<Step, { kind: "import" }>["rows"]): Uint8Array<ArrayBuffer> {
+  const lines = ["Account,Date,pH,Cu,Fe"];
+  // A minute apart within the file, so no two rows of one pool fall on one instant.
+  rows.forEach((r, i) => {
+    const at = new Date(T0 + r.day * DAY + i * 60_000).toISOString().slice(0, 16).replace("T", " ");
+    lines.push(`${prefix}-${r.pool},${at},7.5,${r.copper ?? ""},${r.iron ?? ""}`);
+  });
+  return new TextEncoder().encode(lines.join("\n"));
+}
+
+/** Waits until the company's current levels have a ready kept version (a build may run in the background). */
+async function keptReady(companyId: number): Promise<number> {
+  for (let attempt = 0; attempt < 200; attempt++) {
+    const version = await keepCompanyCurrent(companyId);
+    if (version !== null) return version;
+    await sleep(50);
+  }
+  throw new Error("the kept results were never built");
+}
+
+beforeAll(() => useScratchUploadDir());
+
+describe("kept analytics stay equal to a recomputation from the tests", () => {
+  it("after every step of random visits, imports, undos and changes of levels", async () => {
+    let run = 0;
+    await fc.assert(
+      fc.asyncProperty(fc.array(step, { minLength: 1, maxLength: 7 }), async (steps) => {
+        const prefix = `K${run++}`;
+        const { member, scope } = await analystWithPools(prefix, POOLS);
+        const owner: Scope = { ...scope, role: "owner" };
+        const poolIds = await poolIdsOf(scope.companyId);
+        await keptReady(scope.companyId);
+        let visitsAt = 0;
+        for (const s of steps) {
+          if (s.kind === "visit") {
+            // Each visit a little later than the last, as the day's work goes.
+            const saved = await logVisit(scope, poolIds[s.pool]!, visitInput(s), new Date(T0 + s.day * DAY + ++visitsAt * 1000));
+            expect(saved.ok).toBe(true);
+          } else if (s.kind === "import") {
+            const sent = await upload(member, `${prefix}.csv`, importFile(prefix, s.rows));
+            expect(sent.status).toBe(201);
+            const uploadId = (sent.body as { uploadId: string }).uploadId;
+            // A file of rows already stored has nothing to import and is refused; anything else is stored whole.
+            const committed = await postCheckForm(member, uploadId, "commit");
+            expect([302, 422]).toContain(committed.status);
+          } else if (s.kind === "undo") {
+            const [last] = await db()
+              .select({ id: importBatches.id, status: importBatches.status })
+              .from(importBatches)
+              .where(eq(importBatches.companyId, scope.companyId))
+              .orderBy(importBatches.id);
+            if (last?.status === "committed") expect((await undoBatch(scope, last.id)).ok).toBe(true);
+          } else {
+            const levels = LEVEL_CHOICES[s.choice]!;
+            const saved = await updateCompanySettings(owner, {
+              copperElevated: levels.copper.elevated,
+              copperClear: levels.copper.clear,
+              ironElevated: levels.iron.elevated,
+              ironClear: levels.iron.clear,
+              manganeseElevated: levels.manganese.elevated,
+              manganeseClear: levels.manganese.clear,
+              balanceLow: -0.3,
+              balanceHigh: 0.3,
+              unitSystem: "us",
+              timeZone: "UTC",
+            });
+            expect(saved.ok).toBe(true);
+            await keptReady(scope.companyId);
+          }
+          const check = await verifyKeptResults(scope.companyId);
+          expect(check.versionId).not.toBeNull();
+          expect(check.differences).toEqual([]);
+        }
+      }),
+      { numRuns: 8 },
+    );
+  }, 300_000);
+});
+
+async function poolIdsOf(companyId: number): Promise<number[]> {
+  const [rows] = (await db().execute(`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY account_code`)) as unknown as [Array<{ id: number }>];
+  return rows.map((r) => r.id);
+}
+
+describe("answers from kept results", () => {
+  it("are the answers worked out from the tests, and say where they came from", async () => {
+    const { scope } = await analystWithPools("KA", POOLS);
+    const owner: Scope = { ...scope, role: "owner" };
+    const poolIds = await poolIdsOf(scope.companyId);
+    // pool 0: iron opens twice within a year (recurring); pool 1: copper stays up for 90 days (chronic); pool 2: clear
+    const series: Array<[pool: number, day: number, values: Partial<Record<"copper" | "iron", number>>]> = [
+      [0, 0, { iron: 0.5 }], [0, 14, { iron: 0.05 }], [0, 100, { iron: 0.6 }], [0, 120, { iron: 0.05 }],
+      [1, 0, { copper: 0.9 }], [1, 45, { copper: 0.6 }], [1, 90, { copper: 0.5 }],
+      [2, 0, { iron: 0.05, copper: 0.05 }], [2, 30, { iron: 0.05 }],
+    ];
+    let n = 0;
+    for (const [pool, day, values] of series) {
+      const saved = await logVisit(scope, poolIds[pool]!, visitInput({ kind: "visit", pool, day, ...values }), new Date(T0 + day * DAY + ++n));
+      expect(saved.ok).toBe(true);
+    }
+    await keptReady(scope.companyId);
+    const params = { window: ALL_TIME, thresholds: DEFAULT_METAL_THRESHOLDS, metal: null, balanceBand: { low: -0.3, high: 0.3 } };
+    const kept = await routeBookSummary(owner, params);
+    const keptGroups = await groupFigures(owner, { ...params, metal: "iron", grouping: "route" });
+    expect(kept.source).toBe("kept");
+    expect(kept.recurringPools).toBe(1);
+    expect(kept.chronicPools).toBe(1);
+    expect(kept.openEpisodes).toEqual({ copper: 1, iron: 0, manganese: 0 });
+
+    // With no kept version, the same questions are worked out from the tests.
+    await db().delete(keptVersions).where(eq(keptVersions.companyId, scope.companyId));
+    const recomputed = await routeBookSummary(owner, params);
+    const recomputedGroups = await groupFigures(owner, { ...params, metal: "iron", grouping: "route" });
+    expect(recomputed.source).toBe("recomputed");
+    expect({ ...kept, source: null }).toEqual({ ...recomputed, source: null });
+    expect(keptGroups.source).toBe("kept");
+    expect({ ...keptGroups, source: null }).toEqual({ ...recomputedGroups, source: null });
+    await keptReady(scope.companyId);
+    await db().delete(companies).where(eq(companies.id, scope.companyId));
+  });
+});
