@@ -1,4 +1,4 @@
-import { analyseMetalHistory, type MetalTest } from "@analysis/metals/episodes";
+import { analyseMetalHistory, type MetalHistory, type MetalTest } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { episodeJson, isoInstant, type EpisodeJson } from "../json-shapes";
 
@@ -21,13 +21,19 @@ export type RecurringFindings = {
 
 export type PoolNames = { street: string; customerName: string; routeName: string | null; fillSourceName: string | null };
 
+type RecurringOptions = { thresholds: MetalThresholds; metals: readonly Metal[]; recurrenceWindowDays: number; chronicAfterDays: number };
+
 /** Recurring or chronic pools among already-read readings (also run in the browser). */
-export function findRecurring(
-  readings: readonly MetalTest[],
+export function findRecurring(readings: readonly MetalTest[], labels: ReadonlyMap<number, PoolNames>, options: RecurringOptions): RecurringFindings {
+  return recurringFromHistory(analyseMetalHistory(readings, options), labels, options);
+}
+
+/** Recurring or chronic pools of a metal history already worked out (or kept). */
+export function recurringFromHistory(
+  history: Pick<MetalHistory, "episodes" | "recurrence">,
   labels: ReadonlyMap<number, PoolNames>,
-  options: { thresholds: MetalThresholds; metals: readonly Metal[]; recurrenceWindowDays: number; chronicAfterDays: number },
+  options: Omit<RecurringOptions, "thresholds">,
 ): RecurringFindings {
-  const history = analyseMetalHistory(readings, options);
   const episodesByPool = new Map<string, typeof history.episodes>();
   for (const e of history.episodes) episodesByPool.set(e.poolId, [...(episodesByPool.get(e.poolId) ?? []), e]);
   const result: RecurringPool[] = [];

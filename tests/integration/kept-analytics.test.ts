@@ -8,14 +8,17 @@ import { keepCompanyCurrent } from "~/.server/analytics/kept/versions";
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { groupFigures } from "~/.server/analytics/queries/group-figures";
+import { recurringPools } from "~/.server/analytics/queries/recurring-pools";
+import { sharedSourceAlertList } from "~/.server/analytics/queries/shared-source-alerts";
 import { ALL_TIME } from "~/.server/analytics/queries/tenant-and-window";
 import { db } from "~/.server/db/client";
-import { companies, importBatches, keptVersions } from "~/.server/db/schema";
+import { companies, importBatches, keptVersions, pools } from "~/.server/db/schema";
 import { undoBatch } from "~/.server/imports/commit";
 import { updateCompanySettings } from "~/.server/settings/commands/update-company-settings";
 import { logVisit } from "~/.server/visits/commands/save-visit";
 import type { Scope } from "~/.server/scope";
 import type { VisitInput } from "~/lib/forms/visit";
+import { createFillSource } from "../fixtures/company";
 import { analystWithPools, postCheckForm, upload, useScratchUploadDir } from "./imports-helpers";
 
 const DAY = 86_400_000;
@@ -154,6 +157,8 @@ describe("answers from kept results", () => {
     const { scope } = await analystWithPools("KA", POOLS);
     const owner: Scope = { ...scope, role: "owner" };
     const poolIds = await poolIdsOf(scope.companyId);
+    const well = await createFillSource(scope.companyId, "Test well", "shared_well");
+    await db().update(pools).set({ fillSourceId: well }).where(eq(pools.companyId, scope.companyId));
     // pool 0: iron opens twice within a year (recurring); pool 1: copper stays up for 90 days (chronic); pool 2: clear
     const series: Array<[pool: number, day: number, values: Partial<Record<"copper" | "iron", number>>]> = [
       [0, 0, { iron: 0.5 }], [0, 14, { iron: 0.05 }], [0, 100, { iron: 0.6 }], [0, 120, { iron: 0.05 }],
@@ -169,6 +174,8 @@ describe("answers from kept results", () => {
     const params = { window: ALL_TIME, thresholds: DEFAULT_METAL_THRESHOLDS, metal: null, balanceBand: { low: -0.3, high: 0.3 } };
     const kept = await routeBookSummary(owner, params);
     const keptGroups = await groupFigures(owner, { ...params, metal: "iron", grouping: "route" });
+    const keptRecurring = await recurringPools(owner, { ...params, metal: null });
+    const keptAlerts = await sharedSourceAlertList(owner, { ...params, metal: "iron" });
     expect(kept.source).toBe("kept");
     expect(kept.recurringPools).toBe(1);
     expect(kept.chronicPools).toBe(1);
@@ -178,10 +185,17 @@ describe("answers from kept results", () => {
     await db().delete(keptVersions).where(eq(keptVersions.companyId, scope.companyId));
     const recomputed = await routeBookSummary(owner, params);
     const recomputedGroups = await groupFigures(owner, { ...params, metal: "iron", grouping: "route" });
+    const recomputedRecurring = await recurringPools(owner, { ...params, metal: null });
+    const recomputedAlerts = await sharedSourceAlertList(owner, { ...params, metal: "iron" });
     expect(recomputed.source).toBe("recomputed");
     expect({ ...kept, source: null }).toEqual({ ...recomputed, source: null });
     expect(keptGroups.source).toBe("kept");
     expect({ ...keptGroups, source: null }).toEqual({ ...recomputedGroups, source: null });
+    expect([keptRecurring.source, keptAlerts.source]).toEqual(["kept", "kept"]);
+    expect(keptRecurring.pools.map((p) => p.poolId)).toEqual([poolIds[0], poolIds[1]]);
+    expect({ ...keptRecurring, source: null }).toEqual({ ...recomputedRecurring, source: null });
+    expect(keptAlerts.sourcesWatched).toBe(1);
+    expect({ ...keptAlerts, source: null }).toEqual({ ...recomputedAlerts, source: null });
     await keptReady(scope.companyId);
     await db().delete(companies).where(eq(companies.id, scope.companyId));
   });

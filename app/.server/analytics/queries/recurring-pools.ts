@@ -11,7 +11,8 @@ import {
   type TreatmentColumns,
   type TreatmentProduct,
 } from "~/lib/analytics/reading-columns";
-import { findRecurring, type RecurringFindings } from "@analysis/metals/recurring-finder";
+import { findRecurring, recurringFromHistory, type RecurringFindings } from "@analysis/metals/recurring-finder";
+import { keptMetalHistory, keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { metalReadings, treatmentRows } from "./metal-readings";
 import { poolProfiles } from "./pool-profiles";
 import { testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
@@ -47,14 +48,23 @@ function rulesOf(params: RecurringParams) {
   };
 }
 
-export async function recurringPools(scope: Scope, params: RecurringParams): Promise<RecurringFindings> {
+export async function recurringPools(scope: Scope, params: RecurringParams): Promise<RecurringFindings & { source: AnswerSource }> {
   const metals = params.metal ? [params.metal] : METALS;
+  const rules = rulesOf(params);
+  const companyRules = rules.recurrenceWindowDays === DEFAULT_EPISODE_RULES.recurrenceWindowDays && rules.chronicAfterDays === DEFAULT_EPISODE_RULES.chronicAfterDays;
+  const versionId = companyRules ? await keptVersionFor(scope.companyId, params) : null;
+  if (versionId !== null) {
+    const history = await keptMetalHistory({ scope }, versionId, params.metal ?? "all");
+    const withEpisodes = [...new Set(history.episodes.map((e) => Number(e.poolId)))];
+    const book = await poolProfiles({ scope }, { poolIds: withEpisodes });
+    return { ...recurringFromHistory(history, book.labels, { metals, ...rules }), source: "kept" };
+  }
   const candidates = await poolsReaching(scope, params.window, metals, (metal) => params.thresholds[metal].elevated);
   const [readings, book] = await Promise.all([
     metalReadings({ scope }, { window: params.window, metals, poolIds: candidates }),
     poolProfiles({ scope }, { poolIds: candidates }),
   ]);
-  return findRecurring(readings, book.labels, { thresholds: params.thresholds, metals, ...rulesOf(params) });
+  return { ...findRecurring(readings, book.labels, { thresholds: params.thresholds, metals, ...rules }), source: "recomputed" };
 }
 
 export type RecurringReadings = {

@@ -1,11 +1,12 @@
 import { and, count, eq, inArray, isNotNull } from "drizzle-orm";
-import { analyseMetalHistory, type MetalTest } from "@analysis/metals/episodes";
+import { analyseMetalHistory, type Episode, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/shared-source";
 import { isoInstant } from "@analysis/json-shapes";
 import { db } from "../../db/client";
 import { fillSources, pools } from "../../db/schema";
 import type { Scope } from "../../scope";
+import { keptEpisodeList, keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { metalReadings } from "./metal-readings";
 import { poolProfiles } from "./pool-profiles";
 import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
@@ -26,7 +27,7 @@ export type SourceAlert = {
   poolsOutsideScope: number;
 };
 
-export type SharedSourceAlerts = { alerts: SourceAlert[]; sourcesWatched: number };
+export type SharedSourceAlerts = { alerts: SourceAlert[]; sourcesWatched: number; source?: AnswerSource };
 
 /**
  * Shared-source alerts for the fill sources of the member's pools.
@@ -40,8 +41,13 @@ export async function sharedSourceAlertList(
   scope: Scope,
   params: AnalyticsParams & { sourceIds?: readonly number[] },
 ): Promise<SharedSourceAlerts> {
+  const versionId = await keptVersionFor(scope.companyId, params);
+  if (versionId !== null) {
+    const { alerts, sourcesWatched } = await sourceAlertsFrom(scope, params, (poolIds) => keptEpisodeList({ companyId: scope.companyId }, versionId, params.metal ?? "all", poolIds));
+    return { alerts, sourcesWatched, source: "kept" };
+  }
   const { alerts, sourcesWatched } = await sourceAlertsWithReadings(scope, params, params.metal ? [params.metal] : METALS);
-  return { alerts, sourcesWatched };
+  return { alerts, sourcesWatched, source: "recomputed" };
 }
 
 /** Readings kept to one metal, as they would have been read for it alone. */
@@ -64,6 +70,22 @@ export async function sourceAlertsWithReadings(
   params: AnalyticsParams & { sourceIds?: readonly number[] },
   metalsToRead: readonly Metal[],
 ): Promise<SharedSourceAlerts & { readings: MetalTest[] }> {
+  let readings: MetalTest[] = [];
+  const metals = params.metal ? [params.metal] : METALS;
+  const found = await sourceAlertsFrom(scope, params, async (poolIds) => {
+    readings = await metalReadings({ companyId: scope.companyId }, { window: params.window, metals: params.metal ? metalsToRead : METALS, poolIds });
+    const alertReadings = params.metal && metalsToRead.some((m) => m !== params.metal) ? onlyMetal(readings, params.metal) : readings;
+    return analyseMetalHistory(alertReadings, { thresholds: params.thresholds, metals }).episodes;
+  });
+  return { ...found, readings };
+}
+
+/** The alerts of the watched sources, from the episodes of every pool of the company on them. */
+async function sourceAlertsFrom(
+  scope: Scope,
+  params: AnalyticsParams & { sourceIds?: readonly number[] },
+  episodesOf: (poolIds: number[]) => Promise<Episode[]>,
+): Promise<SharedSourceAlerts> {
   const visibleSources = await db()
     .selectDistinct({ id: pools.fillSourceId })
     .from(pools)
@@ -75,7 +97,7 @@ export async function sourceAlertsWithReadings(
       ),
     );
   const sourceIds = visibleSources.map((s) => s.id!).filter((id) => id !== null);
-  if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0, readings: [] };
+  if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0 };
 
   const companyWide = { companyId: scope.companyId };
   const [sourcePools, sources, active] = await Promise.all([
@@ -94,20 +116,17 @@ export async function sourceAlertsWithReadings(
       .groupBy(pools.fillSourceId),
   ]);
   const poolIds = sourcePools.map((p) => p.id);
-  const metals = params.metal ? [params.metal] : METALS;
-  const [readings, book, visible] = await Promise.all([
-    metalReadings(companyWide, { window: params.window, metals: params.metal ? metalsToRead : METALS, poolIds }),
+  const [episodes, book, visible] = await Promise.all([
+    episodesOf(poolIds),
     poolProfiles(companyWide, { poolIds }),
     db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, poolIds))),
   ]);
-  const alertReadings = params.metal && metalsToRead.some((m) => m !== params.metal) ? onlyMetal(readings, params.metal) : readings;
-  const history = analyseMetalHistory(alertReadings, { thresholds: params.thresholds, metals });
   const activePools = new Map(active.map((a) => [String(a.sourceId), a.n]));
-  const found = sharedSourceAlerts(history.episodes, book.profiles, { activePools });
+  const found = sharedSourceAlerts(episodes, book.profiles, { activePools });
   // Lookups by id, built once: a large route book has hundreds of sources.
   const sourceById = new Map(sources.map((s) => [String(s.id), s]));
   const streets = new Map(visible.map((p) => [String(p.id), p.street]));
-  return { alerts: found.map((a) => describe(a, sourceById, streets)).reverse(), sourcesWatched: sourceIds.length, readings };
+  return { alerts: found.map((a) => describe(a, sourceById, streets)).reverse(), sourcesWatched: sourceIds.length };
 }
 
 function describe(
