@@ -19,6 +19,8 @@ const envSchema = z.object({
   PATINA_ANALYTICS_CONCURRENCY: z.coerce.number().int().min(1).max(64).default(4),
   PATINA_ANALYTICS_QUEUE: z.coerce.number().int().min(0).max(1_000).default(48),
   PATINA_ANALYTICS_QUEUE_WAIT_MS: z.coerce.number().int().min(0).max(600_000).default(30_000),
+  // "off" answers every analytics request from the tests (the kept results are still kept); for comparison and emergencies.
+  PATINA_KEPT_ANALYTICS: z.enum(["on", "off"]).default("on"),
   PATINA_RETRY_AFTER_SECONDS: z.coerce.number().int().min(1).max(3_600).default(5),
 });
 

@@ -11,7 +11,9 @@
  */
 import { performance } from "node:perf_hooks";
 import { RouterContextProvider } from "react-router";
-import { closeDatabase, pool } from "../../app/.server/db/client";
+import { keepPoolsInStep, lockPoolsForKeeping } from "../../app/.server/analytics/kept/keep-pools";
+import { closeDatabase, db, pool } from "../../app/.server/db/client";
+import { serverEnv } from "../../app/.server/env";
 import { apiMemberMiddleware } from "../../app/.server/guard";
 import * as alerts from "~/routes/api.analytics.alerts";
 import * as evidence from "~/routes/api.analytics.pools.$poolId.evidence";
@@ -45,16 +47,32 @@ const METAL_ROWS = `SELECT t.id, t.pool_id, t.sampled_at, t.copper, t.copper_bel
 const SPANS = `SELECT t.pool_id, MIN(t.sampled_at), MAX(t.sampled_at), COUNT(*) FROM water_tests t JOIN pools p ON p.id = t.pool_id
   WHERE p.company_id = ? AND t.company_id = ? GROUP BY t.pool_id`;
 
-type Case = { name: string; path: string; params?: Record<string, string>; loader: (args: never) => unknown; bare: Array<[string, unknown[]]> };
+/** The kept rows an answer from the kept results reads. */
+const KEPT_ROWS = (readAs: string): Array<[string, unknown[]]> => [
+  [`SELECT e.* FROM kept_episodes e JOIN pools p ON p.id = e.pool_id JOIN kept_versions v ON v.id = e.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND e.read_as = '${readAs}' AND p.company_id = ? ORDER BY e.pool_id, e.seq`, [c, c]],
+  [`SELECT s.* FROM kept_pool_spans s JOIN pools p ON p.id = s.pool_id JOIN kept_versions v ON v.id = s.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND s.read_as IN ('${readAs}', 'any') AND p.company_id = ? ORDER BY s.pool_id`, [c, c]],
+];
+
+type Case = {
+  name: string;
+  path: string;
+  params?: Record<string, string>;
+  loader: (args: never) => unknown;
+  bare: Array<[string, unknown[]]>;
+  /** The bare read of the kept rows, for the answers that come from them. */
+  kept?: Array<[string, unknown[]]>;
+};
 const c = company.id;
 const cases: Case[] = [
-  { name: "summary", path: "/api/analytics/summary", loader: summary.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
+  { name: "summary", path: "/api/analytics/summary", loader: summary.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]], kept: KEPT_ROWS("all") },
   { name: "trend", path: "/api/analytics/trend", loader: trend.loader, bare: [[METAL_ROWS, [c, c]]] },
-  { name: "groups (fill source, iron)", path: "/api/analytics/groups?grouping=fill-source&metal=iron", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
-  { name: "groups (heater age, copper)", path: "/api/analytics/groups?grouping=heater-age&metal=copper", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]] },
-  { name: "recurring", path: "/api/analytics/recurring", loader: recurring.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "groups (fill source, iron)", path: "/api/analytics/groups?grouping=fill-source&metal=iron", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]], kept: KEPT_ROWS("iron") },
+  { name: "groups (heater age, copper)", path: "/api/analytics/groups?grouping=heater-age&metal=copper", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]], kept: KEPT_ROWS("copper") },
+  { name: "recurring", path: "/api/analytics/recurring", loader: recurring.loader, bare: [[METAL_ROWS, [c, c]]], kept: KEPT_ROWS("all") },
   { name: "recurring (readings)", path: "/api/analytics/recurring?include=readings", loader: recurring.loader, bare: [[METAL_ROWS, [c, c]]] },
-  { name: "alerts", path: "/api/analytics/alerts", loader: alerts.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "alerts", path: "/api/analytics/alerts", loader: alerts.loader, bare: [[METAL_ROWS, [c, c]]], kept: KEPT_ROWS("all") },
   { name: "sources", path: "/api/analytics/sources", loader: sources.loader, bare: [[METAL_ROWS, [c, c]]] },
   {
     name: "outcomes (iron, combination)",
@@ -93,8 +111,24 @@ async function timeIt(work: () => Promise<unknown>): Promise<number> {
   return performance.now() - started;
 }
 
-console.log(`route book: ${size.pools} pools, ${size.tests} water tests; median of ${runs} runs after one warm-up\n`);
-console.log(`${"endpoint".padEnd(32)} ${"endpoint ms".padStart(12)} ${"bare SQL ms".padStart(12)} ${"answer kB".padStart(10)}`);
+const percentile = (values: number[], p: number) => {
+  const sorted = [...values].sort((a, b) => a - b);
+  return sorted[Math.min(sorted.length - 1, Math.ceil(p * sorted.length) - 1)]!;
+};
+
+type Timing = { p50: number; p95: number };
+async function timings(work: () => Promise<unknown>): Promise<Timing> {
+  await work();
+  const times: number[] = [];
+  for (let i = 0; i < runs; i++) times.push(await timeIt(work));
+  return { p50: median(times), p95: percentile(times, 0.95) };
+}
+const ms = (t: Timing | null) => (t ? `${t.p50.toFixed(0)} / ${t.p95.toFixed(0)}` : "-");
+
+console.log(`route book: ${size.pools} pools, ${size.tests} water tests; median / 95th percentile (ms) of ${runs} runs after one warm-up\n`);
+console.log(
+  `${"endpoint".padEnd(30)} ${"kept".padStart(12)} ${"recomputed".padStart(12)} ${"kept rows".padStart(12)} ${"test rows".padStart(12)} ${"source".padStart(11)} ${"kB".padStart(6)}`,
+);
 for (const test of cases) {
   const call = async () => {
     const request = new Request(`http://localhost:3000${test.path}`, { headers: { Cookie: cookie } });
@@ -104,19 +138,35 @@ for (const test of cases) {
     if (!response.ok) throw new Error(`${test.name}: ${response.status} ${await response.text()}`);
     return response.text();
   };
-  const bare = async () => {
-    for (const [text, values] of test.bare) await pool().query(text, values);
+  const read = (statements: Array<[string, unknown[]]>) => async () => {
+    for (const [text, values] of statements) await pool().query(text, values);
   };
+  serverEnv().PATINA_KEPT_ANALYTICS = "on";
   const answer = await call();
-  await bare();
-  const endpointTimes: number[] = [];
-  const bareTimes: number[] = [];
-  for (let i = 0; i < runs; i++) {
-    endpointTimes.push(await timeIt(call));
-    bareTimes.push(await timeIt(bare));
-  }
+  const source = (JSON.parse(answer) as { source?: string }).source ?? "recomputed";
+  const kept = source === "kept" ? await timings(call) : null;
+  serverEnv().PATINA_KEPT_ANALYTICS = "off";
+  const recomputed = await timings(call);
+  serverEnv().PATINA_KEPT_ANALYTICS = "on";
+  const keptRows = test.kept ? await timings(read(test.kept)) : null;
+  const testRows = await timings(read(test.bare));
   console.log(
-    `${test.name.padEnd(32)} ${median(endpointTimes).toFixed(0).padStart(12)} ${median(bareTimes).toFixed(0).padStart(12)} ${(answer.length / 1024).toFixed(0).padStart(10)}`,
+    `${test.name.padEnd(30)} ${ms(kept).padStart(12)} ${ms(recomputed).padStart(12)} ${ms(keptRows).padStart(12)} ${ms(testRows).padStart(12)} ${source.padStart(11)} ${(answer.length / 1024).toFixed(0).padStart(6)}`,
   );
 }
+
+// What keeping a pool's results adds to a visit save: the lock, the pool's tests read again, its rows replaced.
+const keepTimes: number[] = [];
+for (let i = 0; i <= runs * 4; i++) {
+  const started = performance.now();
+  await db()
+    .transaction(async (tx) => {
+      await lockPoolsForKeeping(tx, [busiest.id]);
+      await keepPoolsInStep(tx, company.id, [busiest.id]);
+      throw new Error("rolled back");
+    })
+    .catch(() => undefined);
+  if (i > 0) keepTimes.push(performance.now() - started);
+}
+console.log(`\nkeeping the busiest pool in step with a visit (lock, read, replace; rolled back): median ${median(keepTimes).toFixed(1)} ms`);
 await closeDatabase();

@@ -205,7 +205,7 @@ async function commitClaimed(
       await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
     }
 
-    await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()]);
+    await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], connection);
 
     // Fenced by the claim token: a commit taken over after going quiet rolls back here.
     const finish = finishClaimSql(claim);

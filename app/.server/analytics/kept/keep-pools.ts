@@ -1,6 +1,7 @@
 import { sql, type SQL } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
 import type { MetalThresholds } from "@analysis/metals/reading";
+import type { PoolConnection } from "mysql2/promise";
 import type { Database } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
@@ -49,23 +50,35 @@ export async function liveVersions(writer: Writer, companyId: number): Promise<L
  * and id: the order the analysis reads them in. A locking read, so it sees the
  * latest committed tests whatever the transaction's snapshot.
  */
-export async function poolTests(writer: Writer, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
+/** The driver's own connection (or pool), for the large reads: rows as arrays, dates and decimals parsed by the driver. */
+export type RawReader = Pick<PoolConnection, "query">;
+
+type TestRow = [id: number, poolId: number, sampledAt: Date | string, copper: number | null, copperBelow: number, iron: number | null,
+  ironBelow: number, manganese: number | null, manganeseBelow: number, balanceComplete: number];
+
+export async function poolTests(source: Writer | RawReader, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
   if (poolIds.length === 0) return [];
-  const rows = await rowsOf(
-    writer,
-    sql`SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
-        (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete
-      FROM water_tests WHERE company_id = ${companyId} AND pool_id IN (${idList(poolIds)})
-      ORDER BY pool_id, sampled_at, id ${lock ? sql`LOCK IN SHARE MODE` : sql``}`,
-  );
-  return rows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.pool_id),
-    takenAt: utcDate(r.sampled_at)!.getTime(),
-    copper: metalReading(r.copper === null ? null : Number(r.copper), Number(r.copper_below_detection) === 1),
-    iron: metalReading(r.iron === null ? null : Number(r.iron), Number(r.iron_below_detection) === 1),
-    manganese: metalReading(r.manganese === null ? null : Number(r.manganese), Number(r.manganese_below_detection) === 1),
-    balanceComplete: Number(r.balance_complete) === 1,
+  const statement = `SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
+      (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete
+    FROM water_tests WHERE company_id = ? AND pool_id IN (${poolIds.map(() => "?").join(", ")})
+    ORDER BY pool_id, sampled_at, id${lock ? " LOCK IN SHARE MODE" : ""}`;
+  const params = [companyId, ...poolIds];
+  let rows: TestRow[];
+  // A drizzle database has a `query` object of its own (relational queries); the driver's is a function.
+  if (typeof (source as Partial<RawReader>).query === "function") {
+    [rows] = (await (source as RawReader).query({ sql: statement, rowsAsArray: true }, params)) as unknown as [TestRow[]];
+  } else {
+    const [objects] = (await (source as Writer).execute(sql.raw(statement.replace(/\?/g, () => String(Number(params.shift())))))) as unknown as [Row[]];
+    rows = objects.map((r) => Object.values(r) as TestRow);
+  }
+  return rows.map(([id, poolId, sampledAt, copper, copperBelow, iron, ironBelow, manganese, manganeseBelow, balanceComplete]) => ({
+    id: String(id),
+    poolId: String(poolId),
+    takenAt: utcDate(sampledAt)!.getTime(),
+    copper: metalReading(copper === null ? null : Number(copper), Number(copperBelow) === 1),
+    iron: metalReading(iron === null ? null : Number(iron), Number(ironBelow) === 1),
+    manganese: metalReading(manganese === null ? null : Number(manganese), Number(manganeseBelow) === 1),
+    balanceComplete: Number(balanceComplete) === 1,
   }));
 }
 
@@ -108,11 +121,11 @@ export async function replaceKeptRows(writer: Writer, companyId: number, version
  * the write's own transaction (after lockPoolsForKeeping): each pool is worked
  * out again from its own tests, for every live version of the levels.
  */
-export async function keepPoolsInStep(writer: Writer, companyId: number, poolIds: readonly number[]): Promise<void> {
+export async function keepPoolsInStep(writer: Writer, companyId: number, poolIds: readonly number[], reader?: RawReader): Promise<void> {
   const ids = [...new Set(poolIds)].sort((a, b) => a - b);
   if (ids.length === 0) return;
   const versions = await liveVersions(writer, companyId);
   if (versions.length === 0) return;
-  const tests = await poolTests(writer, companyId, ids);
+  const tests = await poolTests(reader ?? writer, companyId, ids);
   for (const version of versions) await replaceKeptRows(writer, companyId, version, ids, tests);
 }

@@ -3,6 +3,7 @@ import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
+import { serverEnv } from "../../env";
 import { keptEpisodes, keptPoolSpans, pools } from "../../db/schema";
 import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
 import { readyVersionFor } from "./versions";
@@ -16,6 +17,7 @@ export type AnswerSource = "kept" | "recomputed";
  * levels laid over the settings are answered from the tests.
  */
 export async function keptVersionFor(companyId: number, request: { window?: TimeWindow; thresholds: MetalThresholds }): Promise<number | null> {
+  if (serverEnv().PATINA_KEPT_ANALYTICS === "off") return null;
   if (request.window && (request.window.from || request.window.to)) return null;
   return readyVersionFor(companyId, request.thresholds);
 }

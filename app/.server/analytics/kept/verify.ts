@@ -1,7 +1,7 @@
 import { sql } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptSpan } from "@analysis/metals/kept-history";
 import type { MetalThresholds } from "@analysis/metals/reading";
-import { db } from "../../db/client";
+import { db, pool } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { poolTests } from "./keep-pools";
 
@@ -47,7 +47,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   const levels = typeof version.levels === "string" ? (JSON.parse(version.levels) as MetalThresholds) : version.levels;
   const [poolRows] = (await db().execute(sql`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY id`)) as unknown as [Array<{ id: number }>];
   const poolIds = poolRows.map((p) => p.id);
-  const tests = await poolTests(db(), companyId, poolIds, false);
+  const tests = await poolTests(pool(), companyId, poolIds, false);
   const expected = keptRowsOf(tests, levels);
 
   const [episodeRows] = (await db().execute(

@@ -184,7 +184,7 @@ async function buildVersion(companyId: number, version: LiveVersion, onProgress?
     }
     const ids = chunk.map((p) => p.id);
     await lockPoolsForKeeping(writer, ids);
-    const tests = await poolTests(writer, companyId, ids);
+    const tests = await poolTests(connection, companyId, ids);
     await replaceKeptRows(writer, companyId, version, ids, tests);
     const [claim] = (await connection.query(
       `UPDATE kept_versions SET built_through_pool_id = ?, claim_expires_at = NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND WHERE id = ? AND claimed_by = ?`,
