@@ -46,6 +46,8 @@ export type MetalDataset = {
   spans: ObservedSpan[];
   history: MetalHistory;
   source: AnswerSource;
+  /** The kept version read, for an answer from the kept results. */
+  versionId?: number;
 };
 
 export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): Promise<MetalDataset> {
@@ -65,6 +67,7 @@ export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): P
       spans: spans.map((s) => ({ poolId: s.poolId, firstAt: s.firstTestAt, lastAt: s.lastTestAt, tests: s.tests, latestBalanceAt: s.latestBalanceAt })),
       history,
       source: "kept",
+      versionId,
     };
   }
   const [readings, book, spans] = await Promise.all([

@@ -3,7 +3,7 @@ import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/ch
 import type { Metal } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
-import { pools, waterTests } from "../../db/schema";
+import { keptPoolSpans, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
 import type { AnswerSource } from "../kept/read-kept";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
@@ -80,6 +80,19 @@ async function poolCounts(scope: Scope) {
  * The balance inputs of each pool's latest complete test, read by the
  * (pool, time) key the grouped pass found: one indexed lookup per pool.
  */
+/** The same tests found through the kept spans: one index lookup per pool on (company, pool, time). */
+function keptBalanceTests(scope: Scope, versionId: number) {
+  return db()
+    .select(BALANCE_COLUMNS)
+    .from(keptPoolSpans)
+    .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
+    .innerJoin(
+      waterTests,
+      and(eq(waterTests.companyId, keptPoolSpans.companyId), eq(waterTests.poolId, keptPoolSpans.poolId), eq(waterTests.sampledAt, keptPoolSpans.latestBalanceAt)),
+    )
+    .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, "any"), tenantCondition({ scope })));
+}
+
 async function balanceTestsAt(scope: Scope, latest: ReadonlyArray<{ poolId: number; at: Date }>) {
   if (latest.length === 0) return [];
   return db()
@@ -104,7 +117,7 @@ export async function routeBookSummary(
   ]);
   const perPool = dataset.source === "kept" ? keptTestFigures(dataset) : await poolTestFigures(scope, params.window);
   const latest = perPool.flatMap((p) => (p.latestBalanceAt ? [{ poolId: p.poolId, at: p.latestBalanceAt }] : []));
-  const balanceRows = await balanceTestsAt(scope, latest);
+  const balanceRows = dataset.versionId !== undefined ? await keptBalanceTests(scope, dataset.versionId) : await balanceTestsAt(scope, latest);
   const figures = {
     ...poolFigures,
     tests: perPool.reduce((sum, p) => sum + p.tests, 0),
