@@ -179,6 +179,12 @@ describe("visits saved without signal", () => {
     const stored = await storedUnder(key);
     expect(stored).toHaveLength(1);
     expect(stored[0]).toMatchObject({ poolId: pool.poolId, ph: 7.4, freeChlorine: 2 });
+
+    // Signing out forgets the kept pages: the next person on this phone does not see this route.
+    expect(await page.evaluate(() => caches.has("patina-visit-pages"))).toBe(true);
+    await page.getByRole("button", { name: "Sign out" }).click();
+    await page.waitForURL((url) => url.pathname === "/sign-in");
+    await expect.poll(() => page.evaluate(() => caches.has("patina-visit-pages"))).toBe(false);
     await context.close();
   }, 240_000);
 });
