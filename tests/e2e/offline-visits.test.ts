@@ -4,6 +4,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { ROUTES } from "../../drizzle/seed/names";
 import { browserPerFile, phoneContext } from "../fixtures/browser";
 import { TEST_DATABASE_URL } from "../fixtures/database";
+import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
 const browser = browserPerFile();
@@ -149,6 +150,27 @@ describe("visits saved without signal", () => {
     const stored = await storedUnder(key);
     expect(stored).toHaveLength(1);
     expect(stored[0]).toMatchObject({ poolId: pool.poolId, ph: 7.3, freeChlorine: 3.1 });
+    await context.close();
+  }, 240_000);
+
+  it("sends a kept visit when the app is opened again with signal", async () => {
+    const context = await phoneContext(browser());
+    const page = await openRouteReadyForNoSignal(context);
+    await context.setOffline(true);
+    const pool = await openStop(page, 4);
+    await typeVisit(page, { ph: "7.7", freeChlorine: "1.2" });
+    await page.getByRole("button", { name: "Save visit" }).click();
+    const key = await keptVisitKey(page, pool.street, "Waiting for signal");
+    await page.close();
+
+    // Signal is back while the app is closed; opening it sends what waited.
+    await context.setOffline(false);
+    const reopened = await context.newPage();
+    await reopened.goto(`${BROWSER_TEST_URL}/visit`);
+    await reopened.getByRole("heading", { level: 1, name: "Log a visit" }).waitFor();
+    await expect.poll(() => storedUnder(key), { timeout: 60_000 }).toHaveLength(1);
+    expect((await storedUnder(key))[0]).toMatchObject({ poolId: pool.poolId, ph: 7.7, freeChlorine: 1.2 });
+    await keptSection(reopened).waitFor({ state: "detached" });
     await context.close();
   }, 240_000);
 
