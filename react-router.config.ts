@@ -6,6 +6,9 @@ export default {
   // middleware runs. Patina's check (app/.server/security/origin-check.ts, root middleware) covers
   // every non-GET request, resource routes and API included, so the framework's is switched off.
   allowedActionOrigins: ["**"],
+  // Every page carries the whole route list, so the visit pages can move between each other and
+  // send kept visits without signal (lazy discovery would ask the server for each new address).
+  routeDiscovery: { mode: "initial" },
   future: {
     v8_middleware: true,
     v8_splitRouteModules: true,

@@ -3,6 +3,7 @@ import { reactRouter } from "@react-router/dev/vite";
 import tailwindcss from "@tailwindcss/vite";
 import { fileURLToPath } from "node:url";
 import { defineConfig } from "vite";
+import { VitePWA } from "vite-plugin-pwa";
 
 const alias = {
   "~": fileURLToPath(new URL("./app", import.meta.url)),
@@ -22,8 +23,46 @@ const serverTestEnv = {
   NODE_ENV: "test",
 };
 
+/**
+ * The installable app and its service worker (app/lib/offline/service-worker.ts),
+ * built into build/client beside the assets it keeps. The worker keeps every
+ * built script and style and the Latin fonts; other files are kept when first used.
+ */
+const installableApp = VitePWA({
+  strategies: "injectManifest",
+  // React Router builds the browser's files into build/client; the plugin would assume Vite's dist/.
+  outDir: "build/client",
+  srcDir: "app/lib/offline",
+  filename: "service-worker.ts",
+  // The pages register it themselves (app/lib/offline/keep-pages.ts); no HTML to inject into.
+  injectRegister: false,
+  manifest: {
+    name: "Patina",
+    short_name: "Patina",
+    description: "Pool visits, water tests and dissolved metals for pool service teams.",
+    start_url: "/visit",
+    scope: "/",
+    display: "standalone",
+    theme_color: "#22604f",
+    background_color: "#f7f5ef",
+    icons: [
+      { src: "/icons/patina-192.png", sizes: "192x192", type: "image/png" },
+      { src: "/icons/patina-512.png", sizes: "512x512", type: "image/png" },
+      { src: "/icons/patina-maskable-512.png", sizes: "512x512", type: "image/png", purpose: "maskable" },
+      { src: "/favicon.svg", sizes: "any", type: "image/svg+xml" },
+    ],
+  },
+  injectManifest: {
+    // A classic script: every browser that has service workers runs it.
+    rollupFormat: "iife",
+    globPatterns: ["assets/**/*.{js,css}", "assets/inter-tight-latin-[4-7]00-normal-*.woff2", "favicon.svg"],
+    // The charts' bundle is most of the weight and no visit page draws a chart.
+    globIgnores: ["assets/plot-figure-*.js"],
+  },
+}).map((plugin) => ({ ...plugin, applyToEnvironment: (environment: { name: string }) => environment.name === "client" }));
+
 export default defineConfig({
-  plugins: underVitest ? [] : [tailwindcss(), reactRouter()],
+  plugins: underVitest ? [] : [tailwindcss(), reactRouter(), installableApp],
   resolve: { alias },
   server: { port: 5173, host: "127.0.0.1" },
   test: {

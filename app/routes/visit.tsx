@@ -6,8 +6,12 @@ import { companyPreferences } from "~/.server/settings/queries/company-settings"
 import { searchPools } from "~/.server/routebook/queries/pools";
 import { type MetalMark, metalMarks } from "~/.server/visits/queries/metal-marks";
 import { PageHeader } from "~/components/data-table";
+import { KeptPagesNote, KeptVisitsPanel, NoSignalNotice } from "~/components/visit/kept-visits";
 import { MetalBadge } from "~/components/visit/metal-badge";
 import { formatDate, isoWeekdayIn, weekdayName } from "~/lib/format";
+import { useKeptPages } from "~/lib/offline/keep-pages";
+import { useKeptVisitSender } from "~/lib/offline/send-visit";
+import { visitPagesFor } from "~/lib/offline/visit-pages";
 import type { Route } from "./+types/visit";
 
 export const meta: Route.MetaFunction = () => [{ title: "Log a visit · Patina" }];
@@ -24,7 +28,7 @@ export async function loader({ request, context }: Route.LoaderArgs) {
   ]);
   const poolIds = [...new Set([...stops, ...found].map((p) => p.poolId))];
   const marks = await metalMarks(scope, poolIds, prefs.thresholds);
-  return { weekday, stops, q, found, marks, timeZone: scope.timeZone };
+  return { weekday, stops, q, found, marks, timeZone: scope.timeZone, memberId: scope.userId };
 }
 
 type PoolChoice = { poolId: number; street: string; detail: string };
@@ -48,10 +52,16 @@ function PoolChoices({ pools, marks, empty }: { pools: PoolChoice[]; marks: Reco
 }
 
 export default function VisitPicker({ loaderData }: Route.ComponentProps) {
-  const { weekday, stops, q, found, marks, timeZone } = loaderData;
+  const { weekday, stops, q, found, marks, timeZone, memberId } = loaderData;
+  useKeptVisitSender(memberId);
+  // Today's pools (and any found by a search) are kept for use without signal, with this list.
+  const poolIds = [...new Set([...stops, ...found].map((p) => p.poolId))];
+  const keep = useKeptPages(visitPagesFor(poolIds, true));
   return (
     <div className="mx-auto max-w-xl space-y-6">
       <PageHeader title="Log a visit">Pick the pool you are at.</PageHeader>
+      <NoSignalNotice />
+      <KeptVisitsPanel memberId={memberId} timeZone={timeZone} />
       <Form method="get" role="search" className="flex gap-2">
         <label className="grow">
           <span className="sr-only">Search pools</span>
@@ -87,6 +97,7 @@ export default function VisitPicker({ loaderData }: Route.ComponentProps) {
           empty={<>None of your routes is served on {weekdayName(weekday)}. Search for the pool instead.</>}
         />
       </section>
+      <KeptPagesNote keep={keep} pools={poolIds.length} />
     </div>
   );
 }

@@ -7,6 +7,7 @@ import { FormProblem, OptionList, SubmitButton } from "~/components/form-control
 import type { FieldErrors } from "~/lib/forms/fields";
 import { NUMERIC_ANALYTES, TREATMENT_FIELDS, type TypedVisit, VISIT_METALS } from "~/lib/forms/visit";
 import { formatMoney } from "~/lib/format";
+import { KEPT_FIELDS } from "~/lib/offline/kept-visits";
 import { liveVisit, type DosingPool, type LiveProduct, type TypedLine } from "~/lib/forms/visit-live";
 import { ENDPOINT_LABELS, PAD_TINT_LABELS, STAIN_COLOUR_LABELS, STAIN_LABELS } from "~/lib/labels";
 import { DEFAULT_ANALYTE_RANGES } from "@analysis/chemistry/ranges";
@@ -16,6 +17,9 @@ type Product = LiveProduct & { name: string };
 type Snapshot = { values: Record<string, string>; lines: TypedLine[] };
 
 export type VisitAnswer = { fieldErrors: FieldErrors; formError: string | null; values?: TypedVisit };
+
+/** What the phone keeps with a visit it could not send yet (app/lib/offline/kept-visits.ts); the server ignores these. */
+export type KeptAs = { poolLabel: string; memberId: string; takenAt?: string };
 
 const bigInput = "mt-1 block w-full rounded-lg border border-line bg-white px-3 py-3 text-lg aria-[invalid=true]:border-alert";
 
@@ -142,8 +146,10 @@ export function VisitForm({
   temperatureUnit,
   dosing,
   answer,
+  keptAs,
 }: {
   submissionKey: string;
+  keptAs?: KeptAs;
   products: Product[];
   /** The pool's recorded volume and the company's units and currency, for the label amounts and costs. */
   dosing: DosingPool & { currency: string };
@@ -250,6 +256,13 @@ export function VisitForm({
   return (
     <Form ref={formRef} method="post" onChange={onChange} className="space-y-6 pb-28" noValidate data-live={hydrated ? "on" : "off"}>
       <input type="hidden" name="submissionKey" value={keptKey ?? submissionKey} />
+      {keptAs ? (
+        <>
+          <input type="hidden" name={KEPT_FIELDS.poolLabel} value={keptAs.poolLabel} />
+          <input type="hidden" name={KEPT_FIELDS.memberId} value={keptAs.memberId} />
+          {keptAs.takenAt ? <input type="hidden" name={KEPT_FIELDS.takenAt} value={keptAs.takenAt} /> : null}
+        </>
+      ) : null}
       <section aria-labelledby="readings" className="space-y-3">
         <h2 id="readings" className="text-lg font-semibold">Readings</h2>
         <p className="text-sm text-muted">Fill in what you tested; leave the rest empty.</p>
