@@ -10,7 +10,7 @@ import { owningPool } from "./routebook";
 // of the company's levels; a change of levels builds a new version beside the
 // one in use and switches over when it is complete.
 
-export const KEPT_VERSION_STATES = ["building", "ready", "retired"] as const;
+const KEPT_VERSION_STATES = ["building", "ready", "retired"] as const;
 
 /**
  * How the tests were read when a row was worked out: "all" with every metal
@@ -18,8 +18,7 @@ export const KEPT_VERSION_STATES = ["building", "ready", "retired"] as const;
  * tests are those where that metal was measured). Episode lengths and test
  * counts differ between the two, and requests ask for both.
  */
-export const KEPT_READINGS = ["all", "copper", "iron", "manganese"] as const;
-export type KeptReading = (typeof KEPT_READINGS)[number];
+const KEPT_READINGS = ["all", "copper", "iron", "manganese"] as const;
 
 export const keptVersions = mysqlTable(
   "kept_versions",
@@ -77,8 +76,7 @@ export const keptEpisodes = mysqlTable(
  * Each pool's observed time, read one way: first and last test and how many.
  * "any" counts every test (any analyte); the others as in KEPT_READINGS.
  */
-export const KEPT_SPANS = ["any", ...KEPT_READINGS] as const;
-export type KeptSpan = (typeof KEPT_SPANS)[number];
+const KEPT_SPANS = ["any", ...KEPT_READINGS] as const;
 
 export const keptPoolSpans = mysqlTable(
   "kept_pool_spans",
