@@ -2,6 +2,7 @@ import { setTimeout as sleep } from "node:timers/promises";
 import { and, eq, inArray } from "drizzle-orm";
 import type { VisitInput } from "~/lib/forms/visit";
 import { db } from "../../db/client";
+import { retryTransaction } from "../../db/retry";
 import { metalColumnValues } from "../../db/values";
 import { pools, products, treatments, waterTests } from "../../db/schema";
 import { type Scope, poolsInScope } from "../../scope";
@@ -98,7 +99,8 @@ async function storeVisit(
   now: Date,
 ): Promise<number> {
   const r = input.readings;
-  return db().transaction(async (tx) => {
+  // The submission key makes a rerun safe: a commit whose answer was lost stops the rerun at the unique key.
+  return retryTransaction({ unit: "visit save" }, () => db().transaction(async (tx) => {
     const [test] = await tx
       .insert(waterTests)
       .values({
@@ -138,5 +140,5 @@ async function storeVisit(
       );
     }
     return id;
-  });
+  }));
 }
