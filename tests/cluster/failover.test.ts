@@ -9,8 +9,8 @@ import { clusterScript, connect, currentWriter, HTTP_URL, NODES, nodeUrl, record
 const IMPORT_AT = 4;
 const KILL_WRITER_AT = 12;
 const KILL_APP_AT = 14;
+const RESTART_NODE_AT = 18;
 const RESTART_APP_AT = 22;
-const RESTART_NODE_AT = 26;
 const WORKLOAD_SECONDS = 60;
 const IMPORT_ROWS = 20_000;
 // HAProxy marks a dead app down after two failed checks a second apart; requests
@@ -42,6 +42,15 @@ async function request(what: string, path: string, cookie: string, init: Request
   } catch {
     samples.push({ at, ms: now() - at, status: 0, instance: null, what });
     return null;
+  }
+}
+
+function processAlive(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch {
+    return false;
   }
 }
 
@@ -217,14 +226,16 @@ describe("the cluster under a mixed workload, losing its database writer and an 
       await sleep((KILL_APP_AT - KILL_WRITER_AT) * 1000);
       process.kill(await recordedPid("app", 1), "SIGKILL");
       faults.appKilled = now();
-      await sleep((RESTART_APP_AT - KILL_APP_AT) * 1000);
+      // The node's rejoin (recovery, then IST) takes longest, so it starts first and the app restarts meanwhile.
+      await sleep(Math.max(0, RESTART_NODE_AT * 1000 - now()));
+      const rejoin = clusterScript("start-node", String(killedNode)).then(() => (faults.nodeRejoined = now()));
+      await sleep(Math.max(0, RESTART_APP_AT * 1000 - now()));
       await clusterScript("start-app", "1");
       faults.appRestarted = now();
-      await sleep(Math.max(0, RESTART_NODE_AT * 1000 - now()));
-      await clusterScript("start-node", String(killedNode));
-      faults.nodeRejoined = now();
+      await rejoin;
     };
 
+    const app2Pid = await recordedPid("app", 2);
     const faultsDone = faultLoop();
     const workload = [...technicians.map((t, n) => technicianLoop(t, n)), ownerLoop(), importLoop()];
     await faultsDone;
@@ -263,6 +274,9 @@ describe("the cluster under a mixed workload, losing its database writer and an 
     const statusCounts: Record<string, number> = {};
     for (const s of samples) statusCounts[s.status] = (statusCounts[s.status] ?? 0) + 1;
 
+    // The instance that was not killed rode out the failover without exiting.
+    const app2Survived = (await recordedPid("app", 2)) === app2Pid && processAlive(app2Pid);
+
     // The nodes: all three back in the cluster, Synced, and holding identical tables (app instances stopped first, so nothing writes).
     await clusterScript("stop-app", "1");
     await clusterScript("stop-app", "2");
@@ -279,10 +293,12 @@ describe("the cluster under a mixed workload, losing its database writer and an 
         `  requests: ${samples.length} (${Object.entries(statusCounts).map(([s, n]) => `${s === "0" ? "no answer" : s} ${n}`).join(", ")}); served by ${Object.entries(byInstance).sort().map(([i, n]) => `${i} ${n}`).join(", ")}`,
         `  5xx or no answer after failover completed (${(failoverDone / 1000).toFixed(1)} s): ${lateFailures.length}`,
         ...lateFailures.map((f) => `    ${f.what} at ${(f.at / 1000).toFixed(1)} s: ${f.status || "no answer"} after ${f.ms} ms (${f.instance ?? "no instance"})`),
+        `  app2 (never killed) still running: ${app2Survived ? "yes" : "no"}`,
         `  nodes: ${statuses.map((s, i) => `node${i + 1} ${s.wsrep_local_state_comment} size ${s.wsrep_cluster_size}`).join(", ")}`,
       ].join("\n"),
     );
 
+    expect(app2Survived).toBe(true);
     expect(acknowledged.length).toBeGreaterThan(50);
     expect(lost).toBe(0);
     expect(duplicated).toBe(0);
