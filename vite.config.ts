@@ -103,6 +103,19 @@ export default defineConfig({
       {
         resolve: { alias },
         test: {
+          // npm run test:cluster: a three-node Galera cluster behind HAProxy, two built app instances.
+          name: "cluster",
+          include: ["tests/cluster/**/*.test.ts"],
+          environment: "node",
+          globalSetup: ["tests/cluster/global-setup.ts"],
+          fileParallelism: false,
+          testTimeout: 240_000,
+          hookTimeout: 600_000,
+        },
+      },
+      {
+        resolve: { alias },
+        test: {
           name: "browser",
           include: ["tests/e2e/**/*.test.ts"],
           environment: "node",

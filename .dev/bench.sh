@@ -4,6 +4,7 @@
 #   2. import: a 200,000-row file checked and committed, beside LOAD DATA LOCAL INFILE
 #   3. analytics endpoints on a seeded route book (PATINA_BENCH_POOLS pools x PATINA_BENCH_YEARS years)
 #   4. load on the built server (autocannon, concurrency 10 and 50): the demo company and that route book
+#   5. the cluster: requests per second through HAProxy with two app instances and one, the database failover gap
 set -euo pipefail
 cd "$(dirname "$0")/.."
 bash .dev/prepare.sh
@@ -32,3 +33,10 @@ DATABASE_URL=$demo_url npx tsx drizzle/migrate.ts
 DATABASE_URL=$demo_url npx tsx drizzle/seed/run.ts
 npx react-router build
 npx tsx tests/bench/load.ts "demo=$demo_url" "${PATINA_BENCH_POOLS:-2000}-pools=$bench_url"
+
+printf '\n\033[1m[bench] cluster (three Galera nodes, HAProxy, app instances)\033[0m\n'
+# The test cluster's folder and ports (stop a development cluster first: npm run cluster:stop).
+export PATINA_CLUSTER_DIR=.data/cluster-test PATINA_CLUSTER_DATABASE=patina_cluster_test PATINA_CLUSTER_APPS=2
+PATINA_CLUSTER_FRESH=1 bash .dev/cluster.sh start
+trap 'bash .dev/cluster.sh stop' EXIT
+npx tsx tests/bench/cluster.ts

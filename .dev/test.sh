@@ -21,4 +21,5 @@ timed "unit tests" npx vitest run --project unit
 timed "integration tests (MariaDB)" npx vitest run --project integration
 timed "production build" npx react-router build
 timed "fault tests (database outage, overload)" npx vitest run --project fault
+timed "cluster fault test (three Galera nodes, HAProxy, two instances)" npx vitest run --project cluster
 timed "browser tests (chromium)" npx vitest run --project browser

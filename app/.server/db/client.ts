@@ -12,6 +12,14 @@ export function createPool(url: string) {
   return mysql.createPool({
     uri: url,
     connectionLimit: 10,
+    // Behind a load balancer a node can vanish: a connection that errors or ends
+    // leaves the pool (mysql2 does that), idle ones are closed after a minute and
+    // probed by TCP keep-alive, and a connect to a dead address gives up quickly.
+    maxIdle: 10,
+    idleTimeout: 60_000,
+    enableKeepAlive: true,
+    keepAliveInitialDelay: 10_000,
+    connectTimeout: 5_000,
     timezone: "Z",
     dateStrings: false,
     supportBigNumbers: true,

@@ -5,6 +5,7 @@ import { readImportOptions } from "~/lib/imports/options";
 import { accountKey } from "~/lib/imports/match-keys";
 import { drizzle } from "drizzle-orm/mysql2";
 import { analyzeTables, db, pool as connectionPool } from "../db/client";
+import { retryTransaction } from "../db/retry";
 import * as schema from "../db/schema";
 import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
 import { keepPoolsInStep, lockPoolsForKeeping } from "../analytics/kept/keep-pools";
@@ -141,87 +142,103 @@ async function commitClaimed(
   const total = plan.testsToAdd + plan.treatmentsToAdd;
   await reportProgress(upload.id, { phase: "committing", rowsDone: 0, rowsTotal: total });
 
-  const connection = await connectionPool().getConnection();
-  let broken = false;
+  // A lost writer, a deadlock or a certification conflict runs the whole transaction again;
+  // the claim token makes that safe (an attempt whose commit did land is recognised first).
   try {
-    const [[{ connectionId }]] = (await connection.query("SELECT CONNECTION_ID() AS connectionId")) as unknown as [[{ connectionId: number }]];
-    await connection.beginTransaction();
-    const keeper = drizzle(connection, { schema, mode: "default" });
-    const rows = plan.planned;
-    const touchedPools = existingPoolsOf(rows);
-    await lockPoolsForKeeping(keeper, touchedPools);
-    const batchId = await insertBatch(connection, scope, upload.fileName, upload.fileSha256, plan);
-    const newPools = await createPools(connection, scope, plan);
-    const newProducts = await createProducts(connection, scope, plan);
-    const poolIdOf = (i: number) => {
-      const pool = rows.pool[i]!;
-      return pool > 0 ? pool : newPools.get(rows.newPoolKeys[-pool - 1]!)!;
-    };
-    const productIdOf = (i: number) => {
-      const product = rows.product[i]!;
-      return product > 0 ? product : newProducts.get(rows.newProductKeys[-product - 1]!)!;
-    };
+    return await retryTransaction({ unit: "import commit" }, async (attempt) => {
+      if (attempt > 1) {
+        const stored = await committedBatchOf(upload.id);
+        if (stored !== null) return { ok: true, batchId: stored, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
+      }
+      const connection = await connectionPool().getConnection();
+      let broken = false;
+      try {
+        const [[{ connectionId }]] = (await connection.query("SELECT CONNECTION_ID() AS connectionId")) as unknown as [[{ connectionId: number }]];
+        await connection.beginTransaction();
+        const keeper = drizzle(connection, { schema, mode: "default" });
+        const rows = plan.planned;
+        const touchedPools = existingPoolsOf(rows);
+        await lockPoolsForKeeping(keeper, touchedPools);
+        const batchId = await insertBatch(connection, scope, upload.fileName, upload.fileSha256, plan);
+        const newPools = await createPools(connection, scope, plan);
+        const newProducts = await createProducts(connection, scope, plan);
+        const poolIdOf = (i: number) => {
+          const pool = rows.pool[i]!;
+          return pool > 0 ? pool : newPools.get(rows.newPoolKeys[-pool - 1]!)!;
+        };
+        const productIdOf = (i: number) => {
+          const product = rows.product[i]!;
+          return product > 0 ? product : newProducts.get(rows.newProductKeys[-product - 1]!)!;
+        };
 
-    let stored = 0;
-    const tests = rowsWith(rows, PlannedRows.TEST_IS_NEW);
-    for (let from = 0; from < tests.length; from += INSERT_CHUNK) {
-      const chunk = tests.subarray(from, from + INSERT_CHUNK);
-      await connection.query(`INSERT INTO water_tests (${TEST_COLUMNS.join(", ")}) VALUES ?`, [
-        Array.from(chunk, (i) => testValues(rows, i, scope.companyId, poolIdOf(i), batchId)),
-      ]);
-      stored += chunk.length;
-      await reportProgress(upload.id, { rowsDone: stored });
-      await hooks.afterChunk?.({ table: "water_tests", stored, connectionId });
-    }
+        let stored = 0;
+        const tests = rowsWith(rows, PlannedRows.TEST_IS_NEW);
+        for (let from = 0; from < tests.length; from += INSERT_CHUNK) {
+          const chunk = tests.subarray(from, from + INSERT_CHUNK);
+          await connection.query(`INSERT INTO water_tests (${TEST_COLUMNS.join(", ")}) VALUES ?`, [
+            Array.from(chunk, (i) => testValues(rows, i, scope.companyId, poolIdOf(i), batchId)),
+          ]);
+          stored += chunk.length;
+          await reportProgress(upload.id, { rowsDone: stored });
+          await hooks.afterChunk?.({ table: "water_tests", stored, connectionId });
+        }
 
-    const withTreatment = rowsWith(rows, PlannedRows.ADDS_TREATMENT);
-    const testIds = withTreatment.some((i) => rows.has(i, PlannedRows.TEST_IS_NEW))
-      ? await storedTestIds(connection, batchId)
-      : new Map<string, number>();
-    for (let from = 0; from < withTreatment.length; from += INSERT_CHUNK) {
-      const chunk = withTreatment.subarray(from, from + INSERT_CHUNK);
-      await connection.query(
-        "INSERT INTO treatments (company_id, pool_id, product_id, applied_at, amount, unit, cost, water_test_id, import_batch_id) VALUES ?",
-        [
-          Array.from(chunk, (i) => {
-            const poolId = poolIdOf(i);
-            const cost = rows.cost[i]!;
-            return [
-              scope.companyId,
-              poolId,
-              productIdOf(i),
-              new Date(rows.sampledAt[i]!),
-              rows.amount[i]!,
-              rows.units[i]!,
-              Number.isNaN(cost) ? null : cost,
-              testIds.get(`${poolId}|${rows.sampledAt[i]}`) ?? null,
-              batchId,
-            ];
-          }),
-        ],
-      );
-      stored += chunk.length;
-      await reportProgress(upload.id, { rowsDone: stored });
-      await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
-    }
+        const withTreatment = rowsWith(rows, PlannedRows.ADDS_TREATMENT);
+        const testIds = withTreatment.some((i) => rows.has(i, PlannedRows.TEST_IS_NEW))
+          ? await storedTestIds(connection, batchId)
+          : new Map<string, number>();
+        for (let from = 0; from < withTreatment.length; from += INSERT_CHUNK) {
+          const chunk = withTreatment.subarray(from, from + INSERT_CHUNK);
+          await connection.query(
+            "INSERT INTO treatments (company_id, pool_id, product_id, applied_at, amount, unit, cost, water_test_id, import_batch_id) VALUES ?",
+            [
+              Array.from(chunk, (i) => {
+                const poolId = poolIdOf(i);
+                const cost = rows.cost[i]!;
+                return [
+                  scope.companyId,
+                  poolId,
+                  productIdOf(i),
+                  new Date(rows.sampledAt[i]!),
+                  rows.amount[i]!,
+                  rows.units[i]!,
+                  Number.isNaN(cost) ? null : cost,
+                  testIds.get(`${poolId}|${rows.sampledAt[i]}`) ?? null,
+                  batchId,
+                ];
+              }),
+            ],
+          );
+          stored += chunk.length;
+          await reportProgress(upload.id, { rowsDone: stored });
+          await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
+        }
 
-    await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], connection);
+        await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], connection);
 
-    // Fenced by the claim token: a commit taken over after going quiet rolls back here.
-    const finish = finishClaimSql(claim);
-    const [done] = await connection.query<ResultSetHeader>(
-      `UPDATE import_uploads SET phase = 'committed', rows_done = ?, import_batch_id = ?, summary = ?, error = NULL, ${finish.set}, updated_at = CURRENT_TIMESTAMP(3) WHERE ${finish.where}`,
-      [stored, batchId, JSON.stringify(summary), ...finish.values],
-    );
-    if (done.affectedRows !== 1) throw new ClaimLost();
-    await connection.commit();
-    // Alerts look only at recent events, so years of history mail nobody.
-    void afterWaterTestsSaved(scope.companyId, [...new Set(Array.from(tests, poolIdOf))]);
-    if (plan.testsToAdd + plan.treatmentsToAdd >= LARGE_IMPORT_ROWS) void analyzeTables().catch((e: unknown) => console.error("[import] ANALYZE TABLE failed", e));
-    return { ok: true, batchId, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
+        // Fenced by the claim token: a commit taken over after going quiet rolls back here.
+        const finish = finishClaimSql(claim);
+        const [done] = await connection.query<ResultSetHeader>(
+          `UPDATE import_uploads SET phase = 'committed', rows_done = ?, import_batch_id = ?, summary = ?, error = NULL, ${finish.set}, updated_at = CURRENT_TIMESTAMP(3) WHERE ${finish.where}`,
+          [stored, batchId, JSON.stringify(summary), ...finish.values],
+        );
+        if (done.affectedRows !== 1) throw new ClaimLost();
+        await connection.commit();
+        // Alerts look only at recent events, so years of history mail nobody.
+        void afterWaterTestsSaved(scope.companyId, [...new Set(Array.from(tests, poolIdOf))]);
+        if (plan.testsToAdd + plan.treatmentsToAdd >= LARGE_IMPORT_ROWS) void analyzeTables().catch((e: unknown) => console.error("[import] ANALYZE TABLE failed", e));
+        return { ok: true, batchId, testsAdded: plan.testsToAdd, treatmentsAdded: plan.treatmentsToAdd, summary };
+      } catch (error) {
+        broken = true;
+        await connection.rollback().catch(() => undefined);
+        throw error;
+      } finally {
+        // A connection that failed half-way may be dead or mid-transaction: never hand it back.
+        if (broken) connection.destroy();
+        else connection.release();
+      }
+    });
   } catch (error) {
-    broken = true;
-    await connection.rollback().catch(() => undefined);
     if (!(error instanceof ClaimLost)) {
       await endClaim(claim, {
         phase: "failed",
@@ -229,11 +246,17 @@ async function commitClaimed(
       }).catch(() => undefined);
     }
     throw error;
-  } finally {
-    // A connection that failed half-way may be dead or mid-transaction: never hand it back.
-    if (broken) connection.destroy();
-    else connection.release();
   }
+}
+
+/** The batch of an upload already committed (by an earlier attempt whose answer was lost), or null. */
+async function committedBatchOf(uploadId: string): Promise<number | null> {
+  const [rows] = await connectionPool().query<RowDataPacket[]>(
+    "SELECT import_batch_id AS batchId FROM import_uploads WHERE id = ? AND phase = 'committed' AND claim_id IS NULL",
+    [uploadId],
+  );
+  const batchId = rows[0]?.batchId as number | null | undefined;
+  return batchId ?? null;
 }
 
 async function insertBatch(

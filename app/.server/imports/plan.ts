@@ -68,7 +68,11 @@ export async function planImport(
   let reporting: Promise<void> = Promise.resolve();
   /** Progress is written in order, without holding up the reading. */
   const report = (values: Parameters<typeof reportProgress>[1]) => {
-    if (phase) reporting = reporting.then(() => reportProgress(upload.id, values));
+    if (!phase) return;
+    reporting = reporting.then(() => reportProgress(upload.id, values));
+    // Observed at once: when the plan stops before awaiting it (the database went away), an
+    // unobserved failed write would be an unhandled rejection, which ends the server process.
+    reporting.catch(() => undefined);
   };
   const delimiter = (upload.delimiter ?? ",") as Delimiter;
   const encoding = uploadEncoding(upload);

@@ -3,6 +3,7 @@ import { keepPoolsInStep, lockPoolsForKeeping } from "../../analytics/kept/keep-
 import { and, eq, inArray } from "drizzle-orm";
 import type { VisitInput } from "~/lib/forms/visit";
 import { db } from "../../db/client";
+import { retryTransaction } from "../../db/retry";
 import { metalColumnValues } from "../../db/values";
 import { pools, products, treatments, waterTests } from "../../db/schema";
 import { type Scope, poolsInScope } from "../../scope";
@@ -99,7 +100,8 @@ async function storeVisit(
   now: Date,
 ): Promise<number> {
   const r = input.readings;
-  return db().transaction(async (tx) => {
+  // The submission key makes a rerun safe: a commit whose answer was lost stops the rerun at the unique key.
+  return retryTransaction({ unit: "visit save" }, () => db().transaction(async (tx) => {
     await lockPoolsForKeeping(tx, [poolId]);
     const [test] = await tx
       .insert(waterTests)
@@ -141,5 +143,5 @@ async function storeVisit(
     }
     await keepPoolsInStep(tx, scope.companyId, [poolId]);
     return id;
-  });
+  }));
 }
