@@ -127,8 +127,8 @@ describe("reasons", () => {
 });
 
 describe("metalOutlook", () => {
-  it("ranks by the latest reading and says why when the history is too short to test a model", () => {
-    const outlook = metalOutlook(history(tests, { asOf: day(60) }));
+  it("ranks by the latest reading and says why when the history is too short to test a model", async () => {
+    const outlook = await metalOutlook(history(tests, { asOf: day(60) }));
     expect(outlook.method).toBe("latest-reading");
     expect(outlook.backtest).toBeNull();
     expect(outlook.methodNote).toMatch(/Too little history/);

@@ -87,9 +87,11 @@ type RowsAt = { at: number; rows: FeatureRow[]; training: TrainingGroup[] };
  * instant, and those with a known outcome folded into weighted groups: many
  * pools look alike in a given week, and the fit is the same on the groups.
  */
-function rowsByInstant(prepared: PreparedHistory, instants: readonly number[]): RowsAt[] {
+async function rowsByInstant(prepared: PreparedHistory, instants: readonly number[], pause: Pause): Promise<RowsAt[]> {
   const poolIds = [...prepared.testTimesByPool.keys()];
-  return instants.map((at) => {
+  const out: RowsAt[] = [];
+  for (const at of instants) {
+    await pause();
     const rows: FeatureRow[] = [];
     const groups = new Map<string, TrainingGroup>();
     for (const poolId of poolIds) {
@@ -104,8 +106,9 @@ function rowsByInstant(prepared: PreparedHistory, instants: readonly number[]): 
         else groups.set(key, { metal, values: row.values, outcome: row.outcome, weight: 1 });
       }
     }
-    return { at, rows, training: [...groups.values()] };
-  });
+    out.push({ at, rows, training: [...groups.values()] });
+  }
+  return out;
 }
 
 type MetalModel = { model: LogisticModel | null; baseRate: number };
@@ -155,7 +158,13 @@ function summariseCatch(parts: { caught: number; events: number }[]): RankingCat
  * Rolling origin: at each weekly origin, fit on every row whose four weeks
  * ended before the origin, forecast the origin's rows, then step a week.
  */
-function runBacktest(byInstant: readonly RowsAt[], asOf: number, metals: readonly Metal[], options: Required<OutlookOptions>): Backtest | null {
+async function runBacktest(
+  byInstant: readonly RowsAt[],
+  asOf: number,
+  metals: readonly Metal[],
+  options: Required<OutlookOptions>,
+  pause: Pause,
+): Promise<Backtest | null> {
   const horizonMs = HORIZON_DAYS * DAY_MS;
   const candidates = byInstant.filter((b) => b.at + horizonMs <= asOf);
   const origins = candidates.slice(-options.maxOrigins);
@@ -167,6 +176,7 @@ function runBacktest(byInstant: readonly RowsAt[], asOf: number, metals: readonl
   let lastOrigin: number | null = null;
   let previous: Map<Metal, MetalModel> | undefined;
   for (const origin of origins) {
+    await pause();
     const training = byInstant.filter((b) => b.at + horizonMs <= origin.at).flatMap((b) => b.training);
     if (training.length === 0) continue;
     const fits = fitAll(training, metals, options, previous);
@@ -211,8 +221,12 @@ function runBacktest(byInstant: readonly RowsAt[], asOf: number, metals: readonl
 
 export const LATEST_READING_FEATURE = FEATURES.indexOf("latestReading");
 
+/** Called between weeks of work, so a server can let other requests through (a resolved promise when nothing needs to wait). */
+export type Pause = () => Promise<void>;
+const noPause: Pause = () => Promise.resolve();
+
 /** The outlook of a company's history as of `history.asOf`. */
-export function metalOutlook(history: AheadHistory, options: OutlookOptions = {}): Outlook {
+export async function metalOutlook(history: AheadHistory, options: OutlookOptions = {}, pause: Pause = noPause): Promise<Outlook> {
   const resolved: Required<OutlookOptions> = {
     metals: options.metals ?? METALS,
     maxOrigins: options.maxOrigins ?? 52,
@@ -222,8 +236,8 @@ export function metalOutlook(history: AheadHistory, options: OutlookOptions = {}
   };
   const prepared = prepareHistory(history, resolved.metals);
   const earliest = Math.min(...[...prepared.testTimesByPool.values()].map((times) => times[0]!));
-  const byInstant = Number.isFinite(earliest) ? rowsByInstant(prepared, weeklyInstants(history.asOf, earliest)) : [];
-  const backtest = runBacktest(byInstant, history.asOf, resolved.metals, resolved);
+  const byInstant = Number.isFinite(earliest) ? await rowsByInstant(prepared, weeklyInstants(history.asOf, earliest), pause) : [];
+  const backtest = await runBacktest(byInstant, history.asOf, resolved.metals, resolved, pause);
 
   const today = byInstant.at(-1)?.at === history.asOf ? byInstant.at(-1)!.rows : [];
   const method: OutlookMethod = backtest?.modelWins ? "model" : "latest-reading";

@@ -3,7 +3,7 @@ import { METALS } from "@analysis/metals/reading";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { requireArea } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/routebook/queries/home-summary";
-import { metalOutlookFor, type OutlookAnswer } from "~/.server/analytics/queries/metal-outlook";
+import { metalOutlookIfReady, type OutlookAnswer } from "~/.server/analytics/queries/metal-outlook";
 import { formatChance, OUTLOOK_NAME, OutlookList } from "~/components/analytics/outlook-list";
 import { metalMarks } from "~/.server/visits/queries/metal-marks";
 import { Stat } from "~/components/stat";
@@ -31,7 +31,7 @@ export async function loader({ context }: Route.LoaderArgs) {
   const [summary, stops, outlook] = await Promise.all([
     homeSummary(scope, thresholds, now),
     scope.role === "technician" ? stopsForWeekday(scope, weekday) : Promise.resolve([]),
-    showsOutlook ? metalOutlookFor(scope, { thresholds, balanceBand }) : Promise.resolve(null),
+    showsOutlook ? metalOutlookIfReady(scope, { thresholds, balanceBand }, OUTLOOK_WAIT_MS) : Promise.resolve(null),
   ]);
   const marks = await metalMarks(scope, stops.map((stop) => stop.poolId), thresholds);
   return {
@@ -43,8 +43,12 @@ export async function loader({ context }: Route.LoaderArgs) {
     stops,
     marks,
     outlook: outlook ? homeOutlook(outlook, scope.role === "technician") : null,
+    outlookPending: showsOutlook && !outlook,
   };
 }
+
+/** A fresh fit takes seconds; the home page does not wait that long for it. */
+const OUTLOOK_WAIT_MS = 1500;
 
 const HOME_OUTLOOK_LENGTH = 8;
 
@@ -58,7 +62,7 @@ function homeOutlook(outlook: OutlookAnswer, technician: boolean) {
 }
 
 export default function Home({ loaderData }: Route.ComponentProps) {
-  const { role, userName, timeZone, weekday, summary, stops, marks, outlook } = loaderData;
+  const { role, userName, timeZone, weekday, summary, stops, marks, outlook, outlookPending } = loaderData;
   const openTotal = summary.openCases.length;
   return (
     <div className="space-y-8">
@@ -124,6 +128,13 @@ export default function Home({ loaderData }: Route.ComponentProps) {
             </ul>
           )}
         </section>
+      ) : null}
+
+      {outlookPending ? (
+        <p className="rounded-xl border border-line bg-white p-4 text-muted" data-outlook-pending>
+          The {OUTLOOK_NAME.toLowerCase()} is being worked out from the record; it shows here on your next visit, or open{" "}
+          <TextLink to="/outlook">{OUTLOOK_NAME}</TextLink>.
+        </p>
       ) : null}
 
       <section aria-labelledby="figures">

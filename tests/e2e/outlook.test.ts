@@ -1,14 +1,27 @@
+import type { Page } from "playwright-core";
 import { describe, expect, it } from "vitest";
 import { browserPerFile } from "../fixtures/browser";
+import { BROWSER_TEST_URL } from "../fixtures/server";
 import { signInAs } from "../fixtures/sign-in";
 
 const browser = browserPerFile();
+
+/**
+ * The first outlook of a server is fitted on demand (seconds, longer on a busy
+ * machine); the home page does not wait for it, the outlook page does.
+ */
+async function openOutlook(page: Page, search = "") {
+  await page.goto(`${BROWSER_TEST_URL}/outlook${search}`, { timeout: 120_000 });
+  await page.getByRole("heading", { level: 1, name: "Metal outlook" }).waitFor();
+}
 
 describe("the metal outlook", () => {
   it("leads the owner's home with the pools most likely to open an episode, each with reasons", async () => {
     const context = await browser().newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
     await signInAs(page, "owner", "/");
+    await openOutlook(page);
+    await page.goto(`${BROWSER_TEST_URL}/`);
     const section = page.locator("section", { has: page.getByRole("heading", { name: /^Metal outlook: the next four weeks$/ }) });
     const rows = section.locator("[data-outlook-list] tbody tr");
     await rows.first().waitFor();
@@ -23,8 +36,8 @@ describe("the metal outlook", () => {
   it("opens the page with the list, the backtest figures and the calibration chart", async () => {
     const context = await browser().newContext({ viewport: { width: 1280, height: 900 } });
     const page = await context.newPage();
-    await signInAs(page, "manager", "/outlook");
-    await page.getByRole("heading", { level: 1, name: "Metal outlook" }).waitFor();
+    await signInAs(page, "manager", "/");
+    await openOutlook(page);
     expect(await page.locator("[data-outlook-method]").getAttribute("data-outlook-method")).toBe("model");
     const figures = page.locator("[data-backtest]");
     expect(await figures.innerText()).toMatch(/Brier score\s+0\.\d{4}/);
@@ -49,12 +62,14 @@ describe("the metal outlook", () => {
     const context = await browser().newContext({ viewport: { width: 390, height: 844 } });
     const page = await context.newPage();
     await signInAs(page, "tech1", "/");
+    await openOutlook(page);
+    await page.goto(`${BROWSER_TEST_URL}/`);
     const section = page.locator("section", { has: page.getByRole("heading", { name: "Test for metals this week" }) });
     await section.waitFor();
+    // On the demo, pools of the first technician's routes are in the company's top tenth (20 of them; the home shows 8).
     const items = section.locator("[data-metal-tests-due] li");
-    const none = section.getByText("None of your pools is in the company's top tenth this week.");
-    expect((await items.count()) > 0 || (await none.count()) === 1).toBe(true);
-    if ((await items.count()) > 0) expect(await items.first().innerText()).toMatch(/(Copper|Iron|Manganese), (\d+%|under 1%) in 4 weeks\n.+/);
+    expect(await items.count()).toBe(8);
+    expect(await items.first().innerText()).toMatch(/(Copper|Iron|Manganese), (\d+%|under 1%) in 4 weeks\n.+/);
     await context.close();
   });
 });

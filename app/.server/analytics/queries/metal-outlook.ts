@@ -11,7 +11,6 @@ import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
 import { sourceTestRows } from "./fill-water-tests";
 import { treatmentRows, waterTestReadings } from "./metal-readings";
 import { poolLabels, poolProfiles } from "./pool-profiles";
-import { stopIfAbandoned } from "../../request-context";
 
 export type OutlookEntryJson = {
   poolId: number;
@@ -69,8 +68,8 @@ async function companyOutlook(companyId: number, params: OutlookParams, asOf: Da
     sourceTestRows(companyId),
     poolProfiles(tenant),
   ]);
-  stopIfAbandoned();
-  return metalOutlook({
+  return metalOutlook(
+    {
     asOf: asOf.getTime(),
     tests,
     balance: balance.filter((b) => b.takenAt <= asOf.getTime()),
@@ -81,7 +80,11 @@ async function companyOutlook(companyId: number, params: OutlookParams, asOf: Da
     pools: profiles,
     thresholds: params.thresholds,
     balanceBand: params.balanceBand,
-  });
+    },
+    {},
+    // Yield between weeks of work so the fit never holds the server's other requests for long.
+    () => new Promise((resolve) => setImmediate(resolve)),
+  );
 }
 
 // Fitting and backtesting takes seconds on a route book; the answer stays good
@@ -121,7 +124,25 @@ export type OutlookFilter = { metal?: Metal | undefined; limit?: number | undefi
 
 /** The four-week metal outlook for the pools in the member's scope (active pools only). */
 export async function metalOutlookFor(scope: Scope, params: OutlookParams, filter: OutlookFilter = {}): Promise<OutlookAnswer> {
-  const [outlook, labels] = await Promise.all([cachedOutlook(scope.companyId, params), poolLabels({ scope })]);
+  return answerFor(scope, await cachedOutlook(scope.companyId, params), filter);
+}
+
+/**
+ * The outlook if it is ready within `waitMs`, else null while it goes on being
+ * worked out (and cached) in the background: for pages that show it beside
+ * other things and must not wait seconds for a fresh fit.
+ */
+export async function metalOutlookIfReady(scope: Scope, params: OutlookParams, waitMs: number, filter: OutlookFilter = {}): Promise<OutlookAnswer | null> {
+  const pending = cachedOutlook(scope.companyId, params);
+  let timer: ReturnType<typeof setTimeout> | undefined;
+  const late = new Promise<"late">((resolve) => (timer = setTimeout(() => resolve("late"), waitMs)));
+  const outlook = await Promise.race([pending, late]).finally(() => clearTimeout(timer));
+  if (outlook === "late") return null;
+  return answerFor(scope, outlook, filter);
+}
+
+async function answerFor(scope: Scope, outlook: Outlook | null, filter: OutlookFilter): Promise<OutlookAnswer> {
+  const labels = await poolLabels({ scope });
   if (!outlook) {
     return { asOf: null, horizonDays: 28, method: "latest-reading", methodNote: "No water tests on record yet.", backtest: null, entries: [], total: 0 };
   }
