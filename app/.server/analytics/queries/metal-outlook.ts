@@ -1,6 +1,6 @@
 import { and, count, eq, max } from "drizzle-orm";
 import { saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
-import type { BalancePoint } from "@analysis/ahead/features";
+import type { AheadHistory, BalancePoint } from "@analysis/ahead/features";
 import { metalOutlook, type Backtest, type Outlook, type OutlookMethod } from "@analysis/ahead/outlook";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
@@ -57,8 +57,8 @@ async function balancePoints(companyId: number): Promise<BalancePoint[]> {
   return points;
 }
 
-/** The company's history as the outlook reads it: the model is the company's, whoever asks. */
-async function companyOutlook(companyId: number, params: OutlookParams, asOf: Date): Promise<Outlook> {
+/** The company's history as the outlook reads it, up to `asOf`: the model is the company's, whoever asks. */
+export async function readOutlookHistory(companyId: number, params: OutlookParams, asOf: Date): Promise<AheadHistory> {
   const tenant = { companyId };
   const window = { from: null, to: asOf };
   const [tests, balance, algaecide, fillWater, { profiles }] = await Promise.all([
@@ -68,8 +68,7 @@ async function companyOutlook(companyId: number, params: OutlookParams, asOf: Da
     sourceTestRows(companyId),
     poolProfiles(tenant),
   ]);
-  return metalOutlook(
-    {
+  return {
     asOf: asOf.getTime(),
     tests,
     balance: balance.filter((b) => b.takenAt <= asOf.getTime()),
@@ -80,11 +79,14 @@ async function companyOutlook(companyId: number, params: OutlookParams, asOf: Da
     pools: profiles,
     thresholds: params.thresholds,
     balanceBand: params.balanceBand,
-    },
-    {},
-    // Yield between weeks of work so the fit never holds the server's other requests for long.
-    () => new Promise((resolve) => setImmediate(resolve)),
-  );
+  };
+}
+
+/** Yield between weeks of work so the fit never holds the server's other requests for long. */
+export const yieldToOtherRequests = () => new Promise<void>((resolve) => setImmediate(resolve));
+
+async function companyOutlook(companyId: number, params: OutlookParams, asOf: Date): Promise<Outlook> {
+  return metalOutlook(await readOutlookHistory(companyId, params, asOf), {}, yieldToOtherRequests);
 }
 
 // Fitting and backtesting takes seconds on a route book; the answer stays good
