@@ -2,7 +2,8 @@
 # `npm run bench`: speed and memory figures (never asserted in tests).
 #   1. analysis core: episodes and recurrence at 100k, 250k and 500k tests, group comparison
 #   2. import: a 200,000-row file checked and committed, beside LOAD DATA LOCAL INFILE
-#   3. analytics endpoints on a seeded route book (PATINA_BENCH_POOLS pools x PATINA_BENCH_YEARS years)
+#   3. analytics endpoints on a seeded route book (PATINA_BENCH_POOLS pools x PATINA_BENCH_YEARS years),
+#      and the metal outlook's fit and backtest on the same book
 #   4. load on the built server (autocannon, concurrency 10 and 50): the demo company and that route book
 #   5. the cluster: requests per second through HAProxy with two app instances and one, the database failover gap
 set -euo pipefail
@@ -24,6 +25,9 @@ bash drizzle/local-db.sh recreate "$bench_db"
 DATABASE_URL=$bench_url npx tsx drizzle/migrate.ts
 DATABASE_URL=$bench_url npx tsx drizzle/seed/run.ts --pools "${PATINA_BENCH_POOLS:-2000}" --years "${PATINA_BENCH_YEARS:-5}"
 DATABASE_URL=$bench_url npx tsx tests/bench/analytics-endpoints.ts 5
+
+printf '\n\033[1m[bench] metal outlook (fit and backtest)\033[0m\n'
+DATABASE_URL=$bench_url npx tsx tests/bench/outlook.ts
 
 printf '\n\033[1m[bench] load (built server, autocannon)\033[0m\n'
 demo_db=patina_scratch_bench_demo

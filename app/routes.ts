@@ -36,6 +36,7 @@ export default [
     route("risk", "routes/risk.tsx"),
     route("recurring", "routes/recurring.tsx"),
     route("outcomes", "routes/outcomes.tsx"),
+    route("outlook", "routes/outlook.tsx"),
     // imports and exports
     route("imports", "routes/imports.tsx"),
     route("imports/new", "routes/imports.new.tsx"),
@@ -59,6 +60,7 @@ export default [
     route("analytics/alerts", "routes/api.analytics.alerts.ts"),
     route("analytics/sources", "routes/api.analytics.sources.ts"),
     route("analytics/outcomes", "routes/api.analytics.outcomes.ts"),
+    route("analytics/ahead", "routes/api.analytics.ahead.ts"),
     route("analytics/pools/:poolId/series", "routes/api.analytics.pools.$poolId.series.ts"),
     route("analytics/pools/:poolId/evidence", "routes/api.analytics.pools.$poolId.evidence.ts"),
     // imports and exports

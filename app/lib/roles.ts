@@ -24,6 +24,8 @@ export const AREA_ROLES = {
   risk: ["owner", "manager", "analyst"],
   sources: ["owner", "manager", "technician", "analyst"],
   outcomes: ["owner", "manager"],
+  /** The four-week metal outlook; technicians see their routes' pools. */
+  outlook: ["owner", "manager", "technician", "analyst"],
   imports: ["owner", "analyst"],
   exports: ["owner", "manager", "analyst"],
   team: ["owner"],

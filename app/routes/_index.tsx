@@ -3,6 +3,8 @@ import { METALS } from "@analysis/metals/reading";
 import { companyPreferences } from "~/.server/settings/queries/company-settings";
 import { requireArea } from "~/.server/guard";
 import { homeSummary, stopsForWeekday } from "~/.server/routebook/queries/home-summary";
+import { metalOutlookIfReady, type OutlookAnswer } from "~/.server/analytics/queries/metal-outlook";
+import { formatChance, OUTLOOK_NAME, OutlookList } from "~/components/analytics/outlook-list";
 import { metalMarks } from "~/.server/visits/queries/metal-marks";
 import { Stat } from "~/components/stat";
 import { MetalBadge } from "~/components/visit/metal-badge";
@@ -23,11 +25,13 @@ const GREETING: Record<string, string> = {
 export async function loader({ context }: Route.LoaderArgs) {
   const scope = requireArea(context, "home");
   const now = new Date();
-  const thresholds = (await companyPreferences(scope)).thresholds;
+  const { thresholds, balanceBand } = await companyPreferences(scope);
   const weekday = isoWeekdayIn(now, scope.timeZone);
-  const [summary, stops] = await Promise.all([
+  const showsOutlook = scope.role === "owner" || scope.role === "manager" || scope.role === "technician";
+  const [summary, stops, outlook] = await Promise.all([
     homeSummary(scope, thresholds, now),
     scope.role === "technician" ? stopsForWeekday(scope, weekday) : Promise.resolve([]),
+    showsOutlook ? metalOutlookIfReady(scope, { thresholds, balanceBand }, OUTLOOK_WAIT_MS) : Promise.resolve(null),
   ]);
   const marks = await metalMarks(scope, stops.map((stop) => stop.poolId), thresholds);
   return {
@@ -38,11 +42,27 @@ export async function loader({ context }: Route.LoaderArgs) {
     summary,
     stops,
     marks,
+    outlook: outlook ? homeOutlook(outlook, scope.role === "technician") : null,
+    outlookPending: showsOutlook && !outlook,
   };
 }
 
+/** A fresh fit takes seconds; the home page does not wait that long for it. */
+const OUTLOOK_WAIT_MS = 1500;
+
+const HOME_OUTLOOK_LENGTH = 8;
+
+/**
+ * Owners and managers see the top of the list; a technician sees the pools of
+ * their routes in the company's top tenth: the ones to test for metals this week.
+ */
+function homeOutlook(outlook: OutlookAnswer, technician: boolean) {
+  const entries = technician ? outlook.entries.filter((e) => e.flagged) : outlook.entries;
+  return { method: outlook.method, methodNote: outlook.methodNote, entries: entries.slice(0, HOME_OUTLOOK_LENGTH), more: Math.max(0, entries.length - HOME_OUTLOOK_LENGTH) };
+}
+
 export default function Home({ loaderData }: Route.ComponentProps) {
-  const { role, userName, timeZone, weekday, summary, stops, marks } = loaderData;
+  const { role, userName, timeZone, weekday, summary, stops, marks, outlook, outlookPending } = loaderData;
   const openTotal = summary.openCases.length;
   return (
     <div className="space-y-8">
@@ -79,6 +99,42 @@ export default function Home({ loaderData }: Route.ComponentProps) {
             </ul>
           )}
         </section>
+      ) : null}
+
+      {outlook && role === "technician" ? (
+        <section aria-labelledby="metal-tests-due">
+          <h2 id="metal-tests-due" className="mb-1 text-lg font-semibold">
+            Test for metals this week
+          </h2>
+          <p className="mb-3 text-sm text-muted">
+            Pools on your routes in the company's top tenth of the {OUTLOOK_NAME.toLowerCase()}, with the reason.
+          </p>
+          {outlook.entries.length === 0 ? (
+            <p className="rounded-xl border border-line bg-white p-4 text-muted">None of your pools is in the company's top tenth this week.</p>
+          ) : (
+            <ul className="divide-y divide-line overflow-hidden rounded-xl border border-line bg-white" data-metal-tests-due>
+              {outlook.entries.map((e) => (
+                <li key={`${e.poolId}-${e.metal}`} className="px-4 py-3">
+                  <Link to={`/pools/${e.poolId}`} className="font-medium text-verdigris-700 underline">
+                    {e.street}
+                  </Link>
+                  <span className="ml-2 text-sm">
+                    {METAL_LABELS[e.metal]}
+                    {outlook.method === "model" ? `, ${formatChance(e.probability)} in 4 weeks` : ""}
+                  </span>
+                  <span className="block text-sm text-muted">{e.reasons[0]?.text ?? "Near the company's average"}</span>
+                </li>
+              ))}
+            </ul>
+          )}
+        </section>
+      ) : null}
+
+      {outlookPending ? (
+        <p className="rounded-xl border border-line bg-white p-4 text-muted" data-outlook-pending>
+          The {OUTLOOK_NAME.toLowerCase()} is being worked out from the record; it shows here on your next visit, or open{" "}
+          <TextLink to="/outlook">{OUTLOOK_NAME}</TextLink>.
+        </p>
       ) : null}
 
       <section aria-labelledby="figures">
@@ -144,6 +200,20 @@ export default function Home({ loaderData }: Route.ComponentProps) {
           Elevated and clear levels are the company's settings (staining levels from common practice, not health limits).
         </p>
       </section>
+
+      {outlook && role !== "technician" ? (
+        <section aria-labelledby="outlook">
+          <h2 id="outlook" className="mb-1 text-lg font-semibold">
+            {OUTLOOK_NAME}: the next four weeks
+          </h2>
+          <p className="mb-3 text-sm text-muted">{outlook.methodNote}</p>
+          <OutlookList entries={outlook.entries} method={outlook.method} timeZone={timeZone} caption={`${OUTLOOK_NAME}: pools most likely to open a metal episode first`} />
+          <p className="mt-2 text-sm">
+            <TextLink to="/outlook">The whole list and how it did on past seasons</TextLink>
+            {outlook.more > 0 ? <span className="text-muted"> ({outlook.more} more)</span> : null}
+          </p>
+        </section>
+      ) : null}
     </div>
   );
 }

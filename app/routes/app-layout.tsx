@@ -30,6 +30,7 @@ const NAV_GROUPS: Array<{ label: string; items: NavItem[] }> = [
       { to: "/overview", label: "Overview", area: "overview" },
       { to: "/recurring", label: "Recurring", area: "recurring" },
       { to: "/risk", label: "Risk", area: "risk" },
+      { to: "/outlook", label: "Metal outlook", area: "outlook" },
       { to: "/outcomes", label: "Outcomes", area: "outcomes" },
       { to: "/sources/health", label: "Source health", area: "sources" },
     ],

@@ -148,6 +148,21 @@ export const trendQuery = z.object({ ...windowShape, ...thresholdShape, metal: m
 
 export const evidenceQuery = z.object({ ...windowShape, ...thresholdShape }).refine(fromBeforeTo, fromBeforeToIssue);
 
+/** The four-week metal outlook: a metal and a route narrow the list; the model is the company's own. */
+export const outlookQuery = z.object({
+  route: positiveId("route"),
+  metal: metalParam,
+  limit: z.preprocess(
+    blankAsAbsent,
+    z.coerce
+      .number({ error: "must be a whole number" })
+      .int({ error: "must be a whole number" })
+      .min(1, { error: "must be at least 1" })
+      .max(1000, { error: "must be at most 1000" })
+      .optional(),
+  ),
+});
+
 export const sourceHealthQuery = z.object({ ...windowShape, ...thresholdShape, metal: metalParam }).refine(fromBeforeTo, fromBeforeToIssue);
 
 export type ThresholdOverrides = Partial<Record<keyof typeof thresholdShape, number>>;
