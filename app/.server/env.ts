@@ -20,6 +20,24 @@ const envSchema = z.object({
   PATINA_ANALYTICS_QUEUE: z.coerce.number().int().min(0).max(1_000).default(48),
   PATINA_ANALYTICS_QUEUE_WAIT_MS: z.coerce.number().int().min(0).max(600_000).default(30_000),
   PATINA_RETRY_AFTER_SECONDS: z.coerce.number().int().min(1).max(3_600).default(5),
+  // Uploaded files live in an S3-compatible bucket (README, "Operations"), so every instance reads every
+  // upload. Locally the fake object store (`.dev/object-store.sh`) on PATINA_S3_PORT (9000) with its own keys.
+  PATINA_S3_URL: z
+    .string()
+    .url()
+    .default(`http://127.0.0.1:${process.env.PATINA_S3_PORT ?? "9000"}`),
+  PATINA_S3_BUCKET: z
+    .string()
+    .regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, "a bucket name: 3 to 63 lower-case letters, digits, dots and hyphens")
+    .default("patina-uploads"),
+  PATINA_S3_REGION: z.string().min(1).default("us-east-1"),
+  PATINA_S3_ACCESS_KEY_ID: z.string().min(1).default("S3RVER"),
+  PATINA_S3_SECRET_ACCESS_KEY: z.string().min(1).default("S3RVER"),
+  // Path-style addresses (http://host/bucket/key) suit local and self-hosted stores; "false" for virtual-hosted.
+  PATINA_S3_FORCE_PATH_STYLE: z
+    .enum(["true", "false"])
+    .default("true")
+    .transform((value) => value === "true"),
 });
 
 export type ServerEnv = z.infer<typeof envSchema>;

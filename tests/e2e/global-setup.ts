@@ -1,10 +1,12 @@
 import { execFileSync, type ChildProcess } from "node:child_process";
 import { resetTestDatabase, TEST_DATABASE_URL } from "../fixtures/database";
-import { BROWSER_TEST_SMTP_URL, startBuiltServer } from "../fixtures/server";
+import { testObjectStore } from "../fixtures/object-store";
+import { BROWSER_TEST_SMTP_URL, startBuiltServer, stopBuiltServer } from "../fixtures/server";
 
 let server: ChildProcess | undefined;
 
 export default async function setup() {
+  const stopObjectStore = await testObjectStore();
   await resetTestDatabase();
   execFileSync("npx", ["tsx", "drizzle/seed/run.ts"], {
     env: { ...process.env, DATABASE_URL: TEST_DATABASE_URL },
@@ -13,6 +15,7 @@ export default async function setup() {
   // The global setup does not get the project's env, so the mail URL is passed on by hand.
   server = await startBuiltServer(TEST_DATABASE_URL, { env: { PATINA_SMTP_URL: BROWSER_TEST_SMTP_URL } });
   return async () => {
-    server?.kill("SIGTERM");
+    await stopBuiltServer(server);
+    await stopObjectStore();
   };
 }

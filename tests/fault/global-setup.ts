@@ -1,8 +1,10 @@
 import { execFileSync } from "node:child_process";
 import { resetTestDatabase } from "../fixtures/database";
+import { testObjectStore } from "../fixtures/object-store";
 import { FAULT_DATABASE_URL, faultDatabase } from "../fixtures/scratch-mariadb";
 
 export default async function setup() {
+  const stopObjectStore = await testObjectStore();
   await faultDatabase("start");
   await resetTestDatabase(FAULT_DATABASE_URL);
   execFileSync("npx", ["tsx", "drizzle/seed/run.ts"], {
@@ -11,5 +13,6 @@ export default async function setup() {
   });
   return async () => {
     await faultDatabase("stop");
+    await stopObjectStore();
   };
 }
