@@ -33,6 +33,9 @@ const envSchema = z.object({
   PATINA_S3_REGION: z.string().min(1).default("us-east-1"),
   PATINA_S3_ACCESS_KEY_ID: z.string().min(1).default("S3RVER"),
   PATINA_S3_SECRET_ACCESS_KEY: z.string().min(1).default("S3RVER"),
+  // Background jobs (digest, alert checks): how long an instance's claim on one lasts without renewal;
+  // when the instance dies, another takes the job over after this.
+  PATINA_JOB_LEASE_SECONDS: z.coerce.number().int().min(1).max(3_600).default(120),
   // Path-style addresses (http://host/bucket/key) suit local and self-hosted stores; "false" for virtual-hosted.
   PATINA_S3_FORCE_PATH_STYLE: z
     .enum(["true", "false"])

@@ -4,3 +4,4 @@ export * from "./field";
 export * from "./routebook";
 export * from "./exchange";
 export * from "./security";
+export * from "./jobs";
