@@ -1,6 +1,5 @@
 import { Readable } from "node:stream";
-import { DeleteObjectCommand, GetObjectCommand, ListObjectsV2Command, S3Client, S3ServiceException } from "@aws-sdk/client-s3";
-import { Upload } from "@aws-sdk/lib-storage";
+import type { S3Client } from "@aws-sdk/client-s3";
 import { serverEnv } from "../env";
 import { processSingleton } from "../process-singleton";
 
@@ -27,11 +26,15 @@ function settings() {
   };
 }
 
-function client(): S3Client {
+/** The SDK loads on first use (some seconds of module loading on a busy machine), not when the server starts. */
+const sdk = () => import("@aws-sdk/client-s3");
+
+function client(): Promise<S3Client> {
   const s = settings();
-  return processSingleton(`object store ${s.url} ${s.accessKeyId}`, () => {
+  return processSingleton(`object store ${s.url} ${s.accessKeyId}`, async () => {
     // The SDK is pinned to a release that runs on Node 20; its notice about later releases is not news to operators.
     process.env.AWS_SDK_JS_NODE_VERSION_SUPPORT_WARNING_DISABLED ??= "true";
+    const { S3Client } = await sdk();
     return new S3Client({
       endpoint: s.url,
       region: s.region,
@@ -55,8 +58,9 @@ export async function putObject(key: string, body: AsyncIterable<Uint8Array>, co
       throw error;
     }
   }
+  const { Upload } = await import("@aws-sdk/lib-storage");
   const upload = new Upload({
-    client: client(),
+    client: await client(),
     params: { Bucket: settings().bucket, Key: key, Body: Readable.from(watched(), { objectMode: false }), ContentType: contentType },
     partSize: PART_BYTES,
     queueSize: PARTS_AT_ONCE,
@@ -71,7 +75,7 @@ export async function putObject(key: string, body: AsyncIterable<Uint8Array>, co
 }
 
 function isStatus(error: unknown, status: number): boolean {
-  return error instanceof S3ServiceException && error.$metadata.httpStatusCode === status;
+  return (error as { $metadata?: { httpStatusCode?: number } } | null)?.$metadata?.httpStatusCode === status;
 }
 
 /**
@@ -81,7 +85,8 @@ function isStatus(error: unknown, status: number): boolean {
 export async function* readObject(key: string, limitBytes?: number): AsyncGenerator<Uint8Array> {
   let body: Readable;
   try {
-    const answer = await client().send(
+    const { GetObjectCommand } = await sdk();
+    const answer = await (await client()).send(
       new GetObjectCommand({ Bucket: settings().bucket, Key: key, ...(limitBytes ? { Range: `bytes=0-${limitBytes - 1}` } : {}) }),
     );
     if (!answer.Body) return;
@@ -95,15 +100,17 @@ export async function* readObject(key: string, limitBytes?: number): AsyncGenera
 }
 
 export async function deleteObject(key: string): Promise<void> {
-  await client().send(new DeleteObjectCommand({ Bucket: settings().bucket, Key: key }));
+  const { DeleteObjectCommand } = await sdk();
+  await (await client()).send(new DeleteObjectCommand({ Bucket: settings().bucket, Key: key }));
 }
 
 /** Keys under `prefix`, in key order. */
 export async function listObjectKeys(prefix: string): Promise<string[]> {
+  const { ListObjectsV2Command } = await sdk();
   const keys: string[] = [];
   let token: string | undefined;
   do {
-    const page = await client().send(new ListObjectsV2Command({ Bucket: settings().bucket, Prefix: prefix, ContinuationToken: token }));
+    const page = await (await client()).send(new ListObjectsV2Command({ Bucket: settings().bucket, Prefix: prefix, ContinuationToken: token }));
     for (const item of page.Contents ?? []) if (item.Key) keys.push(item.Key);
     token = page.IsTruncated ? page.NextContinuationToken : undefined;
   } while (token);
