@@ -29,4 +29,10 @@ bash drizzle/local-db.sh start
 step "applying migrations"
 npx tsx drizzle/migrate.ts
 
+# Uploaded files go to an S3-compatible bucket; without a real one, the local fake keeps them in .data/s3.
+if [ -z "${PATINA_S3_URL:-}" ]; then
+  step "starting the local object store"
+  bash .dev/object-store.sh start
+fi
+
 printf '[patina] ready in %ss\n' "$(( $(date +%s) - started ))"

@@ -15,7 +15,10 @@ if [ -z "${PATINA_SMTP_URL:-}" ]; then
   sink_pid=$!
   trap 'kill $sink_pid 2>/dev/null || true' EXIT
 fi
+if [ -z "${PATINA_S3_URL:-}" ]; then
+  export PATINA_S3_URL="http://127.0.0.1:${PATINA_S3_PORT:-9000}"
+fi
 port=${PORT:-3000}
-printf '\n\033[1m[patina] Patina is at http://localhost:%s\033[0m (Ctrl+C stops it; the database keeps running: npm run db:stop)\n' "$port"
+printf '\n\033[1m[patina] Patina is at http://localhost:%s\033[0m (Ctrl+C stops it; the database and the object store keep running: npm run db:stop, npm run s3:stop)\n' "$port"
 export NODE_ENV=production PORT="$port" PATINA_URL="${PATINA_URL:-http://localhost:$port}"
 node server.mjs build/server/index.js

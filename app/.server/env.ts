@@ -22,6 +22,27 @@ const envSchema = z.object({
   // "off" answers every analytics request from the tests (the kept results are still kept); for comparison and emergencies.
   PATINA_KEPT_ANALYTICS: z.enum(["on", "off"]).default("on"),
   PATINA_RETRY_AFTER_SECONDS: z.coerce.number().int().min(1).max(3_600).default(5),
+  // Uploaded files live in an S3-compatible bucket (README, "Operations"), so every instance reads every
+  // upload. Locally the fake object store (`.dev/object-store.sh`) on PATINA_S3_PORT (9000) with its own keys.
+  PATINA_S3_URL: z
+    .string()
+    .url()
+    .default(`http://127.0.0.1:${process.env.PATINA_S3_PORT ?? "9000"}`),
+  PATINA_S3_BUCKET: z
+    .string()
+    .regex(/^[a-z0-9][a-z0-9.-]{1,61}[a-z0-9]$/, "a bucket name: 3 to 63 lower-case letters, digits, dots and hyphens")
+    .default("patina-uploads"),
+  PATINA_S3_REGION: z.string().min(1).default("us-east-1"),
+  PATINA_S3_ACCESS_KEY_ID: z.string().min(1).default("S3RVER"),
+  PATINA_S3_SECRET_ACCESS_KEY: z.string().min(1).default("S3RVER"),
+  // Background jobs (digest, alert checks): how long an instance's claim on one lasts without renewal;
+  // when the instance dies, another takes the job over after this.
+  PATINA_JOB_LEASE_SECONDS: z.coerce.number().int().min(1).max(3_600).default(120),
+  // Path-style addresses (http://host/bucket/key) suit local and self-hosted stores; "false" for virtual-hosted.
+  PATINA_S3_FORCE_PATH_STYLE: z
+    .enum(["true", "false"])
+    .default("true")
+    .transform((value) => value === "true"),
 });
 
 export type ServerEnv = z.infer<typeof envSchema>;

@@ -1,6 +1,7 @@
 import { execFileSync, type ChildProcess } from "node:child_process";
 import { resetTestDatabase, TEST_DATABASE_URL } from "../fixtures/database";
-import { BROWSER_TEST_SMTP_URL, startBuiltServer } from "../fixtures/server";
+import { testObjectStore } from "../fixtures/object-store";
+import { BROWSER_TEST_SMTP_URL, startBuiltServer, stopBuiltServer } from "../fixtures/server";
 
 let server: ChildProcess | undefined;
 
@@ -11,8 +12,15 @@ export default async function setup() {
     stdio: "inherit",
   });
   // The global setup does not get the project's env, so the mail URL is passed on by hand.
-  server = await startBuiltServer(TEST_DATABASE_URL, { env: { PATINA_SMTP_URL: BROWSER_TEST_SMTP_URL } });
+  const stopObjectStore = await testObjectStore();
+  try {
+    server = await startBuiltServer(TEST_DATABASE_URL, { env: { PATINA_SMTP_URL: BROWSER_TEST_SMTP_URL } });
+  } catch (error) {
+    await stopObjectStore();
+    throw error;
+  }
   return async () => {
-    server?.kill("SIGTERM");
+    await stopBuiltServer(server);
+    await stopObjectStore();
   };
 }

@@ -7,7 +7,7 @@ import type { Scope } from "~/.server/scope";
 import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
 import { storeUpload } from "~/.server/imports/uploads";
 import { TEST_DATABASE_URL } from "../fixtures/database";
-import { analystWithPools, hourlyReadingsFile, storedCounts, useScratchUploadDir } from "./imports-helpers";
+import { analystWithPools, hourlyReadingsFile, storedCounts } from "./imports-helpers";
 
 const ROWS = 5_000;
 const POOLS = 10;
@@ -19,7 +19,6 @@ const largeFile = () => hourlyReadingsFile("AT", ROWS, POOLS, Date.UTC(2023, 0, 
 const stored = () => storedCounts(scope.companyId);
 
 beforeAll(async () => {
-  useScratchUploadDir();
   ({ scope } = await analystWithPools("AT", POOLS));
   other = await mysql.createConnection({ uri: TEST_DATABASE_URL, timezone: "Z" });
 });

@@ -7,13 +7,14 @@ import * as refusedApi from "~/routes/api.imports.$uploadId.refused[.csv]";
 import * as historyPage from "~/routes/imports";
 import { addTest, createCompany, createMember, createPool, createRoute, type FixtureMember, requestAs } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
-import { checkPageData, fixtureBytes, postCheckForm, upload, uploadFixture, useScratchUploadDir } from "./imports-helpers";
+import { checkPageData, fixtureBytes, postCheckForm, upload, uploadFixture } from "./imports-helpers";
 import type { PlanSummary } from "~/.server/imports/plan";
-import { readdirSync } from "node:fs";
+import { uploadKeyPrefix } from "~/.server/imports/uploads";
+import { listObjectKeys } from "~/.server/storage/object-store";
 
-/** Every file in the upload folder, by path. */
-function storedFiles(): string[] {
-  return readdirSync(process.env.PATINA_UPLOAD_DIR!, { recursive: true, encoding: "utf8" }).sort();
+/** Every file the company has in the object store, by key. */
+function storedFiles(): Promise<string[]> {
+  return listObjectKeys(uploadKeyPrefix(companyId));
 }
 
 let companyId: number;
@@ -42,7 +43,6 @@ function summaryOf(page: Awaited<ReturnType<typeof checkPageData>>): PlanSummary
 }
 
 beforeAll(async () => {
-  useScratchUploadDir();
   companyId = await createCompany();
   await db().update(companies).set({ timeZone: "America/New_York" }).where(eq(companies.id, companyId));
   const routeId = await createRoute(companyId, "North");
@@ -281,7 +281,7 @@ describe("saved mappings", () => {
 describe("refusals", () => {
   it("a file over the size cap gets 413 with a clear message, and nothing of it is kept", async () => {
     process.env.PATINA_UPLOAD_MAX_MB = "0.001";
-    const filesBefore = storedFiles();
+    const filesBefore = await storedFiles();
     const uploadsBefore = await db().select({ n: count() }).from(importUploads);
     try {
       // 5,000 bytes against a cap of 0.001 MB = 1,048.576 bytes (rounded to 1,049); no size is declared,
@@ -290,7 +290,7 @@ describe("refusals", () => {
       expect(outcome.status).toBe(413);
       expect(outcome.body).toMatchObject({ error: { code: "payload_too_large", field: "file" } });
       expect((outcome.body as { error: { message: string } }).error.message).toContain("larger than");
-      expect(storedFiles()).toEqual(filesBefore);
+      expect(await storedFiles()).toEqual(filesBefore);
       expect(await db().select({ n: count() }).from(importUploads)).toEqual(uploadsBefore);
     } finally {
       delete process.env.PATINA_UPLOAD_MAX_MB;

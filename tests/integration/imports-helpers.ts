@@ -1,6 +1,4 @@
-import { readFileSync, mkdtempSync } from "node:fs";
-import { tmpdir } from "node:os";
-import { join } from "node:path";
+import { readFileSync } from "node:fs";
 import { count, eq } from "drizzle-orm";
 import { db } from "~/.server/db/client";
 import { importBatches, waterTests } from "~/.server/db/schema";
@@ -9,11 +7,6 @@ import { callRoute } from "../fixtures/route-call";
 import { createCompany, createMember, createPool, type FixtureMember, requestAs } from "../fixtures/company";
 import * as uploadsApi from "~/routes/api.imports.uploads";
 import * as checkPage from "~/routes/imports.$uploadId";
-
-/** Uploads go to a folder of this run's own. */
-export function useScratchUploadDir() {
-  process.env.PATINA_UPLOAD_DIR = mkdtempSync(join(tmpdir(), "patina-imports-"));
-}
 
 /** An analyst, with their scope, in a company of its own whose pools, on no route, are `${prefix}-0` to `${prefix}-${pools - 1}`. */
 export async function analystWithPools(prefix: string, pools: number): Promise<{ member: FixtureMember; scope: Scope }> {

@@ -8,14 +8,13 @@ import type { PlanSummary } from "~/.server/imports/plan";
 import { readAccountKey } from "~/lib/imports/match-keys";
 import { TEST_DATABASE_URL } from "../fixtures/database";
 import { createCompany, createMember, createPool, type FixtureMember } from "../fixtures/company";
-import { checkPageData, postCheckForm, upload, useScratchUploadDir } from "./imports-helpers";
+import { checkPageData, postCheckForm, upload } from "./imports-helpers";
 
 let companyId: number;
 let member: FixtureMember;
 let collation: mysql.Connection;
 
 beforeAll(async () => {
-  useScratchUploadDir();
   companyId = await createCompany();
   await createPool(companyId, { routeId: null, accountCode: "FZ-1" });
   await createPool(companyId, { routeId: null, accountCode: "FZ-2" });

@@ -10,7 +10,7 @@ import { releaseDeadClaims, STOPPED_MESSAGE } from "~/.server/imports/claims";
 import { commitUpload, INSERT_CHUNK } from "~/.server/imports/commit";
 import { storeUpload } from "~/.server/imports/uploads";
 import type { FixtureMember } from "../fixtures/company";
-import { analystWithPools, checkPageData, hourlyReadingsFile, postCheckForm, storedCounts, useScratchUploadDir } from "./imports-helpers";
+import { analystWithPools, checkPageData, hourlyReadingsFile, postCheckForm, storedCounts } from "./imports-helpers";
 
 const ROWS = 3_000;
 const POOLS = 6;
@@ -54,7 +54,6 @@ async function kill(process: ChildProcess) {
 }
 
 beforeAll(async () => {
-  useScratchUploadDir();
   ({ member, scope } = await analystWithPools("KT", POOLS));
 });
 

@@ -9,7 +9,7 @@ import { pools, products, treatments, waterTests } from "../db/schema";
 import { type Scope, poolsInScope } from "../scope";
 import { PlannedRows } from "./planned-rows";
 import { type Delimiter, ENCODING_NOTES, parseStoredFile } from "./read-file";
-import { reportProgress, storedPath, uploadEncoding, type UploadRow } from "./uploads";
+import { reportProgress, uploadBytes, uploadEncoding, type UploadRow } from "./uploads";
 
 export type UnknownPool = {
   key: string;
@@ -76,14 +76,13 @@ export async function planImport(
   };
   const delimiter = (upload.delimiter ?? ",") as Delimiter;
   const encoding = uploadEncoding(upload);
-  const path = storedPath(upload);
   if (phase) report({ phase, rowsDone: 0, rowsTotal: upload.rowsTotal, error: null });
 
   const dateColumn = options.columns.findIndex((c) => c.field === "sampledAt");
   let dateOrder: DateOrderFinding = { kind: "none" };
   if (dateColumn >= 0) {
     const evidence = new DateOrderEvidence();
-    await parseStoredFile(path, encoding, delimiter, (_row, cells) => evidence.add(cells[dateColumn] ?? ""));
+    await parseStoredFile(uploadBytes(upload), encoding, delimiter, (_row, cells) => evidence.add(cells[dateColumn] ?? ""));
     dateOrder = evidence.finding();
   }
   const chosenOrder = options.dateOrder ?? (dateOrder.kind === "known" ? dateOrder.order : null);
@@ -166,7 +165,7 @@ export async function planImport(
   };
 
   await parseStoredFile(
-    path,
+    uploadBytes(upload),
     encoding,
     delimiter,
     (row, cells) => {

@@ -1,4 +1,3 @@
-import { createReadStream } from "node:fs";
 import { Readable } from "node:stream";
 import Papa from "papaparse";
 
@@ -62,25 +61,43 @@ export class Utf8Check {
   }
 }
 
+/** Bytes of a stored file as they arrive (from the object store, or a file in tests). */
+export type ByteSource = AsyncIterable<Uint8Array>;
+
 /** Large pieces: the first one is what the line-ending guess looks at, as when the text was read whole. */
 const READ_PIECE = 1024 * 1024;
 
+/** Gathers the source's small pieces (a download's are some kilobytes) into pieces of `size` bytes. */
+async function* gathered(source: ByteSource, size: number): AsyncGenerator<Uint8Array> {
+  let held: Uint8Array[] = [];
+  let heldBytes = 0;
+  for await (const piece of source) {
+    held.push(piece);
+    heldBytes += piece.byteLength;
+    if (heldBytes >= size) {
+      yield Buffer.concat(held, heldBytes);
+      held = [];
+      heldBytes = 0;
+    }
+  }
+  if (heldBytes > 0) yield Buffer.concat(held, heldBytes);
+}
+
 /**
  * The text of a stored file a piece at a time, in the encoding found when it
- * was uploaded, without its byte-order mark. `limitBytes` reads only the start.
+ * was uploaded, without its byte-order mark. With `partial` the source is
+ * only the file's start, which may end inside a character: that part is left out.
  */
-export async function* readFileText(path: string, encoding: Encoding, limitBytes?: number): AsyncGenerator<string> {
+export async function* readFileText(source: ByteSource, encoding: Encoding, options: { partial?: boolean } = {}): AsyncGenerator<string> {
   const decoder = new TextDecoder(encoding, { fatal: encoding === "utf-8", ignoreBOM: true });
-  const stream = createReadStream(path, { highWaterMark: READ_PIECE, ...(limitBytes ? { end: limitBytes - 1 } : {}) });
   let first = true;
-  for await (const chunk of stream as AsyncIterable<Buffer>) {
+  for await (const chunk of gathered(source, READ_PIECE)) {
     const bytes = first && startsWithBom(chunk) ? chunk.subarray(3) : chunk;
     first = false;
     const text = decoder.decode(bytes, { stream: true });
     if (text) yield text;
   }
-  // A read cut short may end inside a character; that part is left out.
-  if (!limitBytes) {
+  if (!options.partial) {
     const rest = decoder.decode();
     if (rest) yield rest;
   }
@@ -121,18 +138,18 @@ function headerNames(cells: string[]): string[] {
  * each data record to `onRow` and keeping none of them. Resolves with the headers.
  */
 export function parseStoredFile(
-  path: string,
+  source: ByteSource,
   encoding: Encoding,
   delimiter: Delimiter,
   onRow: (row: number, cells: string[]) => void,
   onHeaders?: (headers: string[]) => void,
 ): Promise<{ headers: string[] }> {
-  const source = Readable.from(readFileText(path, encoding));
+  const text = Readable.from(readFileText(source, encoding));
   let record = 0;
   let headers: string[] | null = null;
   let width = 1;
   return new Promise((resolve, reject) => {
-    Papa.parse<string[]>(source, {
+    Papa.parse<string[]>(text, {
       delimiter,
       skipEmptyLines: false,
       chunk: ({ data }) => {
@@ -150,7 +167,7 @@ export function parseStoredFile(
       },
       complete: () => resolve({ headers: headers ?? [] }),
       error: (error) => {
-        source.destroy();
+        text.destroy();
         reject(error);
       },
     });

@@ -19,7 +19,7 @@ export type ReceivedUpload =
 
 /**
  * Reads the multipart body as it arrives and writes its "file" part to the
- * upload folder. The parser stops as soon as the file passes the size cap.
+ * object store. The parser stops as soon as the file passes the size cap.
  */
 export async function receiveUpload(scope: Scope, request: Request): Promise<ReceivedUpload> {
   const { maxBytes } = importConfig();

@@ -1,8 +1,4 @@
 import { createHash, randomUUID } from "node:crypto";
-import { createWriteStream } from "node:fs";
-import { mkdir, rm } from "node:fs/promises";
-import { dirname, join } from "node:path";
-import { pipeline } from "node:stream/promises";
 import { and, desc, eq, notInArray } from "drizzle-orm";
 import { type ColumnMapping, unitsFor } from "~/lib/imports/fields";
 import type { ImportOptions } from "~/lib/imports/options";
@@ -10,9 +6,11 @@ import { proposeMapping, type SavedMapping, savedMappingFits } from "~/lib/impor
 import { db } from "../db/client";
 import { companies, importMappings, importUploads } from "../db/schema";
 import type { Scope } from "../scope";
+import { deleteObject, putObject, readObject } from "../storage/object-store";
 import { releaseDeadClaims } from "./claims";
 import { importConfig, MAX_COLUMNS, MAX_HEADER_LENGTH } from "./config";
 import {
+  type ByteSource,
   type Delimiter,
   detectDelimiter,
   type Encoding,
@@ -62,24 +60,29 @@ function shortHeader(header: string): string {
   return header.length > 40 ? `${header.slice(0, 40)}…` : header;
 }
 
-/** A file written into the upload folder, with what was learnt while writing it. */
+/** A file put in the object store, with what was learnt while it streamed in. */
 export type StoredFile = { id: string; storedAs: string; byteSize: number; sha256: string; encoding: Encoding };
 
-export function storedPath(file: Pick<UploadRow, "storedAs">): string {
-  return join(importConfig().uploadDir, file.storedAs);
+/** Where a company's uploads are kept in the bucket. */
+export function uploadKeyPrefix(companyId: number): string {
+  return `imports/${companyId}/`;
+}
+
+/** The stored file's bytes as they download; `limitBytes` reads only its start. */
+export function uploadBytes(file: Pick<UploadRow, "storedAs" | "byteSize">, limitBytes?: number): ByteSource {
+  // A file within the limit is read whole: no range asked, which some stores refuse on an empty object.
+  return readObject(file.storedAs, limitBytes !== undefined && limitBytes < file.byteSize ? limitBytes : undefined);
 }
 
 /**
- * Writes a file into the upload folder as its bytes arrive, hashing, counting
- * and checking for UTF-8 on the way; nothing is held beyond the piece in hand.
- * Past the size cap it stops, removes what it wrote and throws UploadTooLarge.
+ * Streams a file into the object store as its bytes arrive, hashing, counting
+ * and checking for UTF-8 on the way; nothing is held beyond the part in hand.
+ * Past the size cap it stops, the partial upload is dropped and it throws UploadTooLarge.
  */
 export async function writeUploadFile(scope: Scope, source: AsyncIterable<Uint8Array> | Iterable<Uint8Array>): Promise<StoredFile> {
   const { maxBytes } = importConfig();
   const id = randomUUID();
-  const storedAs = join(String(scope.companyId), `${id}.csv`);
-  const path = storedPath({ storedAs });
-  await mkdir(dirname(path), { recursive: true });
+  const storedAs = `${uploadKeyPrefix(scope.companyId)}${id}.csv`;
   const hash = createHash("sha256");
   const utf8 = new Utf8Check();
   let byteSize = 0;
@@ -92,34 +95,28 @@ export async function writeUploadFile(scope: Scope, source: AsyncIterable<Uint8A
       yield piece;
     }
   }
-  try {
-    await pipeline(measured, createWriteStream(path, { flags: "wx" }));
-  } catch (error) {
-    await rm(path, { force: true });
-    throw error;
-  }
+  await putObject(storedAs, measured(), "text/csv");
   return { id, storedAs, byteSize, sha256: hash.digest("hex"), encoding: utf8.end() ? "utf-8" : "windows-1252" };
 }
 
 export async function removeStoredFile(file: Pick<StoredFile, "storedAs">) {
-  await rm(storedPath(file), { force: true });
+  await deleteObject(file.storedAs);
 }
 
-async function textStart(path: string, encoding: Encoding, bytes: number): Promise<string> {
+async function textStart(file: Pick<UploadRow, "storedAs" | "byteSize">, encoding: Encoding, bytes: number): Promise<string> {
   let text = "";
-  for await (const piece of readFileText(path, encoding, bytes)) text += piece;
+  for await (const piece of readFileText(uploadBytes(file, bytes), encoding, { partial: true })) text += piece;
   return text;
 }
 
 /** Reads the stored file's shape as it streams, proposes a mapping, and records the upload. */
 export async function registerUpload(scope: Scope, fileName: string, file: StoredFile): Promise<string> {
   try {
-    const path = storedPath(file);
-    const start = await textStart(path, file.encoding, HEADER_WINDOW_BYTES);
+    const start = await textStart(file, file.encoding, HEADER_WINDOW_BYTES);
     const delimiter = detectDelimiter(start.slice(0, 64 * 1024));
     checkHeaderRow(start, delimiter, file.byteSize);
     let rowsTotal = 0;
-    const { headers } = await parseStoredFile(path, file.encoding, delimiter, () => {
+    const { headers } = await parseStoredFile(uploadBytes(file), file.encoding, delimiter, () => {
       rowsTotal++;
     });
     const columns = await proposeForCompany(scope, headers);
@@ -193,7 +190,7 @@ export function uploadEncoding(upload: UploadRow): Encoding {
 export async function uploadSample(upload: UploadRow, rows = 5) {
   const encoding = uploadEncoding(upload);
   const readBytes = 1024 * 1024;
-  const text = await textStart(storedPath(upload), encoding, readBytes);
+  const text = await textStart(upload, encoding, readBytes);
   const table = parseTable(text, (upload.delimiter ?? ",") as Delimiter, rows + 50);
   // A start cut short may end inside a record: that record is not shown.
   const whole = upload.byteSize <= readBytes;

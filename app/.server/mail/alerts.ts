@@ -1,4 +1,6 @@
+import { randomUUID } from "node:crypto";
 import { and, count, eq, inArray } from "drizzle-orm";
+import { z } from "zod";
 import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
@@ -7,6 +9,7 @@ import { companySettings } from "../settings/queries/company-settings";
 import { db } from "../db/client";
 import { alertEvents, type ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
 import { serverEnv } from "../env";
+import { claimJob, type JobClaim, runClaimed } from "../jobs/claims";
 import { waterTestReadings } from "../analytics/queries/metal-readings";
 import { poolLabels } from "../analytics/queries/pool-profiles";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
@@ -232,9 +235,16 @@ async function recordAlertsForPools(companyId: number, poolIds: readonly number[
   return recordEvents(company, events);
 }
 
+export const ALERT_JOB = "alerts";
+
+const alertJobPayload = z.object({ poolIds: z.array(z.number().int().positive()), at: z.iso.datetime() });
+
 /**
  * For the visit log and the import: call after the tests are committed, e.g.
- * `void afterWaterTestsSaved(companyId, poolIds)`. It never throws, so a
+ * `void afterWaterTestsSaved(companyId, poolIds)`. The check is recorded as a
+ * job first (background_jobs) and run under its claim, so when this instance
+ * dies half-way another takes it over once the claim's lease ends; each
+ * alert is still recorded once (UNIQUE company + key). It never throws, so a
  * problem with alerts can never undo or fail the save that triggered it.
  */
 export async function afterWaterTestsSaved(
@@ -243,10 +253,25 @@ export async function afterWaterTestsSaved(
   options: { now?: Date } = {},
 ): Promise<RecordedAlert[]> {
   try {
-    return await recordAlertsForPools(companyId, poolIds, options);
+    const at = options.now ?? new Date();
+    const claim = await claimJob({
+      key: `${ALERT_JOB}:${companyId}:${randomUUID()}`,
+      kind: ALERT_JOB,
+      companyId,
+      payload: { poolIds: [...new Set(poolIds)], at: at.toISOString() },
+    });
+    if (!claim) return [];
+    return await runAlertJob(claim);
   } catch (error) {
     console.error(`[patina] alerts for company ${companyId} could not be worked out:`, error);
     return [];
   }
 }
 
+/** Works out the alerts of a claimed check, as of the moment the tests were saved. */
+export async function runAlertJob(claim: JobClaim): Promise<RecordedAlert[]> {
+  const payload = alertJobPayload.parse(claim.payload);
+  if (claim.companyId === null) throw new Error(`alert job ${claim.key} names no company`);
+  const companyId = claim.companyId;
+  return runClaimed(claim, () => recordAlertsForPools(companyId, payload.poolIds, { now: new Date(payload.at) }));
+}

@@ -1,6 +1,7 @@
 import { TZDate } from "@date-fns/tz";
 import { format } from "date-fns";
 import { and, eq, inArray } from "drizzle-orm";
+import { z } from "zod";
 import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/episodes";
 import { type Metal, METALS } from "@analysis/metals/reading";
 import { buildCourses, courseOutcomes } from "@analysis/outcomes/treatments";
@@ -9,6 +10,7 @@ import { companySettings } from "../settings/queries/company-settings";
 import { db } from "../db/client";
 import { companies, mailOutbox, memberships, user } from "../db/schema";
 import { serverEnv } from "../env";
+import { claimJob, type JobClaim, runClaimed } from "../jobs/claims";
 import { poolProfiles, type PoolLabel } from "../analytics/queries/pool-profiles";
 import { isWithin } from "../analytics/queries/tenant-and-window";
 import { treatmentRows, waterTestReadings } from "../analytics/queries/metal-readings";
@@ -144,10 +146,67 @@ export function digestIsDue(now: Date, timeZone: string): boolean {
 
 export type DigestRun = { companies: number; queued: number };
 
+export const DIGEST_JOB = "digest";
+
+/** One digest job per company and ISO week, whichever instance runs it. */
+export function digestJobKey(companyId: number, week: string): string {
+  return `digest:${companyId}:${week}`;
+}
+
+const digestJobPayload = z.object({ week: z.string().min(1), at: z.iso.datetime() });
+
+/**
+ * Queues the week's digest of one company for every owner and manager who has
+ * not turned it off and has not had it yet (the outbox key is per member and
+ * week, so a run taken over half-way queues only the rest).
+ */
+async function queueCompanyDigest(companyId: number, now: Date, week: string): Promise<{ computed: boolean; queued: number }> {
+  const members = await db()
+    .select({ membershipId: memberships.id, email: user.email, name: user.name })
+    .from(memberships)
+    .innerJoin(user, eq(user.id, memberships.userId))
+    .where(and(eq(memberships.companyId, companyId), inArray(memberships.role, ["owner", "manager"])));
+  const keyOf = (membershipId: number) => `digest:${membershipId}:${week}`;
+  const already = new Set(
+    members.length === 0
+      ? []
+      : (
+          await db()
+            .select({ key: mailOutbox.dedupeKey })
+            .from(mailOutbox)
+            .where(inArray(mailOutbox.dedupeKey, members.map((m) => keyOf(m.membershipId))))
+        ).map((r) => r.key),
+  );
+  const waiting: Array<(typeof members)[number] & { unsubscribeToken: string }> = [];
+  for (const member of members) {
+    if (already.has(keyOf(member.membershipId))) continue;
+    const preferences = await preferencesFor(member.membershipId);
+    if (preferences.digest) waiting.push({ ...member, unsubscribeToken: preferences.unsubscribeToken });
+  }
+  if (waiting.length === 0) return { computed: false, queued: 0 };
+  const digest = await weeklyDigestFor(companyId, now);
+  if (!digest) return { computed: false, queued: 0 };
+  let queued = 0;
+  for (const member of waiting) {
+    const added = await enqueueMail({
+      companyId,
+      dedupeKey: keyOf(member.membershipId),
+      kind: "digest",
+      recipient: member.email,
+      mail: digestMail(digest, { baseUrl: serverEnv().PATINA_URL, recipientName: member.name, unsubscribeToken: member.unsubscribeToken, week }),
+    });
+    if (added) queued++;
+  }
+  return { computed: true, queued };
+}
+
 /**
  * Queues this week's digest for every owner and manager who has not turned it
- * off. Idempotent per member and ISO week, so the scheduler may call it every
- * hour; with onlyDue it leaves companies alone until their Monday morning.
+ * off. Each company's week is one job (background_jobs): the instance that
+ * claims it sends it, others leave it, and once done it is not run again that
+ * week, so every instance's scheduler may call this every hour. A job whose
+ * instance died is taken over when its lease ends. With onlyDue it leaves
+ * companies alone until their Monday morning.
  */
 export async function sendWeeklyDigests(now: Date = new Date(), options: { onlyDue?: boolean; companyIds?: number[] } = {}): Promise<DigestRun> {
   const all = await db()
@@ -158,43 +217,32 @@ export async function sendWeeklyDigests(now: Date = new Date(), options: { onlyD
   for (const company of all) {
     if (options.onlyDue && !digestIsDue(now, company.timeZone)) continue;
     const week = digestWeek(now, company.timeZone);
-    const members = await db()
-      .select({ membershipId: memberships.id, email: user.email, name: user.name })
-      .from(memberships)
-      .innerJoin(user, eq(user.id, memberships.userId))
-      .where(and(eq(memberships.companyId, company.id), inArray(memberships.role, ["owner", "manager"])));
-    const keyOf = (membershipId: number) => `digest:${membershipId}:${week}`;
-    const already = new Set(
-      members.length === 0
-        ? []
-        : (
-            await db()
-              .select({ key: mailOutbox.dedupeKey })
-              .from(mailOutbox)
-              .where(inArray(mailOutbox.dedupeKey, members.map((m) => keyOf(m.membershipId))))
-          ).map((r) => r.key),
-    );
-    const waiting: Array<(typeof members)[number] & { unsubscribeToken: string }> = [];
-    for (const member of members) {
-      if (already.has(keyOf(member.membershipId))) continue;
-      const preferences = await preferencesFor(member.membershipId);
-      if (preferences.digest) waiting.push({ ...member, unsubscribeToken: preferences.unsubscribeToken });
-    }
-    if (waiting.length === 0) continue;
-    const digest = await weeklyDigestFor(company.id, now);
-    if (!digest) continue;
-    run.companies++;
-    for (const member of waiting) {
-      const queued = await enqueueMail({
-        companyId: company.id,
-        dedupeKey: keyOf(member.membershipId),
-        kind: "digest",
-        recipient: member.email,
-        mail: digestMail(digest, { baseUrl: serverEnv().PATINA_URL, recipientName: member.name, unsubscribeToken: member.unsubscribeToken, week }),
-      });
-      if (queued) run.queued++;
+    const claim = await claimJob({
+      key: digestJobKey(company.id, week),
+      kind: DIGEST_JOB,
+      companyId: company.id,
+      payload: { week, at: now.toISOString() },
+    });
+    if (!claim) continue;
+    try {
+      const result = await runClaimed(claim, () => queueCompanyDigest(company.id, now, week));
+      if (result.computed) run.companies++;
+      run.queued += result.queued;
+    } catch (error) {
+      // Its job is tried again later (by this or another instance); the other companies go on.
+      console.error(`[patina] the weekly digest of company ${company.id} failed:`, error);
     }
   }
   if (run.queued > 0) signalMailQueued();
   return run;
+}
+
+/** Finishes a digest job taken over from an instance that died, for the week and moment it was started. */
+export async function runDigestJob(claim: JobClaim): Promise<number> {
+  const payload = digestJobPayload.parse(claim.payload);
+  if (claim.companyId === null) throw new Error(`digest job ${claim.key} names no company`);
+  const companyId = claim.companyId;
+  const { queued } = await runClaimed(claim, () => queueCompanyDigest(companyId, new Date(payload.at), payload.week));
+  if (queued > 0) signalMailQueued();
+  return queued;
 }

@@ -30,7 +30,7 @@ export const importUploads = mysqlTable(
     fileName: varchar("file_name", { length: 255 }).notNull(),
     byteSize: bigint("byte_size", { mode: "number" }).notNull(),
     fileSha256: varchar("file_sha256", { length: 64 }).notNull(),
-    /** Where the bytes are kept on the server, relative to the upload folder. */
+    /** The key of the file in the object store's bucket (PATINA_S3_BUCKET). */
     storedAs: varchar("stored_as", { length: 255 }).notNull(),
     encoding: varchar("encoding", { length: 20 }),
     delimiter: varchar("delimiter", { length: 4 }),

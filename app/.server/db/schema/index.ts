@@ -5,3 +5,4 @@ export * from "./routebook";
 export * from "./exchange";
 export * from "./security";
 export * from "./kept";
+export * from "./jobs";
