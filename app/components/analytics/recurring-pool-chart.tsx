@@ -6,6 +6,7 @@ import { isoDay, metalColourScale, metalLevels, metalSymbolScale, readingText, r
 import { PlotFigure } from "~/components/charts/plot-figure";
 import type { RecurringPool } from "@analysis/metals/recurring-finder";
 import { METAL_LABELS } from "@analysis/metals/names";
+import { recurringPoolReading } from "~/lib/analytics/chart-readings";
 
 type Point = { at: Date; metal: string; value: number; belowDetection: boolean };
 type Treatment = { poolId: number; appliedAt: string; productName: string; category: string };
@@ -82,7 +83,8 @@ export function RecurringPoolChart({
     .join("; ");
   return (
     <PlotFigure
-      title={`${pool.street}: metal readings (mg/L)`}
+      title={`Did the metal come back at ${pool.street}? The pool's metal readings (mg/L) and treatments`}
+      reading={recurringPoolReading(pool.episodes, shown)}
       caption={`${summary}. Shaded: open episodes; dashed: elevated level, dotted: clear level; green ticks at the foot: treatments.`}
       plot={plot}
       rows={points}
