@@ -54,7 +54,20 @@ export function labelledRows(labels: readonly string[], { rowHeight, minHeight, 
       if (margin <= width * 0.4) return { options: { marginLeft: margin, y: { label: null, domain, tickFormat: shortLabel } }, marks: [], inset: 0 };
       return {
         options: { marginLeft: 8, y: { label: null, domain, axis: null } },
-        marks: [Plot.text(domain, { y: (d: string) => d, text: shortLabel, frameAnchor: "left", textAnchor: "start", dy: -Math.round(rowHeight * 0.32) })],
+        marks: [
+          Plot.text(domain, {
+            y: (d: string) => d,
+            text: shortLabel,
+            frameAnchor: "left",
+            textAnchor: "start",
+            dy: -Math.round(rowHeight * 0.32),
+            // A white edge keeps the label readable where grid lines cross it.
+            fill: "currentColor",
+            stroke: "white",
+            strokeWidth: 3,
+            paintOrder: "stroke",
+          }),
+        ],
         inset: Math.round(rowHeight * 0.45),
       };
     },

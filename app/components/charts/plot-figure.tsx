@@ -81,10 +81,12 @@ export function PlotFigure<Row>({
         {caption ? <span className="block text-sm text-muted">{caption}</span> : null}
       </figcaption>
       {rows.length === 0 ? (
-        <p className="py-6 text-center text-muted">{empty}</p>
+        <p className="py-6 text-center text-muted" data-chart-empty>
+          {empty}
+        </p>
       ) : (
         <>
-          <div ref={holder} aria-hidden={showTable} className="w-full overflow-hidden" style={{ minHeight: height }} />
+          <div ref={holder} aria-hidden={showTable} className="w-full overflow-hidden" style={{ minHeight: height }} data-chart-drawing />
           {reading ? (
             <p className="mt-2 text-sm font-medium" data-chart-reading>
               {reading}

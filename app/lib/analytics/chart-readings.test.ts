@@ -109,6 +109,15 @@ describe("time to clear reading", () => {
       "Soonest to clear: Pads, half its courses clear by day 9 (95%: 6 to 14 days); next: Sequestrant, day 30.",
     );
   });
+  it("names every treatment of a tie rather than calling one the soonest", () => {
+    expect(timeToClearReading([arm("Pads", 7, 5, 14), arm("Sequestrant", 7, 7, 14), arm("Shock", 20, 15, 30)], 60)).toBe(
+      "Tied soonest to clear, half their courses clear by day 7: Pads and Sequestrant.",
+    );
+    // 6.6 and 7.2 days both print as day 7.
+    expect(timeToClearReading([arm("Sequestrant", 7.2, 7, 14), arm("Pads", 6.6, 5, 14)], 60)).toBe(
+      "Tied soonest to clear, half their courses clear by day 7: Pads and Sequestrant.",
+    );
+  });
   it("leaves out treatments with too few pools and says when one alone is left", () => {
     expect(timeToClearReading([arm("Pads", 9, 6, null), arm("Tiny trial", 2, 1, 3, true)], 60)).toBe(
       "Soonest to clear: Pads, half its courses clear by day 9 (95%: 6 days or more); the only treatment with enough pools to compare.",

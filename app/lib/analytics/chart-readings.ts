@@ -81,8 +81,8 @@ function medianInterval(arm: ClearingArm): string {
 
 /**
  * The treatment whose courses cleared soonest (median, Kaplan-Meier), among
- * those with enough pools to compare; says so when the next one's interval
- * overlaps, since the gap may then be chance.
+ * those with enough pools to compare; names every treatment of a tie, and
+ * says so when the next one's interval overlaps, since the gap may then be chance.
  */
 export function timeToClearReading(arms: readonly ClearingArm[], followUpDays: number): string {
   if (arms.length === 0) return "No treated course started above the clear level in this window.";
@@ -91,6 +91,9 @@ export function timeToClearReading(arms: readonly ClearingArm[], followUpDays: n
   const ranked = [...compared].sort((a, b) => (a.timeToClear.medianDays ?? Infinity) - (b.timeToClear.medianDays ?? Infinity));
   const [best, next] = ranked as [ClearingArm, ...ClearingArm[]];
   if (best.timeToClear.medianDays === null) return `No treatment with enough pools cleared half its courses within ${days(followUpDays)}.`;
+  // Days are read as whole days, as the page prints them: 6.6 and 7.2 days are both "day 7", a tie.
+  const tied = ranked.filter((a) => a.timeToClear.medianDays !== null && Math.round(a.timeToClear.medianDays) === Math.round(best.timeToClear.medianDays!));
+  if (tied.length > 1) return `Tied soonest to clear, half their courses clear by day ${best.timeToClear.medianDays.toFixed(0)}: ${listWords(tied.map((a) => a.label))}.`;
   const lead = `Soonest to clear: ${best.label}, half its courses clear by day ${best.timeToClear.medianDays.toFixed(0)}${medianInterval(best)}`;
   if (!next) return `${lead}; the only treatment with enough pools to compare.`;
   const nextText =
