@@ -8,6 +8,9 @@ import type { RecurringPool } from "@analysis/metals/recurring-finder";
 import { METAL_LABELS } from "@analysis/metals/names";
 import { recurringPoolReading } from "~/lib/analytics/chart-readings";
 
+const CHART_HEIGHT = 220;
+const FRAME_HEIGHT = CHART_HEIGHT - 20 - 30;
+
 type Point = { at: Date; metal: string; value: number; belowDetection: boolean };
 type Treatment = { poolId: number; appliedAt: string; productName: string; category: string };
 
@@ -48,6 +51,8 @@ export function RecurringPoolChart({
     const marks = treatments.map((t) => ({ ...t, at: new Date(t.appliedAt) }));
     return {
       marginLeft: 44,
+      marginTop: 20,
+      marginBottom: 30,
       x: { type: "utc", label: "Date" },
       y: { label: "mg/L", grid: true, zero: true },
       color: metalColourScale(shown),
@@ -71,7 +76,8 @@ export function RecurringPoolChart({
           x: "at",
           stroke: "#22604f",
           strokeWidth: 2,
-          insetTop: 190,
+          // A short tick at the foot of the frame (the chart less its 20 px top and 30 px bottom margins), above the date labels.
+          insetTop: FRAME_HEIGHT - 14,
           tip: true,
           title: (d: (typeof marks)[number]) => `${d.productName}\n${d.appliedAt.slice(0, 10)}`,
         }),
@@ -88,7 +94,7 @@ export function RecurringPoolChart({
       caption={`${summary}. Shaded: open episodes; dashed: elevated level, dotted: clear level; green ticks at the foot: treatments.`}
       plot={plot}
       rows={points}
-      height={220}
+      height={CHART_HEIGHT}
       csvName={`metal-readings-${pool.poolId}.csv`}
       columns={[
         { label: "Date", value: (r) => isoDay(r.at) },
