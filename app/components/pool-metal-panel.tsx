@@ -5,6 +5,7 @@ import { metalColourScale, metalNames } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { formatDate } from "~/lib/format";
 import { METAL_LABELS } from "@analysis/metals/names";
+import { poolEpisodesReading } from "~/lib/analytics/chart-readings";
 
 const EVIDENCE_TITLES: Record<string, string> = {
   "fill-water-test": "Fill-water test",
@@ -57,7 +58,8 @@ export function PoolMetalPanel({ evidence, timeZone }: { evidence: PoolEvidence;
         Metal episodes and likely sources
       </h2>
       <PlotFigure
-        title="Metal episodes on this pool (from opening to close)"
+        title="When was a metal up on this pool, and for how long? Metal episodes from opening to close"
+        reading={poolEpisodesReading(evidence.episodes)}
         caption="A bar runs from the reading that reached the elevated level to the first reading below the clear level; an open episode runs to the latest test."
         plot={plot}
         rows={rows}

@@ -185,7 +185,7 @@ export default function SourceHealthPage({ loaderData }: Route.ComponentProps) {
                 </div>
               )}
               {source.sourceTests.length > 0 || source.flagged || source.kind !== "municipal" ? (
-                <SourceTestChart name={source.name} tests={source.sourceTests} />
+                <SourceTestChart name={source.name} tests={source.sourceTests} thresholds={thresholds} />
               ) : null}
               </details>
             </li>

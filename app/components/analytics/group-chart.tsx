@@ -4,6 +4,7 @@ import type { GroupFigure } from "~/.server/analytics/queries/group-figures";
 import { labelledRows } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { FLAG_COLOURS } from "~/lib/analytics/colours";
+import { groupReading } from "~/lib/analytics/chart-readings";
 
 const FLAG_WORDS = { risky: "Risky", ordinary: "Not set apart", small: "Too small to judge" } as const;
 type Flag = keyof typeof FLAG_WORDS;
@@ -11,59 +12,65 @@ type Flag = keyof typeof FLAG_WORDS;
 const flagOf = (g: GroupFigure): Flag => (g.tooSmallToJudge ? "small" : g.risky ? "risky" : "ordinary");
 const fixed = (n: number | null, digits = 2) => (n === null ? "—" : n.toFixed(digits));
 
-/** The main result in words: the risky group furthest above the rest, or that none stands apart. */
-export function groupReading(groups: readonly GroupFigure[]): string {
-  const risky = groups.filter((g) => g.risky && !g.tooSmallToJudge && g.rateRatio.lower !== null);
-  if (risky.length === 0) return "No group stands apart: every group's interval reaches the rest of the route book's rate.";
-  const top = risky.reduce((a, b) => ((b.rateRatio.lower ?? 0) > (a.rateRatio.lower ?? 0) ? b : a));
-  const lower = top.rateRatio.lower!.toFixed(1);
-  if (top.rateRatio.estimate === null) {
-    return `${top.label}: at least ${lower} times the rest of the route book's rate (95%); the rest had no opening to compare with.`;
-  }
-  return `${top.label}: ${top.rateRatio.estimate.toFixed(1)} times the rest of the route book's rate (at least ${lower} times, 95%).`;
-}
-
 /** Episode openings per pool-year for each group, with its exact 95% interval. */
 export function GroupRateChart({ groups, dimension, overallRate }: { groups: GroupFigure[]; dimension: string; overallRate: number | null }) {
   const rows = useMemo(
     () =>
       groups
         .filter((g) => g.ratePerPoolYear.estimate !== null)
-        .map((g) => ({ ...g, flag: FLAG_WORDS[flagOf(g)], rate: g.ratePerPoolYear.estimate!, lower: g.ratePerPoolYear.lower ?? 0, upper: g.ratePerPoolYear.upper ?? 0 })),
+        .map((g) => ({
+          ...g,
+          flag: FLAG_WORDS[flagOf(g)],
+          rate: g.ratePerPoolYear.estimate!,
+          lower: g.ratePerPoolYear.lower ?? 0,
+          upper: g.ratePerPoolYear.upper ?? 0,
+        })),
     [groups],
   );
-  const layout = useMemo(() => labelledRows(rows.map((r) => r.label), { rowHeight: 36, minHeight: 160, maxMargin: 230 }), [rows]);
+  const layout = useMemo(
+    () =>
+      labelledRows(
+        rows.map((r) => r.label),
+        { rowHeight: 36, minHeight: 160, maxMargin: 230 },
+      ),
+    [rows],
+  );
   const plot = useMemo(
-    (): Plot.PlotOptions => ({
-      ...layout.options,
-      x: { label: "Episode openings per pool-year", grid: true, zero: true },
-      color: {
-        domain: Object.values(FLAG_WORDS),
-        range: [FLAG_COLOURS.risky, FLAG_COLOURS.ordinary, FLAG_COLOURS.small],
-        legend: true,
+    () =>
+      (width: number): Plot.PlotOptions => {
+        const labels = layout.at(width);
+        return {
+          ...labels.options,
+          x: { label: "Episode openings per pool-year", grid: true, zero: true },
+          color: {
+            domain: Object.values(FLAG_WORDS),
+            range: [FLAG_COLOURS.risky, FLAG_COLOURS.ordinary, FLAG_COLOURS.small],
+            legend: true,
+          },
+          symbol: { domain: Object.values(FLAG_WORDS), range: ["diamond", "circle", "times"] },
+          marks: [
+            ...labels.marks,
+            overallRate === null ? null : Plot.ruleX([overallRate], { stroke: "#5b6b6b", strokeDasharray: "4,3" }),
+            Plot.ruleY(rows, { y: "label", x1: "lower", x2: "upper", stroke: "flag", strokeWidth: 2 }),
+            Plot.dot(rows, {
+              y: "label",
+              x: "rate",
+              fill: "flag",
+              stroke: "flag",
+              symbol: "flag",
+              r: 5,
+              tip: true,
+              title: (d: (typeof rows)[number]) =>
+                `${d.label}: ${d.rate.toFixed(2)} per pool-year (95% ${d.lower.toFixed(2)} to ${d.upper.toFixed(2)})\n${d.openings} openings over ${d.poolYears.toFixed(1)} pool-years, ${d.pools} pools\nrate ratio ${fixed(d.rateRatio.estimate)} (${fixed(d.rateRatio.lower)} to ${d.rateRatio.upper === null ? "unbounded" : d.rateRatio.upper.toFixed(2)})\n${d.flag}`,
+            }),
+          ],
+        };
       },
-      symbol: { domain: Object.values(FLAG_WORDS), range: ["diamond", "circle", "times"] },
-      marks: [
-        overallRate === null ? null : Plot.ruleX([overallRate], { stroke: "#5b6b6b", strokeDasharray: "4,3" }),
-        Plot.ruleY(rows, { y: "label", x1: "lower", x2: "upper", stroke: "flag", strokeWidth: 2 }),
-        Plot.dot(rows, {
-          y: "label",
-          x: "rate",
-          fill: "flag",
-          stroke: "flag",
-          symbol: "flag",
-          r: 5,
-          tip: true,
-          title: (d: (typeof rows)[number]) =>
-            `${d.label}: ${d.rate.toFixed(2)} per pool-year (95% ${d.lower.toFixed(2)} to ${d.upper.toFixed(2)})\n${d.openings} openings over ${d.poolYears.toFixed(1)} pool-years, ${d.pools} pools\nrate ratio ${fixed(d.rateRatio.estimate)} (${fixed(d.rateRatio.lower)} to ${d.rateRatio.upper === null ? "unbounded" : d.rateRatio.upper.toFixed(2)})\n${d.flag}`,
-        }),
-      ],
-    }),
     [layout, rows, overallRate],
   );
   return (
     <PlotFigure
-      title={`Metal episodes per pool-year, by ${dimension.toLowerCase()}`}
+      title={`Which ${dimension.toLowerCase()} has more metal episodes than the rest? Metal episodes per pool-year, by ${dimension.toLowerCase()}`}
       caption="Dot: episode openings per pool-year observed; bar: exact 95% interval (Poisson). Dashed line: the whole route book's rate. Groups with fewer than 3 pools are shown but too small to judge."
       reading={groupReading(groups)}
       plot={plot}

@@ -4,6 +4,7 @@ import type { ArmFigures } from "~/.server/analytics/queries/treatment-outcomes"
 import { labelledRows } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { ARM_COLOURS } from "~/lib/analytics/colours";
+import { reductionReading, timeToClearReading } from "~/lib/analytics/chart-readings";
 
 export type ArmView = ArmFigures & { label: string };
 
@@ -47,7 +48,8 @@ export function TimeToClearChart({ arms, followUpDays }: { arms: ArmView[]; foll
   );
   return (
     <PlotFigure
-      title="Time to clear: share of courses with the metal still above the clear level (%)"
+      title="How soon did each treatment clear the metal? Time to clear: courses still above the clear level, by days after treatment (%)"
+      reading={timeToClearReading(arms, followUpDays)}
       caption={`Kaplan-Meier estimate over ${followUpDays} days; courses are no longer followed at the end of the window, at the end of the data, or when a different treatment starts.`}
       plot={plot}
       rows={rows}
@@ -73,31 +75,50 @@ export function ReductionChart({ arms }: { arms: ArmView[] }) {
     () =>
       arms
         .filter((a) => a.reduction.median !== null)
-        .map((a) => ({ arm: a.label, median: a.reduction.median!, count: a.reduction.count, judged: a.tooFewToCompare ? "Too few to compare" : "Enough pools" })),
+        .map((a) => ({
+          arm: a.label,
+          median: a.reduction.median!,
+          count: a.reduction.count,
+          judged: a.tooFewToCompare ? "Too few to compare" : "Enough pools",
+        })),
     [arms],
   );
-  const layout = useMemo(() => labelledRows(rows.map((r) => r.arm), { rowHeight: 34, minHeight: 140, maxMargin: 240 }), [rows]);
+  const layout = useMemo(
+    () =>
+      labelledRows(
+        rows.map((r) => r.arm),
+        { rowHeight: 34, minHeight: 140, maxMargin: 240 },
+      ),
+    [rows],
+  );
   const plot = useMemo(
-    (): Plot.PlotOptions => ({
-      ...layout.options,
-      x: { label: "Median fall at first follow-up (%)", grid: true },
-      color: { domain: ["Enough pools", "Too few to compare"], range: ["#22604f", "#9aa5a5"], legend: true },
-      marks: [
-        Plot.barX(rows, {
-          y: "arm",
-          x: "median",
-          fill: "judged",
-          tip: true,
-          title: (d: (typeof rows)[number]) => `${d.arm}: median fall ${d.median.toFixed(1)} % over ${d.count} courses\n${d.judged}`,
-        }),
-        Plot.ruleX([0]),
-      ],
-    }),
+    () =>
+      (width: number): Plot.PlotOptions => {
+        const labels = layout.at(width);
+        return {
+          ...labels.options,
+          x: { label: "Median fall at first follow-up (%)", grid: true },
+          color: { domain: ["Enough pools", "Too few to compare"], range: ["#22604f", "#9aa5a5"], legend: true },
+          marks: [
+            ...labels.marks,
+            Plot.barX(rows, {
+              y: "arm",
+              x: "median",
+              fill: "judged",
+              insetTop: labels.inset,
+              tip: true,
+              title: (d: (typeof rows)[number]) => `${d.arm}: median fall ${d.median.toFixed(1)} % over ${d.count} courses\n${d.judged}`,
+            }),
+            Plot.ruleX([0]),
+          ],
+        };
+      },
     [layout, rows],
   );
   return (
     <PlotFigure
-      title="Fall in the metal at the first follow-up, 3 to 10 days after treatment (median %)"
+      title="How far did each treatment bring the metal down? Median fall at the first follow-up, 3 to 10 days after treatment (%)"
+      reading={reductionReading(arms)}
       caption="Percent fall from the baseline reading (same visit or the 7 days before). Grey bars: fewer than 5 treated pools, too few to compare."
       plot={plot}
       rows={rows}
@@ -113,4 +134,3 @@ export function ReductionChart({ arms }: { arms: ArmView[] }) {
     />
   );
 }
-

@@ -6,6 +6,7 @@ import type { RouteBookSummary } from "~/.server/analytics/queries/route-book-su
 import { metalColourScale, metalSymbolScale } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { BALANCE_COLOURS } from "~/lib/analytics/colours";
+import { balanceReading, openEpisodesReading, percentText, worstMonthReading } from "~/lib/analytics/chart-readings";
 import { METAL_LABELS } from "@analysis/metals/names";
 
 export function OpenEpisodesChart({ open }: { open: Record<Metal, number> }) {
@@ -27,12 +28,8 @@ export function OpenEpisodesChart({ open }: { open: Record<Metal, number> }) {
   );
   return (
     <PlotFigure
-      title="Open metal episodes, by metal (pools)"
-      reading={
-        total === 0
-          ? "No pool has an open episode."
-          : `Most open: ${rows.reduce((a, b) => (b.open > a.open ? b : a)).metal.toLowerCase()}, ${Math.max(...rows.map((r) => r.open))} of ${total} open episodes.`
-      }
+      title="Which metal is open on the most pools? Open metal episodes, by metal (pools)"
+      reading={openEpisodesReading(open)}
       caption="An episode opens at a reading at or above the elevated level and stays open until a reading below the clear level."
       plot={plot}
       rows={total === 0 ? [] : rows}
@@ -79,7 +76,8 @@ export function BalanceChart({ balance }: { balance: RouteBookSummary["balance"]
   );
   return (
     <PlotFigure
-      title="Water balance at each pool's latest full test (saturation index, share of pools in %)"
+      title="Is the water balanced? Share of pools by saturation index at their latest full test (%)"
+      reading={balanceReading(balance)}
       caption="Saturation index from pH, temperature, calcium hardness and alkalinity corrected for cyanuric acid; the balanced band is the company's setting (common practice)."
       plot={plot}
       rows={total === 0 ? [] : rows}
@@ -96,15 +94,6 @@ export function BalanceChart({ balance }: { balance: RouteBookSummary["balance"]
 }
 
 type TrendRow = MonthlyMetalFigure & { label: string; at: Date; percent: number };
-
-const percentText = (share: number) => `${(share * 100).toFixed(share > 0 && share < 0.1 ? 1 : 0)}%`;
-
-/** The month and metal with the largest share of elevated readings, in words; null when none was elevated. */
-export function worstMonthReading(months: readonly MonthlyMetalFigure[]): string | null {
-  const worst = months.reduce<MonthlyMetalFigure | null>((top, m) => (m.elevated > 0 && (!top || m.elevatedShare > top.elevatedShare) ? m : top), null);
-  if (!worst) return null;
-  return `Worst month: ${METAL_LABELS[worst.metal].toLowerCase()} in ${worst.month}, ${percentText(worst.elevatedShare)} of ${worst.readings} tests at or above the elevated level, on ${worst.poolsElevated} pool${worst.poolsElevated === 1 ? "" : "s"}.`;
-}
 
 /** Per month and metal, the share of metal tests at or above the company's elevated level: a bad season stands out. */
 export function MetalTrendChart({ months }: { months: MonthlyMetalFigure[] }) {

@@ -6,6 +6,10 @@ import { isoDay, metalColourScale, metalLevels, metalSymbolScale, readingText, r
 import { PlotFigure } from "~/components/charts/plot-figure";
 import type { RecurringPool } from "@analysis/metals/recurring-finder";
 import { METAL_LABELS } from "@analysis/metals/names";
+import { recurringPoolReading } from "~/lib/analytics/chart-readings";
+
+const CHART_HEIGHT = 220;
+const FRAME_HEIGHT = CHART_HEIGHT - 20 - 30;
 
 type Point = { at: Date; metal: string; value: number; belowDetection: boolean };
 type Treatment = { poolId: number; appliedAt: string; productName: string; category: string };
@@ -47,6 +51,8 @@ export function RecurringPoolChart({
     const marks = treatments.map((t) => ({ ...t, at: new Date(t.appliedAt) }));
     return {
       marginLeft: 44,
+      marginTop: 20,
+      marginBottom: 30,
       x: { type: "utc", label: "Date" },
       y: { label: "mg/L", grid: true, zero: true },
       color: metalColourScale(shown),
@@ -70,7 +76,8 @@ export function RecurringPoolChart({
           x: "at",
           stroke: "#22604f",
           strokeWidth: 2,
-          insetTop: 190,
+          // A short tick at the foot of the frame (the chart less its 20 px top and 30 px bottom margins), above the date labels.
+          insetTop: FRAME_HEIGHT - 14,
           tip: true,
           title: (d: (typeof marks)[number]) => `${d.productName}\n${d.appliedAt.slice(0, 10)}`,
         }),
@@ -82,11 +89,12 @@ export function RecurringPoolChart({
     .join("; ");
   return (
     <PlotFigure
-      title={`${pool.street}: metal readings (mg/L)`}
+      title={`Did the metal come back at ${pool.street}? The pool's metal readings (mg/L) and treatments`}
+      reading={recurringPoolReading(pool.episodes, shown)}
       caption={`${summary}. Shaded: open episodes; dashed: elevated level, dotted: clear level; green ticks at the foot: treatments.`}
       plot={plot}
       rows={points}
-      height={220}
+      height={CHART_HEIGHT}
       csvName={`metal-readings-${pool.poolId}.csv`}
       columns={[
         { label: "Date", value: (r) => isoDay(r.at) },

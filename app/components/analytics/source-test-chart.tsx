@@ -1,14 +1,15 @@
 import * as Plot from "@observablehq/plot";
 import { useMemo } from "react";
-import { METALS, type MetalReading } from "@analysis/metals/reading";
+import { METALS, type MetalReading, type MetalThresholds } from "@analysis/metals/reading";
 import { metalColourScale, metalSymbolScale, readingText, readingTip } from "~/components/charts/chart-parts";
 import { PlotFigure } from "~/components/charts/plot-figure";
 import { METAL_LABELS } from "@analysis/metals/names";
+import { sourceTestReading } from "~/lib/analytics/chart-readings";
 
 type SourceTest = { sampledOn: string; copper: MetalReading | null; iron: MetalReading | null; manganese: MetalReading | null };
 
 /** Metals measured in one fill source's water, test by test. */
-export function SourceTestChart({ name, tests }: { name: string; tests: readonly SourceTest[] }) {
+export function SourceTestChart({ name, tests, thresholds }: { name: string; tests: readonly SourceTest[]; thresholds: MetalThresholds }) {
   const rows = useMemo(
     () =>
       tests.flatMap((t) =>
@@ -35,7 +36,8 @@ export function SourceTestChart({ name, tests }: { name: string; tests: readonly
   );
   return (
     <PlotFigure
-      title={`Metals in the fill water of ${name} (mg/L)`}
+      title={`Does this source bring metals in? Metals in the fill water of ${name} (mg/L)`}
+      reading={sourceTestReading(tests, thresholds)}
       caption="Each point is a test of the source water itself; hollow points read below the kit's detection limit."
       plot={plot}
       rows={rows}

@@ -1,4 +1,5 @@
 /** Pieces the Plot charts share: the metals' scales, reading text, levels and the layout of labelled rows. */
+import * as Plot from "@observablehq/plot";
 import type { PlotOptions, ScaleOptions } from "@observablehq/plot";
 import { METAL_LABELS } from "@analysis/metals/names";
 import { type Metal, type MetalThresholds, METALS } from "@analysis/metals/reading";
@@ -37,14 +38,38 @@ export function metalLevels(metals: readonly Metal[], thresholds: MetalThreshold
 
 /**
  * The layout of a chart with one row per label (groups, treatments): its
- * height, rows of `rowHeight` but no lower than `minHeight`, and the options
- * for a left margin wide enough for the shortened labels (up to `maxMargin`)
- * and the y scale of those labels.
+ * height, rows of `rowHeight` but no lower than `minHeight`, and at a given
+ * width the options and marks that place the labels. Where a left margin wide
+ * enough for the shortened labels (up to `maxMargin`) fits in 40% of the
+ * width, the labels sit there; on a narrower drawing (a phone) each label
+ * sits on its own line above its row, so the data keep most of the width.
+ * `inset` is the room a bar leaves at the top of its row for that line.
  */
 export function labelledRows(labels: readonly string[], { rowHeight, minHeight, maxMargin }: { rowHeight: number; minHeight: number; maxMargin: number }) {
-  const options: Pick<PlotOptions, "marginLeft" | "y"> = {
-    marginLeft: Math.min(maxMargin, Math.max(...labels.map((l) => shortLabel(l).length), 8) * 6.5),
-    y: { label: null, domain: [...labels], tickFormat: shortLabel },
+  const margin = Math.min(maxMargin, Math.max(...labels.map((l) => shortLabel(l).length), 8) * 6.5);
+  const domain = [...labels];
+  return {
+    height: Math.max(minHeight, rowHeight * labels.length + 60),
+    at(width: number): { options: Pick<PlotOptions, "marginLeft" | "y">; marks: Plot.Markish[]; inset: number } {
+      if (margin <= width * 0.4) return { options: { marginLeft: margin, y: { label: null, domain, tickFormat: shortLabel } }, marks: [], inset: 0 };
+      return {
+        options: { marginLeft: 8, y: { label: null, domain, axis: null } },
+        marks: [
+          Plot.text(domain, {
+            y: (d: string) => d,
+            text: shortLabel,
+            frameAnchor: "left",
+            textAnchor: "start",
+            dy: -Math.round(rowHeight * 0.32),
+            // A white edge keeps the label readable where grid lines cross it.
+            fill: "currentColor",
+            stroke: "white",
+            strokeWidth: 3,
+            paintOrder: "stroke",
+          }),
+        ],
+        inset: Math.round(rowHeight * 0.45),
+      };
+    },
   };
-  return { height: Math.max(minHeight, rowHeight * labels.length + 60), options };
 }

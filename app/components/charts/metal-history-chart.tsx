@@ -4,6 +4,7 @@ import { type Metal, type MetalThresholds, METALS } from "@analysis/metals/readi
 import { METAL_LABELS } from "@analysis/metals/names";
 import { isoDay, metalLevels, metalNames, readingText, readingTip } from "./chart-parts";
 import { PlotFigure } from "./plot-figure";
+import { indexReading, metalHistoryReading, phReading } from "~/lib/analytics/chart-readings";
 
 export type MetalPoint = { at: Date; metal: Metal; value: number; belowDetection: boolean };
 
@@ -14,7 +15,7 @@ export function MetalHistoryChart({ points, thresholds }: { points: MetalPoint[]
     const levelStroke = (d: { kind: string }) => (d.kind === "elevated" ? "#b3541e" : "#2f6fa7");
     return {
       marginLeft: 48,
-      x: { type: "utc", label: null },
+      x: { type: "utc", label: "Date" },
       // Each panel's name sits inside its top left corner: a facet axis at the right edge is cut off on a phone.
       y: { label: "mg/L", grid: true, zero: true, insetTop: 16 },
       fy: { label: null, domain: metalNames(), axis: null },
@@ -39,7 +40,8 @@ export function MetalHistoryChart({ points, thresholds }: { points: MetalPoint[]
   }, [points, thresholds]);
   return (
     <PlotFigure
-      title="Dissolved metals at each test (mg/L)"
+      title="Is any metal at the elevated level? Dissolved metals at each test (mg/L)"
+      reading={metalHistoryReading(points, thresholds)}
       caption="Dashed lines: orange at the company's elevated level, blue at its clear level. Hollow dots are below the kit's detection limit."
       plot={plot}
       rows={points}
@@ -74,7 +76,7 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
   const phPlot = useMemo(
     (): Plot.PlotOptions => ({
       marginLeft: 48,
-      x: { type: "utc", label: null },
+      x: { type: "utc", label: "Date" },
       y: { label: "pH", grid: true, domain: phDomain(ph.map((r) => r.value)) },
       marks: [
         Plot.lineY(ph, { x: "at", y: "value", stroke: "#1d2a2b" }),
@@ -86,7 +88,7 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
   const indexPlot = useMemo(
     (): Plot.PlotOptions => ({
       marginLeft: 48,
-      x: { type: "utc", label: null },
+      x: { type: "utc", label: "Date" },
       y: { label: "Saturation index", grid: true, domain: indexDomain(index.map((r) => r.value)) },
       marks: [
         Plot.rectY([{ y1: band.low, y2: band.high }], { y1: "y1", y2: "y2", fill: "#d3ebe3", fillOpacity: 0.6 }),
@@ -104,9 +106,6 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
     }),
     [index, band.low, band.high],
   );
-  const lastPh = ph.at(-1);
-  const lastIndex = index.at(-1);
-  const indexWord = (v: number) => (v < band.low ? "corrosive" : v > band.high ? "scale-forming" : "balanced");
   const columns = [
     { label: "Date", value: (r: { at: Date }) => isoDay(r.at) },
     { label: "Value", value: (r: { value: number }) => r.value.toFixed(2) },
@@ -114,9 +113,9 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
   return (
     <div className="grid gap-4 lg:grid-cols-2">
       <PlotFigure
-        title="pH at each test"
+        title="Is the pH in range? pH at each test"
         caption="Scale from 6.5 to 8.5, wider when a reading falls outside."
-        reading={lastPh ? `Latest pH ${lastPh.value} on ${isoDay(lastPh.at)}.` : undefined}
+        reading={phReading(ph)}
         plot={phPlot}
         rows={ph}
         height={220}
@@ -124,9 +123,9 @@ export function BalanceHistoryChart({ points, band }: { points: BalancePoint[]; 
         empty="No pH readings yet."
       />
       <PlotFigure
-        title="Saturation index at each test"
+        title="Is the water corrosive or scale-forming? Saturation index at each test"
         caption={`Shaded: balanced (${band.low} to +${band.high}); below is corrosive, above is scale-forming. The scale is centred on 0.`}
-        reading={lastIndex ? `Latest index ${lastIndex.value.toFixed(2)} on ${isoDay(lastIndex.at)}: ${indexWord(lastIndex.value)}.` : undefined}
+        reading={indexReading(index, band)}
         plot={indexPlot}
         rows={index}
         height={220}

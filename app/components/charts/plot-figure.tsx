@@ -7,7 +7,8 @@ export type TableColumn<Row> = { label: string; value: (row: Row) => string };
 
 /**
  * The one home of Observable Plot in Patina. The caller gives Plot options
- * (memoized, without width and height: this component sets them); this
+ * (memoized, without width and height: this component sets them), or a
+ * function of the width for charts laid out differently on a phone; this
  * component draws them after hydration at the available width, redraws on
  * resize, removes the old drawing on every change, and offers the same data
  * as a table for screen readers and for reading exact values.
@@ -28,8 +29,8 @@ export function PlotFigure<Row>({
   caption?: ReactNode;
   /** The chart's main result in one line of words, shown under it. */
   reading?: ReactNode;
-  /** Memoized by the caller: every new object redraws the chart. */
-  plot: PlotOptions;
+  /** Memoized by the caller: every new object redraws the chart. A function gets the drawing's width (a layout for phones). */
+  plot: PlotOptions | ((width: number) => PlotOptions);
   /** The rows behind the chart, shown in the table view. */
   rows: readonly Row[];
   columns: ReadonlyArray<TableColumn<Row>>;
@@ -59,13 +60,16 @@ export function PlotFigure<Row>({
     let drawn: Element | null = null;
     let cancelled = false;
     // Loaded in the browser only: Plot needs a document, and pages without charts stay light.
+    let tips: MutationObserver | null = null;
     void import("@observablehq/plot").then((Plot) => {
       if (cancelled) return;
-      drawn = Plot.plot({ ...plot, height, width });
+      drawn = Plot.plot({ ...(typeof plot === "function" ? plot(width) : plot), height, width });
       element.append(drawn);
+      tips = keepTipsInside(drawn);
     });
     return () => {
       cancelled = true;
+      tips?.disconnect();
       drawn?.remove();
     };
   }, [plot, width, rows, height]);
@@ -77,10 +81,12 @@ export function PlotFigure<Row>({
         {caption ? <span className="block text-sm text-muted">{caption}</span> : null}
       </figcaption>
       {rows.length === 0 ? (
-        <p className="py-6 text-center text-muted">{empty}</p>
+        <p className="py-6 text-center text-muted" data-chart-empty>
+          {empty}
+        </p>
       ) : (
         <>
-          <div ref={holder} aria-hidden={showTable} className="w-full overflow-hidden" style={{ minHeight: height }} />
+          <div ref={holder} aria-hidden={showTable} className="w-full overflow-hidden" style={{ minHeight: height }} data-chart-drawing />
           {reading ? (
             <p className="mt-2 text-sm font-medium" data-chart-reading>
               {reading}
@@ -125,6 +131,39 @@ export function PlotFigure<Row>({
       )}
     </figure>
   );
+}
+
+/**
+ * Plot places a tip beside its mark, but when the tip is wider than the room on
+ * either side (a long tip on a phone) it hangs past the drawing, where the
+ * holder cuts it off. Each time a tip appears (Plot draws a fresh one per
+ * pointer or tap, then shows it once measured), it is shifted back inside the
+ * drawing and the viewport.
+ */
+function keepTipsInside(drawn: Element): MutationObserver {
+  const place = () => {
+    for (const tip of drawn.querySelectorAll<SVGGElement>('g[aria-label="tip"]')) {
+      if (tip.getAttribute("visibility") === "hidden") continue;
+      const svg = tip.ownerSVGElement;
+      if (!svg) continue;
+      const frame = svg.getBoundingClientRect();
+      const scale = frame.width / (svg.width.baseVal.value || frame.width);
+      const left = Math.max(frame.left, 0);
+      const right = Math.min(frame.right, document.documentElement.clientWidth);
+      for (const box of tip.children) {
+        const at = (box as SVGGElement).dataset.at ?? box.getAttribute("transform") ?? "";
+        (box as SVGGElement).dataset.at = at;
+        box.setAttribute("transform", at);
+        const r = box.getBoundingClientRect();
+        const dx = r.left < left ? left - r.left : r.right > right ? Math.max(right - r.right, left - r.left) : 0;
+        const dy = r.top < frame.top ? frame.top - r.top : r.bottom > frame.bottom ? Math.max(frame.bottom - r.bottom, frame.top - r.top) : 0;
+        if (dx !== 0 || dy !== 0) box.setAttribute("transform", `${at} translate(${dx / scale},${dy / scale})`);
+      }
+    }
+  };
+  const observer = new MutationObserver(place);
+  observer.observe(drawn, { subtree: true, childList: true, attributes: true, attributeFilter: ["visibility"] });
+  return observer;
 }
 
 function downloadCsv<Row>(fileName: string, columns: ReadonlyArray<TableColumn<Row>>, rows: readonly Row[]) {
