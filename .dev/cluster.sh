@@ -37,6 +37,9 @@ database=${PATINA_CLUSTER_DATABASE:-patina}
 seed=${PATINA_CLUSTER_SEED:-1}
 fresh=${PATINA_CLUSTER_FRESH:-0}
 seed_args=${PATINA_CLUSTER_SEED_ARGS:-}
+# Uploaded files: every instance uses one bucket; the local fake store unless PATINA_S3_URL names a real one.
+s3_port=${PATINA_CLUSTER_S3_PORT:-34090}
+s3_url=${PATINA_S3_URL:-http://127.0.0.1:$s3_port}
 nodes=3
 db_user=patina
 db_password=patina-local
@@ -384,7 +387,7 @@ launch_app() {
   (
     cd "$repo"
     NODE_ENV=production PORT=$port DATABASE_URL=$database_url PATINA_URL="http://localhost:$http_port" \
-      PATINA_TRUSTED_PROXIES=1 \
+      PATINA_TRUSTED_PROXIES=1 PATINA_S3_URL=$s3_url \
       setsid nohup node server.mjs build/server/index.js </dev/null >>"$base/app$n.log" 2>&1 &
     echo $! >"$pids/app$n.pid"
   )
@@ -431,6 +434,19 @@ stop_pid() {
   rm -f "$file"
 }
 
+object_store() {
+  [ -z "${PATINA_S3_URL:-}" ] || return 0
+  PATINA_S3_PORT=$s3_port PATINA_S3_DIR=$base/s3 bash "$repo/.dev/object-store.sh" "$1"
+}
+
+node_modules_ready() {
+  # As `npm start` does: install when the lock file is newer than the last install.
+  if [ ! -f "$repo/node_modules/.package-lock.json" ] || [ "$repo/package-lock.json" -nt "$repo/node_modules/.package-lock.json" ]; then
+    say "installing node modules (npm ci)"
+    (cd "$repo" && npm ci --no-audit --no-fund)
+  fi
+}
+
 stop_all() {
   local n
   for file in "$pids"/app*.pid; do
@@ -441,6 +457,7 @@ stop_all() {
   stop_pid "$pids/haproxy.pid" "HAProxy"
   # The first node last: it is then the one marked safe to bootstrap the next start.
   for n in $(seq $nodes -1 1); do stop_pid "$pids/node$n.pid" "node$n"; done
+  object_store stop
 }
 
 print_topology() {
@@ -453,6 +470,7 @@ print_topology() {
     pid_alive "$pids/app$n.pid" && state="pid $(cat "$pids/app$n.pid")"
     echo "    app$n   http://127.0.0.1:$((app_port + n - 1))  $state"
   done
+  echo "  uploads $s3_url  (S3 API)"
   echo "  MariaDB 127.0.0.1:$db_port  (HAProxy: node1 writes, node2 and node3 stand by)  $database_url"
   for n in $(seq 1 $nodes); do
     state=stopped
@@ -468,6 +486,8 @@ case "${1:-start}" in
   start)
     mkdir -p "$base" "$pids"
     install_packages
+    node_modules_ready
+    object_store start
     start_nodes
     create_database
     start_haproxy
