@@ -1,6 +1,6 @@
 import { randomUUID } from "node:crypto";
 import { setTimeout as sleep } from "node:timers/promises";
-import { beforeAll, describe, expect, it } from "vitest";
+import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS } from "@analysis/metals/reading";
@@ -19,7 +19,7 @@ import { logVisit } from "~/.server/visits/commands/save-visit";
 import type { Scope } from "~/.server/scope";
 import type { VisitInput } from "~/lib/forms/visit";
 import { createFillSource } from "../fixtures/company";
-import { analystWithPools, postCheckForm, upload, useScratchUploadDir } from "./imports-helpers";
+import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
 
 const DAY = 86_400_000;
 const T0 = Date.UTC(2024, 2, 1, 12);
@@ -87,8 +87,6 @@ async function keptReady(companyId: number): Promise<number> {
   }
   throw new Error("the kept results were never built");
 }
-
-beforeAll(() => useScratchUploadDir());
 
 describe("kept analytics stay equal to a recomputation from the tests", () => {
   it("after every step of random visits, imports, undos and changes of levels", async () => {
