@@ -415,6 +415,18 @@ migrate_and_seed() {
   fi
 }
 
+# HAProxy marks an instance up only after its health checks pass: wait until the front end serves a page.
+wait_front_end() {
+  for _ in $(seq 1 150); do
+    if curl -fsS -o /dev/null "http://127.0.0.1:$http_port/sign-in" 2>/dev/null; then
+      say "HAProxy serves the instances on port $http_port"
+      return
+    fi
+    sleep 0.2
+  done
+  fail "HAProxy did not serve any instance on port $http_port within 30 s"
+}
+
 stop_pid() {
   local file=$1 name=$2 pid
   [ -f "$file" ] || return 0
@@ -496,6 +508,7 @@ case "${1:-start}" in
     launched=()
     for n in $(seq 1 "$apps"); do launch_app "$n" && launched+=("$n"); done
     for n in "${launched[@]}"; do wait_app "$n"; done
+    wait_front_end
     print_topology
     ;;
   stop) stop_all ;;
