@@ -68,15 +68,19 @@ export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal 
   // One pass over the metal readings, grouped in MariaDB by month and reading
   // (a few thousand rows however large the book); the percentiles are then
   // exact from those counts. A PERCENTILE_CONT window took seconds on 500k readings.
-  const [rows] = (await db().execute(sql`
+  const rowsQuery = db().execute(sql`
     SELECT ${monthOf} AS month,
       water_tests.copper, water_tests.copper_below_detection AS copper_bd, water_tests.iron, water_tests.iron_below_detection AS iron_bd,
       water_tests.manganese, water_tests.manganese_below_detection AS manganese_bd, COUNT(*) AS n
     FROM water_tests JOIN pools ON pools.id = water_tests.pool_id
     WHERE ${testsInScope({ scope }, window)} AND (${anyMetalMeasured(metals)})
     GROUP BY 1, 2, 3, 4, 5, 6, 7
-  `)) as unknown as [Array<Record<string, unknown>>];
-  const [poolRows] = (await poolsQuery) as unknown as [Array<Record<string, unknown>>];
+  `);
+  // Both reads are awaited together: a failure of one (a lost connection) must not leave the other's unheard.
+  const [[rows], [poolRows]] = (await Promise.all([rowsQuery, poolsQuery])) as unknown as [
+    [Array<Record<string, unknown>>],
+    [Array<Record<string, unknown>>],
+  ];
   const poolsElevated = new Map<string, number>(poolRows.flatMap((row) => metals.map((m) => [`${m}/${String(row.month)}`, Number(row[`${m}_pools`])] as const)));
   const buckets = new Map<string, Map<number, number>>();
   const elevatedCounts = new Map<string, number>();
