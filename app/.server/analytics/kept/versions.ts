@@ -5,6 +5,7 @@ import type { PoolConnection } from "mysql2/promise";
 import { METALS, type MetalThresholds } from "@analysis/metals/reading";
 import { isDuplicateKey } from "../../command-result";
 import { db, pool, type Database } from "../../db/client";
+import { retryTransaction } from "../../db/retry";
 import * as schema from "../../db/schema";
 import { companySettings } from "../../settings/queries/company-settings";
 import { lockPoolsForKeeping, poolTests, replaceKeptRows, type LiveVersion } from "./keep-pools";
@@ -127,34 +128,28 @@ function hasCode(error: unknown, code: string): boolean {
  * version in step themselves (see keepPoolsInStep).
  */
 async function buildVersion(companyId: number, version: LiveVersion, onProgress?: (poolsDone: number) => void): Promise<boolean> {
-  const connection = await pool().getConnection();
-  const writer = drizzle(connection as PoolConnection, {
-    schema,
-    mode: "default",
-  });
   let done = 0;
-  let deadlocks = 0;
   try {
     for (;;) {
-      try {
-        const finished = await buildChunk();
-        if (finished) return true;
-      } catch (error) {
-        await connection.rollback().catch(() => undefined);
-        // A chunk that lost a deadlock to a write is simply done again.
-        if (hasCode(error, "ER_LOCK_DEADLOCK") && ++deadlocks < 20) continue;
-        throw error;
-      }
+      // A chunk that lost a deadlock to a write, or its connection to a failover, is simply done again.
+      const built = await retryTransaction({ unit: "kept analytics build" }, () => buildChunk(companyId, version));
+      if (built === "finished") return true;
+      done += built;
+      onProgress?.(done);
     }
   } catch (error) {
     // Replaced while it ran: its row went, and with it any row a chunk could still add.
     if (error instanceof ClaimLost || hasCode(error, "ER_NO_REFERENCED_ROW_2")) return false;
     throw error;
-  } finally {
-    connection.release();
   }
+}
 
-  async function buildChunk(): Promise<boolean> {
+/** One transaction of a build: the next pools after the last chunk done, or the switch-over once none are left. */
+async function buildChunk(companyId: number, version: LiveVersion): Promise<number | "finished"> {
+  const connection = await pool().getConnection();
+  const writer = drizzle(connection as PoolConnection, { schema, mode: "default" });
+  let broken = false;
+  try {
     await connection.beginTransaction();
     // The version's row is written last in each chunk: a write locks its pools and then reads the
     // versions, so holding the row while waiting for pools could close a circle with it.
@@ -180,7 +175,7 @@ async function buildVersion(companyId: number, version: LiveVersion, onProgress?
       await connection.commit();
       // The rows of replaced versions go with them (the foreign keys cascade).
       await connection.query("DELETE FROM kept_versions WHERE company_id = ? AND state = 'retired'", [companyId]);
-      return true;
+      return "finished";
     }
     const ids = chunk.map((p) => p.id);
     await lockPoolsForKeeping(writer, ids);
@@ -192,8 +187,14 @@ async function buildVersion(companyId: number, version: LiveVersion, onProgress?
     )) as unknown as [{ affectedRows: number }];
     if (claim.affectedRows !== 1) throw new ClaimLost();
     await connection.commit();
-    done += ids.length;
-    onProgress?.(done);
-    return false;
+    return ids.length;
+  } catch (error) {
+    broken = true;
+    await connection.rollback().catch(() => undefined);
+    throw error;
+  } finally {
+    // A connection that failed half-way may be dead or mid-transaction: never hand it back.
+    if (broken) connection.destroy();
+    else connection.release();
   }
 }
