@@ -52,9 +52,9 @@ describe("the metal outlook", () => {
     await page.getByLabel("Metal").selectOption("iron");
     await page.getByRole("button", { name: "Show" }).click();
     await page.waitForURL(/metal=iron/);
-    const metals = await page.locator("[data-outlook-list] tbody tr td:nth-child(2)").allInnerTexts();
-    expect(metals.length).toBeGreaterThan(0);
-    expect(new Set(metals)).toEqual(new Set(["Iron"]));
+    // The address changes as the navigation starts; the list follows when the loader answers.
+    const metalCells = page.locator("[data-outlook-list] tbody tr td:nth-child(2)");
+    await expect.poll(async () => [...new Set(await metalCells.allInnerTexts())], { timeout: 30_000 }).toEqual(["Iron"]);
     await context.close();
   });
 
