@@ -2,12 +2,13 @@ import { randomUUID } from "node:crypto";
 import { setTimeout as sleep } from "node:timers/promises";
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
-import { eq } from "drizzle-orm";
+import { and, eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS } from "@analysis/metals/reading";
 import { keepCompanyCurrent } from "~/.server/analytics/kept/versions";
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { groupFigures } from "~/.server/analytics/queries/group-figures";
+import { metalTrend } from "~/.server/analytics/queries/metal-trend";
 import { recurringPools } from "~/.server/analytics/queries/recurring-pools";
 import { sharedSourceAlertList } from "~/.server/analytics/queries/shared-source-alerts";
 import { ALL_TIME } from "~/.server/analytics/queries/tenant-and-window";
@@ -35,13 +36,25 @@ const LEVEL_CHOICES = [
 const metalValue = fc.option(fc.constantFrom(0.05, 0.1, 0.2, 0.3, 0.5, 0.9), { nil: undefined, freq: 2 });
 
 type Step =
-  | { kind: "visit"; pool: number; day: number; copper?: number; iron?: number; manganese?: number }
+  | { kind: "visit"; pool: number; day: number; hour?: number; copper?: number; iron?: number; manganese?: number }
   | { kind: "import"; rows: Array<{ pool: number; day: number; copper?: number; iron?: number }> }
   | { kind: "undo" }
-  | { kind: "levels"; choice: number };
+  | { kind: "levels"; choice: number; timeZone: string };
 
 const step: fc.Arbitrary<Step> = fc.oneof(
-  { weight: 4, arbitrary: fc.record({ kind: fc.constant("visit" as const), pool: fc.nat(POOLS - 1), day: fc.nat(400), copper: metalValue, iron: metalValue, manganese: metalValue }) },
+  {
+    weight: 4,
+    arbitrary: fc.record({
+      kind: fc.constant("visit" as const),
+      pool: fc.nat(POOLS - 1),
+      day: fc.nat(400),
+      // Any hour of the day, so visits fall on both sides of a local midnight and of a month's end.
+      hour: fc.nat(23),
+      copper: metalValue,
+      iron: metalValue,
+      manganese: metalValue,
+    }),
+  },
   {
     weight: 2,
     arbitrary: fc.record({
@@ -50,7 +63,14 @@ const step: fc.Arbitrary<Step> = fc.oneof(
     }),
   },
   { weight: 1, arbitrary: fc.constant({ kind: "undo" as const }) },
-  { weight: 1, arbitrary: fc.record({ kind: fc.constant("levels" as const), choice: fc.nat(LEVEL_CHOICES.length - 1) }) },
+  {
+    weight: 1,
+    arbitrary: fc.record({
+      kind: fc.constant("levels" as const),
+      choice: fc.nat(LEVEL_CHOICES.length - 1),
+      timeZone: fc.constantFrom("UTC", "America/New_York", "Asia/Kolkata"),
+    }),
+  },
 );
 
 const reading = (value: number | undefined) => (value === undefined ? undefined : { value, belowDetection: false });
@@ -102,7 +122,8 @@ describe("kept analytics stay equal to a recomputation from the tests", () => {
         for (const s of steps) {
           if (s.kind === "visit") {
             // Each visit a little later than the last, as the day's work goes.
-            const saved = await logVisit(scope, poolIds[s.pool]!, visitInput(s), new Date(T0 + s.day * DAY + ++visitsAt * 1000));
+            const at = T0 + s.day * DAY + ((s.hour ?? 12) - 12) * 3_600_000 + ++visitsAt * 1000;
+            const saved = await logVisit(scope, poolIds[s.pool]!, visitInput(s), new Date(at));
             expect(saved.ok).toBe(true);
           } else if (s.kind === "import") {
             const sent = await upload(member, `${prefix}.csv`, importFile(prefix, s.rows));
@@ -130,10 +151,15 @@ describe("kept analytics stay equal to a recomputation from the tests", () => {
               balanceLow: -0.3,
               balanceHigh: 0.3,
               unitSystem: "us",
-              timeZone: "UTC",
+              timeZone: s.timeZone,
             });
             expect(saved.ok).toBe(true);
             await keptReady(scope.companyId);
+            const [version] = await db()
+              .select({ timeZone: keptVersions.timeZone })
+              .from(keptVersions)
+              .where(and(eq(keptVersions.companyId, scope.companyId), eq(keptVersions.state, "ready")));
+            expect(version?.timeZone).toBe(s.timeZone);
           }
           const check = await verifyKeptResults(scope.companyId);
           expect(check.versionId).not.toBeNull();
@@ -146,7 +172,9 @@ describe("kept analytics stay equal to a recomputation from the tests", () => {
 });
 
 async function poolIdsOf(companyId: number): Promise<number[]> {
-  const [rows] = (await db().execute(`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY account_code`)) as unknown as [Array<{ id: number }>];
+  const [rows] = (await db().execute(`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY account_code`)) as unknown as [
+    Array<{ id: number }>,
+  ];
   return rows.map((r) => r.id);
 }
 
@@ -159,9 +187,15 @@ describe("answers from kept results", () => {
     await db().update(pools).set({ fillSourceId: well }).where(eq(pools.companyId, scope.companyId));
     // pool 0: iron opens twice within a year (recurring); pool 1: copper stays up for 90 days (chronic); pool 2: clear
     const series: Array<[pool: number, day: number, values: Partial<Record<"copper" | "iron", number>>]> = [
-      [0, 0, { iron: 0.5 }], [0, 14, { iron: 0.05 }], [0, 100, { iron: 0.6 }], [0, 120, { iron: 0.05 }],
-      [1, 0, { copper: 0.9 }], [1, 45, { copper: 0.6 }], [1, 90, { copper: 0.5 }],
-      [2, 0, { iron: 0.05, copper: 0.05 }], [2, 30, { iron: 0.05 }],
+      [0, 0, { iron: 0.5 }],
+      [0, 14, { iron: 0.05 }],
+      [0, 100, { iron: 0.6 }],
+      [0, 120, { iron: 0.05 }],
+      [1, 0, { copper: 0.9 }],
+      [1, 45, { copper: 0.6 }],
+      [1, 90, { copper: 0.5 }],
+      [2, 0, { iron: 0.05, copper: 0.05 }],
+      [2, 30, { iron: 0.05 }],
     ];
     let n = 0;
     for (const [pool, day, values] of series) {
@@ -174,7 +208,16 @@ describe("answers from kept results", () => {
     const keptGroups = await groupFigures(owner, { ...params, metal: "iron", grouping: "route" });
     const keptRecurring = await recurringPools(owner, { ...params, metal: null });
     const keptAlerts = await sharedSourceAlertList(owner, { ...params, metal: "iron" });
+    const keptTrend = await metalTrend(owner, ALL_TIME, null, DEFAULT_METAL_THRESHOLDS);
     expect(kept.source).toBe("kept");
+    expect(keptTrend.source).toBe("kept");
+    // March 2024 holds four iron readings: 0.5 and 0.05 on pool 0 (days 0 and 14), 0.05 twice on pool 2 (days 0 and 30).
+    expect(keptTrend.months.find((m) => m.metal === "iron" && m.month === "2024-03")).toMatchObject({
+      readings: 4,
+      elevated: 1,
+      poolsElevated: 1,
+      max: 0.5,
+    });
     expect(kept.recurringPools).toBe(1);
     expect(kept.chronicPools).toBe(1);
     expect(kept.openEpisodes).toEqual({ copper: 1, iron: 0, manganese: 0 });
@@ -185,6 +228,9 @@ describe("answers from kept results", () => {
     const recomputedGroups = await groupFigures(owner, { ...params, metal: "iron", grouping: "route" });
     const recomputedRecurring = await recurringPools(owner, { ...params, metal: null });
     const recomputedAlerts = await sharedSourceAlertList(owner, { ...params, metal: "iron" });
+    const recomputedTrend = await metalTrend(owner, ALL_TIME, null, DEFAULT_METAL_THRESHOLDS);
+    expect(recomputedTrend.source).toBe("recomputed");
+    expect({ ...keptTrend, source: null }).toEqual({ ...recomputedTrend, source: null });
     expect(recomputed.source).toBe("recomputed");
     expect({ ...kept, source: null }).toEqual({ ...recomputed, source: null });
     expect(keptGroups.source).toBe("kept");

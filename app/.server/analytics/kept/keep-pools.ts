@@ -1,5 +1,6 @@
 import { sql, type SQL } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
+import { keptMonthsOf, monthValueChanges, type KeptMonthValue, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { PoolConnection } from "mysql2/promise";
 import type { Database } from "../../db/client";
@@ -16,7 +17,11 @@ async function rowsOf(writer: Writer, statement: SQL): Promise<Row[]> {
   return rows;
 }
 
-const idList = (ids: readonly number[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `);
+const idList = (ids: readonly number[]) =>
+  sql.join(
+    ids.map((id) => sql`${id}`),
+    sql`, `,
+  );
 
 /**
  * Locks the pools a write is about to change, in id order, before it changes
@@ -30,7 +35,7 @@ export async function lockPoolsForKeeping(writer: Writer, poolIds: readonly numb
   }
 }
 
-export type LiveVersion = { id: number; levels: MetalThresholds };
+export type LiveVersion = { id: number; levels: MetalThresholds; timeZone: string };
 
 /**
  * The company's versions that writes keep in step: the one answers come from
@@ -40,9 +45,13 @@ export type LiveVersion = { id: number; levels: MetalThresholds };
 export async function liveVersions(writer: Writer, companyId: number): Promise<LiveVersion[]> {
   const rows = await rowsOf(
     writer,
-    sql`SELECT id, levels FROM kept_versions WHERE company_id = ${companyId} AND state IN ('building', 'ready') ORDER BY id LOCK IN SHARE MODE`,
+    sql`SELECT id, levels, time_zone FROM kept_versions WHERE company_id = ${companyId} AND state IN ('building', 'ready') ORDER BY id LOCK IN SHARE MODE`,
   );
-  return rows.map((r) => ({ id: Number(r.id), levels: (typeof r.levels === "string" ? JSON.parse(r.levels) : r.levels) as MetalThresholds }));
+  return rows.map((r) => ({
+    id: Number(r.id),
+    levels: (typeof r.levels === "string" ? JSON.parse(r.levels) : r.levels) as MetalThresholds,
+    timeZone: String(r.time_zone),
+  }));
 }
 
 /**
@@ -53,8 +62,18 @@ export async function liveVersions(writer: Writer, companyId: number): Promise<L
 /** The driver's own connection (or pool), for the large reads: rows as arrays, dates and decimals parsed by the driver. */
 export type RawReader = Pick<PoolConnection, "query">;
 
-type TestRow = [id: number, poolId: number, sampledAt: Date | string, copper: number | null, copperBelow: number, iron: number | null,
-  ironBelow: number, manganese: number | null, manganeseBelow: number, balanceComplete: number];
+type TestRow = [
+  id: number,
+  poolId: number,
+  sampledAt: Date | string,
+  copper: number | null,
+  copperBelow: number,
+  iron: number | null,
+  ironBelow: number,
+  manganese: number | null,
+  manganeseBelow: number,
+  balanceComplete: number,
+];
 
 export async function poolTests(source: Writer | RawReader, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
   if (poolIds.length === 0) return [];
@@ -68,7 +87,9 @@ export async function poolTests(source: Writer | RawReader, companyId: number, p
   if (typeof (source as Partial<RawReader>).query === "function") {
     [rows] = (await (source as RawReader).query({ sql: statement, rowsAsArray: true }, params)) as unknown as [TestRow[]];
   } else {
-    const [objects] = (await (source as Writer).execute(sql.raw(statement.replace(/\?/g, () => String(Number(params.shift())))))) as unknown as [Row[]];
+    const [objects] = (await (source as Writer).execute(sql.raw(statement.replace(/\?/g, () => String(Number(params.shift())))))) as unknown as [
+      Row[],
+    ];
     rows = objects.map((r) => Object.values(r) as TestRow);
   }
   return rows.map(([id, poolId, sampledAt, copper, copperBelow, iron, ironBelow, manganese, manganeseBelow, balanceComplete]) => ({
@@ -99,21 +120,81 @@ async function insertSpans(writer: Writer, versionId: number, companyId: number,
   for (let from = 0; from < spans.length; from += 1000) {
     const values = spans
       .slice(from, from + 1000)
-      .map((s) => sql`(${versionId}, ${Number(s.poolId)}, ${s.readAs}, ${companyId}, ${at(s.firstTestAt)}, ${at(s.lastTestAt)}, ${s.tests}, ${at(s.latestBalanceAt ?? null)})`);
-    await writer.execute(sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at) VALUES ${sql.join(values, sql`, `)}`);
+      .map(
+        (s) =>
+          sql`(${versionId}, ${Number(s.poolId)}, ${s.readAs}, ${companyId}, ${at(s.firstTestAt)}, ${at(s.lastTestAt)}, ${s.tests}, ${at(s.latestBalanceAt ?? null)})`,
+      );
+    await writer.execute(
+      sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at) VALUES ${sql.join(values, sql`, `)}`,
+    );
+  }
+}
+
+const parsedCounts = (value: unknown) => (typeof value === "string" ? JSON.parse(value) : value) as KeptMonthValue[];
+
+/** The pools' month rows as last kept: a locking read, so it sees what the write before this one kept. */
+async function monthsKept(writer: Writer, versionId: number, ids: SQL): Promise<KeptPoolMonth[]> {
+  const rows = await rowsOf(
+    writer,
+    sql`SELECT pool_id, metal, month, readings, elevated, days, reading_counts FROM kept_pool_months WHERE pool_id IN (${ids}) AND version_id = ${versionId} FOR UPDATE`,
+  );
+  return rows.map((r) => ({
+    poolId: String(r.pool_id),
+    metal: r.metal as KeptPoolMonth["metal"],
+    month: String(r.month),
+    readings: Number(r.readings),
+    elevated: Number(r.elevated),
+    days: Number(r.days),
+    values: parsedCounts(r.reading_counts),
+  }));
+}
+
+async function insertMonths(writer: Writer, versionId: number, companyId: number, months: readonly KeptPoolMonth[]) {
+  for (let from = 0; from < months.length; from += 1000) {
+    const values = months
+      .slice(from, from + 1000)
+      .map(
+        (m) =>
+          sql`(${versionId}, ${Number(m.poolId)}, ${m.metal}, ${m.month}, ${companyId}, ${m.readings}, ${m.elevated}, ${m.days}, ${JSON.stringify(m.values)})`,
+      );
+    await writer.execute(sql`INSERT INTO kept_pool_months (version_id, pool_id, metal, month, company_id, readings, elevated, days, reading_counts)
+      VALUES ${sql.join(values, sql`, `)}`);
+  }
+}
+
+/** Adds the changes to the company's month histogram, in key order so two writes take the rows' locks in one order. */
+async function changeMonthValues(writer: Writer, versionId: number, companyId: number, changes: readonly MonthValueChange[]) {
+  for (let from = 0; from < changes.length; from += 1000) {
+    const values = changes
+      .slice(from, from + 1000)
+      .map((c) => sql`(${versionId}, ${c.metal}, ${c.month}, ${c.value}, ${c.belowDetection}, ${companyId}, ${c.n})`);
+    await writer.execute(sql`INSERT INTO kept_month_values (version_id, metal, month, value, below_detection, company_id, n)
+      VALUES ${sql.join(values, sql`, `)} ON DUPLICATE KEY UPDATE n = n + VALUES(n)`);
   }
 }
 
 /** Replaces one version's kept rows of these pools with those worked out from their tests. */
-export async function replaceKeptRows(writer: Writer, companyId: number, version: LiveVersion, poolIds: readonly number[], tests: readonly KeptInputTest[]) {
+export async function replaceKeptRows(
+  writer: Writer,
+  companyId: number,
+  version: LiveVersion,
+  poolIds: readonly number[],
+  tests: readonly KeptInputTest[],
+) {
+  const monthsBefore: KeptPoolMonth[] = [];
   for (let from = 0; from < poolIds.length; from += 1000) {
     const ids = idList(poolIds.slice(from, from + 1000));
+    monthsBefore.push(...(await monthsKept(writer, version.id, ids)));
     await writer.execute(sql`DELETE FROM kept_episodes WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
     await writer.execute(sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
+    await writer.execute(sql`DELETE FROM kept_pool_months WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
   }
   const rows = keptRowsOf(tests, version.levels);
+  const months = keptMonthsOf(tests, version.levels, version.timeZone);
   await insertEpisodes(writer, version.id, companyId, rows.episodes);
   await insertSpans(writer, version.id, companyId, rows.spans);
+  await insertMonths(writer, version.id, companyId, months);
+  await changeMonthValues(writer, version.id, companyId, monthValueChanges(monthsBefore, months));
 }
 
 /**

@@ -1,10 +1,11 @@
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { and, asc, count, eq, gt, inArray } from "drizzle-orm";
 import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@analysis/metals/episodes";
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
-import type { MetalThresholds } from "@analysis/metals/reading";
+import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { serverEnv } from "../../env";
-import { keptEpisodes, keptPoolSpans, pools } from "../../db/schema";
+import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools } from "../../db/schema";
+import type { Scope } from "../../scope";
 import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
 import { readyVersionFor } from "./versions";
 
@@ -23,7 +24,11 @@ export async function keptVersionFor(companyId: number, request: { window?: Time
 }
 
 /** Tenant rows of a kept table: the company and, for a member's Scope, their pools (joined). */
-function keptRowsOfTenant(tenant: Tenant, poolIds: readonly number[] | undefined, poolColumn: typeof keptEpisodes.poolId | typeof keptPoolSpans.poolId) {
+function keptRowsOfTenant(
+  tenant: Tenant,
+  poolIds: readonly number[] | undefined,
+  poolColumn: typeof keptEpisodes.poolId | typeof keptPoolSpans.poolId,
+) {
   return and(tenantCondition(tenant), poolIds ? inArray(poolColumn, [...poolIds]) : undefined);
 }
 
@@ -98,10 +103,43 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
 
 /** The metal history of the tenant's pools (or some of them) as kept, read one way. */
 export async function keptMetalHistory(tenant: Tenant, versionId: number, readAs: ReadAs, poolIds?: readonly number[]): Promise<MetalHistory> {
-  const [episodes, spans] = await Promise.all([
-    keptEpisodeList(tenant, versionId, readAs, poolIds),
-    keptSpans(tenant, versionId, readAs, poolIds),
-  ]);
+  const [episodes, spans] = await Promise.all([keptEpisodeList(tenant, versionId, readAs, poolIds), keptSpans(tenant, versionId, readAs, poolIds)]);
   const observed = spans.map(({ poolId, firstTestAt, lastTestAt, tests }) => ({ poolId, firstTestAt, lastTestAt, tests }));
   return historyFromKept(episodes, observed, metalsReadAs(readAs));
+}
+
+/**
+ * The kept version that can answer a company-wide monthly question in this
+ * time zone, or null: the monthly rows are the company's (not a member's
+ * routes) and use the local months of the zone they were built in.
+ */
+export async function keptMonthlyVersionFor(scope: Scope, request: { window?: TimeWindow; thresholds: MetalThresholds }): Promise<number | null> {
+  if (scope.routeIds !== null) return null;
+  const versionId = await keptVersionFor(scope.companyId, request);
+  if (versionId === null) return null;
+  const [version] = await db().select({ timeZone: keptVersions.timeZone }).from(keptVersions).where(eq(keptVersions.id, versionId));
+  return version?.timeZone === scope.timeZone ? versionId : null;
+}
+
+/** The company's readings of the metals per local month, as counts of each value. */
+export function keptMonthValueCounts(versionId: number, metals: readonly Metal[]) {
+  return db()
+    .select({
+      metal: keptMonthValues.metal,
+      month: keptMonthValues.month,
+      value: keptMonthValues.value,
+      belowDetection: keptMonthValues.belowDetection,
+      n: keptMonthValues.n,
+    })
+    .from(keptMonthValues)
+    .where(and(eq(keptMonthValues.versionId, versionId), gt(keptMonthValues.n, 0), inArray(keptMonthValues.metal, [...metals])));
+}
+
+/** Per metal and local month, the pools with at least one reading at or above the elevated level. */
+export function keptPoolsElevatedByMonth(versionId: number, metals: readonly Metal[]) {
+  return db()
+    .select({ metal: keptPoolMonths.metal, month: keptPoolMonths.month, pools: count() })
+    .from(keptPoolMonths)
+    .where(and(eq(keptPoolMonths.versionId, versionId), gt(keptPoolMonths.elevated, 0), inArray(keptPoolMonths.metal, [...metals])))
+    .groupBy(keptPoolMonths.metal, keptPoolMonths.month);
 }

@@ -1,11 +1,17 @@
 import { sql } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptSpan } from "@analysis/metals/kept-history";
+import { keptMonthsOf, type KeptMonthValue, type KeptPoolMonth } from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import { db, pool } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { poolTests } from "./keep-pools";
 
-export type KeptDifference = { table: "kept_episodes" | "kept_pool_spans"; key: string; kept: string | null; recomputed: string | null };
+export type KeptDifference = {
+  table: "kept_episodes" | "kept_pool_spans" | "kept_pool_months" | "kept_month_values";
+  key: string;
+  kept: string | null;
+  recomputed: string | null;
+};
 
 export type KeptCheck = {
   companyId: number;
@@ -14,12 +20,18 @@ export type KeptCheck = {
   tests: number;
   episodes: number;
   spans: number;
+  months: number;
   differences: KeptDifference[];
 };
 
 const ms = (value: unknown) => (value === null || value === undefined ? null : utcDate(value)!.getTime());
 
-function episodeLine(e: Pick<KeptEpisode, "metal" | "openedAt" | "openedByTestId" | "closedAt" | "closedByTestId" | "endAt" | "peak" | "testCount" | "chronic" | "recurrence">) {
+function episodeLine(
+  e: Pick<
+    KeptEpisode,
+    "metal" | "openedAt" | "openedByTestId" | "closedAt" | "closedByTestId" | "endAt" | "peak" | "testCount" | "chronic" | "recurrence"
+  >,
+) {
   return [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join(" ");
 }
 
@@ -33,6 +45,43 @@ function compare(table: KeptDifference["table"], kept: Map<string, string>, reco
   for (const [key, line] of kept) if (!recomputed.has(key)) into.push({ table, key, kept: line, recomputed: null });
 }
 
+const valuesLine = (values: readonly KeptMonthValue[]) => values.map((v) => `${v.value}${v.belowDetection ? "<" : ""}x${v.n}`).join(",");
+const monthLine = (m: Pick<KeptPoolMonth, "readings" | "elevated" | "days" | "values">) =>
+  `${m.readings} ${m.elevated} ${m.days} ${valuesLine(m.values)}`;
+
+/** The version's month rows and month histogram against those counted from the tests; returns how many month rows are kept. */
+async function compareMonths(versionId: number, expected: readonly KeptPoolMonth[], into: KeptDifference[]): Promise<number> {
+  const [monthRows] = (await db().execute(
+    sql`SELECT pool_id, metal, month, readings, elevated, days, reading_counts FROM kept_pool_months WHERE version_id = ${versionId}`,
+  )) as unknown as [Array<Record<string, unknown>>];
+  const [valueRows] = (await db().execute(
+    sql`SELECT metal, month, value, below_detection, n FROM kept_month_values WHERE version_id = ${versionId} AND n <> 0`,
+  )) as unknown as [Array<Record<string, unknown>>];
+  const keptMonths = new Map(
+    monthRows.map((r) => [
+      `${String(r.pool_id)}/${String(r.metal)}/${String(r.month)}`,
+      monthLine({
+        readings: Number(r.readings),
+        elevated: Number(r.elevated),
+        days: Number(r.days),
+        values: (typeof r.reading_counts === "string" ? JSON.parse(r.reading_counts) : r.reading_counts) as KeptMonthValue[],
+      }),
+    ]),
+  );
+  compare("kept_pool_months", keptMonths, new Map(expected.map((m) => [`${m.poolId}/${m.metal}/${m.month}`, monthLine(m)])), into);
+  const valueKey = (metal: unknown, month: unknown, value: unknown, below: unknown) =>
+    `${String(metal)}/${String(month)}/${Number(value)}${below ? "<" : ""}`;
+  const keptValues = new Map(valueRows.map((r) => [valueKey(r.metal, r.month, r.value, Number(r.below_detection) === 1), String(r.n)]));
+  const counted = new Map<string, number>();
+  for (const m of expected)
+    for (const v of m.values) {
+      const key = valueKey(m.metal, m.month, v.value, v.belowDetection);
+      counted.set(key, (counted.get(key) ?? 0) + v.n);
+    }
+  compare("kept_month_values", keptValues, new Map([...counted].map(([key, n]) => [key, String(n)])), into);
+  return keptMonths.size;
+}
+
 /**
  * Compares a company's kept results (the version answers come from) with the
  * same rows worked out again from every one of its tests. No differences is
@@ -40,12 +89,14 @@ function compare(table: KeptDifference["table"], kept: Map<string, string>, reco
  */
 export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   const [versions] = (await db().execute(
-    sql`SELECT id, levels FROM kept_versions WHERE company_id = ${companyId} AND state = 'ready' ORDER BY id DESC LIMIT 1`,
-  )) as unknown as [Array<{ id: number; levels: string | MetalThresholds }>];
+    sql`SELECT id, levels, time_zone FROM kept_versions WHERE company_id = ${companyId} AND state = 'ready' ORDER BY id DESC LIMIT 1`,
+  )) as unknown as [Array<{ id: number; levels: string | MetalThresholds; time_zone: string }>];
   const version = versions[0];
-  if (!version) return { companyId, versionId: null, pools: 0, tests: 0, episodes: 0, spans: 0, differences: [] };
+  if (!version) return { companyId, versionId: null, pools: 0, tests: 0, episodes: 0, spans: 0, months: 0, differences: [] };
   const levels = typeof version.levels === "string" ? (JSON.parse(version.levels) as MetalThresholds) : version.levels;
-  const [poolRows] = (await db().execute(sql`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY id`)) as unknown as [Array<{ id: number }>];
+  const [poolRows] = (await db().execute(sql`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY id`)) as unknown as [
+    Array<{ id: number }>,
+  ];
   const poolIds = poolRows.map((p) => p.id);
   const tests = await poolTests(pool(), companyId, poolIds, false);
   const expected = keptRowsOf(tests, levels);
@@ -93,5 +144,15 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   const differences: KeptDifference[] = [];
   compare("kept_episodes", keptEpisodes, recomputedEpisodes, differences);
   compare("kept_pool_spans", keptSpans, recomputedSpans, differences);
-  return { companyId, versionId: version.id, pools: poolIds.length, tests: tests.length, episodes: keptEpisodes.size, spans: keptSpans.size, differences };
+  const months = await compareMonths(version.id, keptMonthsOf(tests, levels, version.time_zone), differences);
+  return {
+    companyId,
+    versionId: version.id,
+    pools: poolIds.length,
+    tests: tests.length,
+    episodes: keptEpisodes.size,
+    spans: keptSpans.size,
+    months,
+    differences,
+  };
 }

@@ -21,18 +21,19 @@ export function sameLevels(a: MetalThresholds, b: MetalThresholds): boolean {
   return METALS.every((m) => a[m].elevated === b[m].elevated && a[m].clear === b[m].clear);
 }
 
-type VersionRow = {
-  id: number;
-  levels: MetalThresholds;
-  state: "building" | "ready" | "retired";
-  claimExpiresAt: Date | null;
-};
+/** What a version's rows are worked out with: the levels, and the time zone whose months the monthly rows use. */
+type Basis = { levels: MetalThresholds; timeZone: string };
+
+const sameBasis = (a: Basis, b: Basis) => sameLevels(a.levels, b.levels) && a.timeZone === b.timeZone;
+
+type VersionRow = { id: number; levels: MetalThresholds; timeZone: string; state: "building" | "ready" | "retired"; claimExpiresAt: Date | null };
 
 async function versionsOf(database: Pick<Database, "select">, companyId: number): Promise<VersionRow[]> {
   return database
     .select({
       id: schema.keptVersions.id,
       levels: schema.keptVersions.levels,
+      timeZone: schema.keptVersions.timeZone,
       state: schema.keptVersions.state,
       claimExpiresAt: schema.keptVersions.claimExpiresAt,
     })
@@ -71,11 +72,11 @@ export async function keepCompanyCurrent(
 ): Promise<number | null> {
   const settings = await companySettings(companyId);
   if (!settings) return null;
-  const levels = settings.thresholds;
-  const claimed = await claimBuild(companyId, levels, options.rebuild === true);
+  const basis = { levels: settings.thresholds, timeZone: settings.timeZone };
+  const claimed = await claimBuild(companyId, basis, options.rebuild === true);
   if (!claimed) return null;
   if (!claimed.build) return claimed.id;
-  return (await buildVersion(companyId, { id: claimed.id, levels }, options.onProgress)) ? claimed.id : null;
+  return (await buildVersion(companyId, { id: claimed.id, ...basis }, options.onProgress)) ? claimed.id : null;
 }
 
 /**
@@ -84,11 +85,11 @@ export async function keepCompanyCurrent(
  * otherwise a new build starts, and the unique building slot lets only one
  * instance start it. Returns null when another instance is building.
  */
-async function claimBuild(companyId: number, levels: MetalThresholds, rebuild: boolean): Promise<{ id: number; build: boolean } | null> {
+async function claimBuild(companyId: number, basis: Basis, rebuild: boolean): Promise<{ id: number; build: boolean } | null> {
   const versions = await versionsOf(db(), companyId);
-  const ready = versions.find((v) => v.state === "ready" && sameLevels(v.levels, levels));
+  const ready = versions.find((v) => v.state === "ready" && sameBasis(v, basis));
   if (ready && !rebuild) return { id: ready.id, build: false };
-  const resumable = (v: VersionRow) => v.state === "building" && sameLevels(v.levels, levels) && !rebuild;
+  const resumable = (v: VersionRow) => v.state === "building" && sameBasis(v, basis) && !rebuild;
   const building = versions.find(resumable);
   if (building) {
     const [result] = (await db().execute(
@@ -101,8 +102,8 @@ async function claimBuild(companyId: number, levels: MetalThresholds, rebuild: b
   for (const v of versions) if (v.state === "building") await db().execute(sql`DELETE FROM kept_versions WHERE id = ${v.id} AND state = 'building'`);
   try {
     const [inserted] = (await db().execute(
-      sql`INSERT INTO kept_versions (company_id, levels, state, claimed_by, claim_expires_at, building_slot)
-        VALUES (${companyId}, ${JSON.stringify(levels)}, 'building', ${instanceName}, NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND, 1)`,
+      sql`INSERT INTO kept_versions (company_id, levels, time_zone, state, claimed_by, claim_expires_at, building_slot)
+        VALUES (${companyId}, ${JSON.stringify(basis.levels)}, ${basis.timeZone}, 'building', ${instanceName}, NOW(3) + INTERVAL ${CLAIM_MS / 1000} SECOND, 1)`,
     )) as unknown as [{ insertId: number }];
     return { id: inserted.insertId, build: true };
   } catch (error) {

@@ -2,6 +2,7 @@ import { sql } from "drizzle-orm";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import type { Scope } from "../../scope";
+import { keptMonthlyVersionFor, keptMonthValueCounts, keptPoolsElevatedByMonth, type AnswerSource } from "../kept/read-kept";
 import { anyMetalMeasured } from "./metal-readings";
 import { testsInScope, type TimeWindow } from "./tenant-and-window";
 import { percentileOfCounts } from "@analysis/stats/percentile-of-counts";
@@ -23,7 +24,7 @@ export type MonthlyMetalFigure = {
   poolsElevated: number;
 };
 
-export type MetalTrend = { months: MonthlyMetalFigure[]; belowDetectionRule: string };
+export type MetalTrend = { source: AnswerSource; months: MonthlyMetalFigure[]; belowDetectionRule: string };
 
 /** Minutes the zone is ahead of UTC at one instant (negative west of Greenwich). */
 function utcOffsetMinutes(timeZone: string, at: Date): number {
@@ -41,17 +42,18 @@ function utcOffsetMinutes(timeZone: string, at: Date): number {
   return Math.round((local - Math.floor(at.getTime() / 60_000) * 60_000) / 60_000);
 }
 
+type MonthValueCount = { metal: Metal; month: string; value: number; belowDetection: boolean; n: number };
+type MonthlyCounts = { values: MonthValueCount[]; poolsElevated: Map<string, number> };
+
 /**
- * For each metal and month: how many readings, how many of them at or above
- * the elevated level (and on how many pools), and the median and
- * interquartile spread across the route
- * book, from per-reading counts grouped in MariaDB rather than the readings.
- * A "<x" reading counts as x/2, a common substitution for values below a
- * detection limit (US EPA, Guidance for Data Quality Assessment QA/G-9, 4.7).
+ * Per metal and month, the count of each reading and the pools with one at
+ * or above the elevated level, from the tests: grouped in MariaDB by month and
+ * reading (a few thousand rows however large the book). A PERCENTILE_CONT
+ * window took seconds on 500k readings. Months are those of the zone's UTC
+ * offset at the window's end.
  */
-export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal | null, thresholds: MetalThresholds): Promise<MetalTrend> {
+async function countsFromTests(scope: Scope, window: TimeWindow, metals: readonly Metal[], thresholds: MetalThresholds): Promise<MonthlyCounts> {
   const offset = utcOffsetMinutes(scope.timeZone, window.to ?? new Date());
-  const metals = metal ? [metal] : METALS;
   const monthOf = sql`DATE_FORMAT(water_tests.sampled_at + INTERVAL ${offset} MINUTE, '%Y-%m')`;
   const elevatedReading = (m: Metal) =>
     sql`${sql.raw(`water_tests.${m}`)} >= ${thresholds[m].elevated} AND ${sql.raw(`water_tests.${m}_below_detection`)} = 0`;
@@ -65,9 +67,6 @@ export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal 
     WHERE ${testsInScope({ scope }, window)} AND (${anyMetalMeasured(metals)})
     GROUP BY 1
   `);
-  // One pass over the metal readings, grouped in MariaDB by month and reading
-  // (a few thousand rows however large the book); the percentiles are then
-  // exact from those counts. A PERCENTILE_CONT window took seconds on 500k readings.
   const rowsQuery = db().execute(sql`
     SELECT ${monthOf} AS month,
       water_tests.copper, water_tests.copper_below_detection AS copper_bd, water_tests.iron, water_tests.iron_below_detection AS iron_bd,
@@ -81,20 +80,45 @@ export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal 
     [Array<Record<string, unknown>>],
     [Array<Record<string, unknown>>],
   ];
-  const poolsElevated = new Map<string, number>(poolRows.flatMap((row) => metals.map((m) => [`${m}/${String(row.month)}`, Number(row[`${m}_pools`])] as const)));
+  const values: MonthValueCount[] = [];
+  for (const row of rows) {
+    for (const metal of metals) {
+      if (row[metal] === null || row[metal] === undefined) continue;
+      values.push({ metal, month: String(row.month), value: Number(row[metal]), belowDetection: Number(row[`${metal}_bd`]) === 1, n: Number(row.n) });
+    }
+  }
+  const poolsElevated = new Map<string, number>(
+    poolRows.flatMap((row) => metals.map((m) => [`${m}/${String(row.month)}`, Number(row[`${m}_pools`])] as const)),
+  );
+  return { values, poolsElevated };
+}
+
+/** The same counts from the kept month rows (local months of the company's zone, at each test's instant). */
+async function countsFromKept(versionId: number, metals: readonly Metal[]): Promise<MonthlyCounts> {
+  const [values, pools] = await Promise.all([keptMonthValueCounts(versionId, metals), keptPoolsElevatedByMonth(versionId, metals)]);
+  return { values, poolsElevated: new Map(pools.map((p) => [`${p.metal}/${p.month}`, p.pools])) };
+}
+
+/**
+ * For each metal and month: how many readings, how many of them at or above
+ * the elevated level (and on how many pools), and the median and
+ * interquartile spread across the route book, exact from per-value counts.
+ * A "<x" reading counts as x/2, a common substitution for values below a
+ * detection limit (US EPA, Guidance for Data Quality Assessment QA/G-9, 4.7).
+ */
+export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal | null, thresholds: MetalThresholds): Promise<MetalTrend> {
+  const metals = metal ? [metal] : METALS;
+  const versionId = await keptMonthlyVersionFor(scope, { window, thresholds });
+  const counted = versionId === null ? await countsFromTests(scope, window, metals, thresholds) : await countsFromKept(versionId, metals);
   const buckets = new Map<string, Map<number, number>>();
   const elevatedCounts = new Map<string, number>();
-  for (const row of rows) {
-    for (const m of metals) {
-      if (row[m] === null || row[m] === undefined) continue;
-      const belowDetection = Number(row[`${m}_bd`]) === 1;
-      const value = belowDetection ? Number(row[m]) / 2 : Number(row[m]);
-      const key = `${m}/${row.month}`;
-      if (!belowDetection && Number(row[m]) >= thresholds[m].elevated) elevatedCounts.set(key, (elevatedCounts.get(key) ?? 0) + Number(row.n));
-      const counts = buckets.get(key) ?? new Map<number, number>();
-      counts.set(value, (counts.get(value) ?? 0) + Number(row.n));
-      buckets.set(key, counts);
-    }
+  for (const { metal: m, month, value, belowDetection, n } of counted.values) {
+    const key = `${m}/${month}`;
+    if (!belowDetection && value >= thresholds[m].elevated) elevatedCounts.set(key, (elevatedCounts.get(key) ?? 0) + n);
+    const counts = buckets.get(key) ?? new Map<number, number>();
+    const read = belowDetection ? value / 2 : value;
+    counts.set(read, (counts.get(read) ?? 0) + n);
+    buckets.set(key, counts);
   }
   const months: MonthlyMetalFigure[] = [...buckets.entries()]
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
@@ -113,10 +137,11 @@ export async function metalTrend(scope: Scope, window: TimeWindow, metal: Metal 
         max: sorted[sorted.length - 1]!.value,
         elevated,
         elevatedShare: elevated / readings,
-        poolsElevated: poolsElevated.get(key) ?? 0,
+        poolsElevated: counted.poolsElevated.get(key) ?? 0,
       };
     });
   return {
+    source: versionId === null ? "recomputed" : "kept",
     months,
     belowDetectionRule: "A reading below the detection limit counts as half the limit.",
   };

@@ -1,6 +1,21 @@
-import { bigint, double, index, int, json, mysqlEnum, mysqlTable, primaryKey, smallint, tinyint, unique, varchar } from "drizzle-orm/mysql-core";
+import {
+  bigint,
+  char,
+  double,
+  index,
+  int,
+  json,
+  mysqlEnum,
+  mysqlTable,
+  primaryKey,
+  smallint,
+  tinyint,
+  unique,
+  varchar,
+} from "drizzle-orm/mysql-core";
 import type { MetalThresholds } from "../../../../analysis/metals/reading";
-import { bigSerialId, flag, instant, instantNow } from "./columns";
+import type { KeptMonthValue } from "../../../../analysis/metals/kept-months";
+import { bigSerialId, decimalNumber, flag, instant, instantNow } from "./columns";
 import { owningCompany } from "./company";
 import { owningPool } from "./routebook";
 
@@ -27,6 +42,8 @@ export const keptVersions = mysqlTable(
     companyId: owningCompany(),
     /** The metal levels every row of this version was worked out with. */
     levels: json("levels").$type<MetalThresholds>().notNull(),
+    /** The company's time zone when the version was built: months are its local months. */
+    timeZone: varchar("time_zone", { length: 64 }).notNull().default("UTC"),
     state: mysqlEnum("state", KEPT_VERSION_STATES).notNull().default("building"),
     /** The instance building it, and until when that claim holds without a heartbeat. */
     claimedBy: varchar("claimed_by", { length: 80 }),
@@ -97,5 +114,61 @@ export const keptPoolSpans = mysqlTable(
     primaryKey({ columns: [t.versionId, t.readAs, t.poolId] }),
     index("kept_pool_spans_pool_idx").on(t.poolId, t.versionId),
     index("kept_pool_spans_company_idx").on(t.companyId),
+  ],
+);
+
+const METAL_NAMES = ["copper", "iron", "manganese"] as const;
+
+/**
+ * Each pool's month of one metal (local months of the version's time zone):
+ * readings, those at or above the elevated level, days with a reading, and
+ * the readings as counts of each value, so a write can take a pool's old
+ * readings out of the company's month histogram without reading its tests twice.
+ */
+export const keptPoolMonths = mysqlTable(
+  "kept_pool_months",
+  {
+    versionId: int("version_id")
+      .notNull()
+      .references(() => keptVersions.id, { onDelete: "cascade" }),
+    poolId: owningPool(),
+    metal: mysqlEnum("metal", METAL_NAMES).notNull(),
+    month: char("month", { length: 7 }).notNull(),
+    companyId: owningCompany(),
+    readings: int("readings").notNull(),
+    elevated: int("elevated").notNull(),
+    days: smallint("days", { unsigned: true }).notNull(),
+    values: json("reading_counts").$type<KeptMonthValue[]>().notNull(),
+  },
+  (t) => [
+    primaryKey({ name: "kept_pool_months_pk", columns: [t.versionId, t.poolId, t.metal, t.month] }),
+    index("kept_pool_months_pool_idx").on(t.poolId, t.versionId),
+    // Pools above the level in a month are few: the monthly count of them reads only those rows.
+    index("kept_pool_months_elevated_idx").on(t.versionId, t.elevated),
+    index("kept_pool_months_company_idx").on(t.companyId),
+  ],
+);
+
+/**
+ * The company's readings of each metal per local month as counts of each
+ * value: the monthly percentiles are exact from a few thousand rows. Writes
+ * add and take away counts (a count may fall to 0; reads skip those).
+ */
+export const keptMonthValues = mysqlTable(
+  "kept_month_values",
+  {
+    versionId: int("version_id")
+      .notNull()
+      .references(() => keptVersions.id, { onDelete: "cascade" }),
+    metal: mysqlEnum("metal", METAL_NAMES).notNull(),
+    month: char("month", { length: 7 }).notNull(),
+    value: decimalNumber("value", 6, 3).notNull(),
+    belowDetection: flag("below_detection", false),
+    companyId: owningCompany(),
+    n: int("n").notNull(),
+  },
+  (t) => [
+    primaryKey({ name: "kept_month_values_pk", columns: [t.versionId, t.metal, t.month, t.value, t.belowDetection] }),
+    index("kept_month_values_company_idx").on(t.companyId),
   ],
 );

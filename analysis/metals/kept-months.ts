@@ -1,0 +1,121 @@
+import type { MetalTest } from "./episodes";
+import { METALS, type Metal, type MetalThresholds } from "./reading";
+
+/** How many readings of one value a pool-month (or a company's month) holds. */
+export type KeptMonthValue = { value: number; belowDetection: boolean; n: number };
+
+/**
+ * One pool's month of one metal: how many readings, how many at or above the
+ * elevated level (below-detection readings never are), on how many local
+ * days, and the readings themselves as counts of each value.
+ */
+export type KeptPoolMonth = {
+  poolId: string;
+  /** "YYYY-MM" in the company's time zone, at the instant of the test. */
+  month: string;
+  metal: Metal;
+  readings: number;
+  elevated: number;
+  days: number;
+  values: KeptMonthValue[];
+};
+
+/**
+ * The local calendar day ("YYYY-MM-DD") of an instant in a time zone. Tests
+ * cluster in working hours, so the formatted day is cached per UTC hour.
+ */
+export function localDayOf(timeZone: string): (at: number) => string {
+  const format = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
+  const byHour = new Map<number, string>();
+  return (at) => {
+    const hour = Math.floor(at / 3_600_000);
+    let day = byHour.get(hour);
+    if (day === undefined) {
+      // Every zone's offset is a whole number of quarter hours, so one hour can straddle midnight: format the instant itself then.
+      const start = format.format(hour * 3_600_000);
+      const end = format.format(hour * 3_600_000 + 3_599_999);
+      if (start !== end) return format.format(at);
+      day = start;
+      byHour.set(hour, day);
+    }
+    return day;
+  };
+}
+
+const byValue = (a: KeptMonthValue, b: KeptMonthValue) => a.value - b.value || Number(a.belowDetection) - Number(b.belowDetection);
+
+/**
+ * What is kept of some pools' metal tests per local month: one row per pool,
+ * month and metal measured in it. `tests` are ordered by pool; the rows come
+ * ordered by pool, metal and month.
+ */
+export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThresholds, timeZone: string): KeptPoolMonth[] {
+  const dayOf = localDayOf(timeZone);
+  const rows: KeptPoolMonth[] = [];
+  type Open = { row: KeptPoolMonth; days: Set<string>; values: Map<string, KeptMonthValue> };
+  let pool: string | null = null;
+  let open = new Map<string, Open>();
+  const flush = () => {
+    const done = [...open.values()].sort(
+      (a, b) => METALS.indexOf(a.row.metal) - METALS.indexOf(b.row.metal) || (a.row.month < b.row.month ? -1 : a.row.month > b.row.month ? 1 : 0),
+    );
+    for (const o of done) rows.push({ ...o.row, days: o.days.size, values: [...o.values.values()].sort(byValue) });
+    open = new Map();
+  };
+  for (const t of tests) {
+    if (t.poolId !== pool) {
+      flush();
+      pool = t.poolId;
+    }
+    let day: string | null = null;
+    for (const metal of METALS) {
+      const reading = t[metal];
+      if (!reading) continue;
+      day ??= dayOf(t.takenAt);
+      const month = day.slice(0, 7);
+      const key = `${metal}/${month}`;
+      let o = open.get(key);
+      if (!o) {
+        o = { row: { poolId: t.poolId, month, metal, readings: 0, elevated: 0, days: 0, values: [] }, days: new Set(), values: new Map() };
+        open.set(key, o);
+      }
+      o.row.readings++;
+      if (!reading.belowDetection && reading.value >= thresholds[metal].elevated) o.row.elevated++;
+      o.days.add(day);
+      const valueKey = `${reading.value}/${reading.belowDetection ? 1 : 0}`;
+      const counted = o.values.get(valueKey);
+      if (counted) counted.n++;
+      else o.values.set(valueKey, { value: reading.value, belowDetection: reading.belowDetection, n: 1 });
+    }
+  }
+  flush();
+  return rows;
+}
+
+/** A change to a company's month histogram: add n readings of a value (n may be negative). */
+export type MonthValueChange = KeptMonthValue & { metal: Metal; month: string };
+
+/**
+ * What replacing some pools' month rows does to the company's month
+ * histogram: the new rows' readings counted in, the old rows' counted out,
+ * only the values whose count changes, ordered by metal, month and value
+ * (the order writes take their row locks in).
+ */
+export function monthValueChanges(before: readonly KeptPoolMonth[], after: readonly KeptPoolMonth[]): MonthValueChange[] {
+  const changes = new Map<string, MonthValueChange>();
+  const count = (rows: readonly KeptPoolMonth[], sign: 1 | -1) => {
+    for (const row of rows) {
+      for (const v of row.values) {
+        const key = `${row.metal}/${row.month}/${v.value}/${v.belowDetection ? 1 : 0}`;
+        const change = changes.get(key);
+        if (change) change.n += sign * v.n;
+        else changes.set(key, { metal: row.metal, month: row.month, value: v.value, belowDetection: v.belowDetection, n: sign * v.n });
+      }
+    }
+  };
+  count(before, -1);
+  count(after, 1);
+  return [...changes.values()]
+    .filter((c) => c.n !== 0)
+    .sort((a, b) => METALS.indexOf(a.metal) - METALS.indexOf(b.metal) || (a.month < b.month ? -1 : a.month > b.month ? 1 : 0) || byValue(a, b));
+}
