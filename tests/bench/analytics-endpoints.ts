@@ -55,6 +55,14 @@ const KEPT_ROWS = (readAs: string): Array<[string, unknown[]]> => [
     WHERE v.company_id = ? AND v.state = 'ready' AND s.read_as IN ('${readAs}', 'any') AND p.company_id = ? ORDER BY s.pool_id`, [c, c]],
 ];
 
+/** The kept rows the monthly trend reads: the company's month histogram and its pool-months above the level. */
+const MONTH_ROWS: Array<[string, unknown[]]> = [
+  [`SELECT m.metal, m.month, m.value, m.below_detection, m.n FROM kept_month_values m JOIN kept_versions v ON v.id = m.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND m.n > 0`, [company.id]],
+  [`SELECT m.metal, m.month, COUNT(*) FROM kept_pool_months m JOIN kept_versions v ON v.id = m.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND m.elevated > 0 GROUP BY m.metal, m.month`, [company.id]],
+];
+
 type Case = {
   name: string;
   path: string;
@@ -67,7 +75,7 @@ type Case = {
 const c = company.id;
 const cases: Case[] = [
   { name: "summary", path: "/api/analytics/summary", loader: summary.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]], kept: KEPT_ROWS("all") },
-  { name: "trend", path: "/api/analytics/trend", loader: trend.loader, bare: [[METAL_ROWS, [c, c]]] },
+  { name: "trend", path: "/api/analytics/trend", loader: trend.loader, bare: [[METAL_ROWS, [c, c]]], kept: MONTH_ROWS },
   { name: "groups (fill source, iron)", path: "/api/analytics/groups?grouping=fill-source&metal=iron", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]], kept: KEPT_ROWS("iron") },
   { name: "groups (heater age, copper)", path: "/api/analytics/groups?grouping=heater-age&metal=copper", loader: groups.loader, bare: [[METAL_ROWS, [c, c]], [SPANS, [c, c]]], kept: KEPT_ROWS("copper") },
   { name: "recurring", path: "/api/analytics/recurring", loader: recurring.loader, bare: [[METAL_ROWS, [c, c]]], kept: KEPT_ROWS("all") },

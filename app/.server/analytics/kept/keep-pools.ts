@@ -158,8 +158,40 @@ async function insertMonths(writer: Writer, versionId: number, companyId: number
           sql`(${versionId}, ${Number(m.poolId)}, ${m.metal}, ${m.month}, ${companyId}, ${m.readings}, ${m.elevated}, ${m.days}, ${JSON.stringify(m.values)})`,
       );
     await writer.execute(sql`INSERT INTO kept_pool_months (version_id, pool_id, metal, month, company_id, readings, elevated, days, reading_counts)
-      VALUES ${sql.join(values, sql`, `)}`);
+      VALUES ${sql.join(values, sql`, `)}
+      ON DUPLICATE KEY UPDATE readings = VALUES(readings), elevated = VALUES(elevated), days = VALUES(days), reading_counts = VALUES(reading_counts)`);
   }
+}
+
+const monthKey = (m: KeptPoolMonth) => `${m.poolId}/${m.metal}/${m.month}`;
+const sameMonth = (a: KeptPoolMonth, b: KeptPoolMonth) =>
+  a.readings === b.readings && a.elevated === b.elevated && a.days === b.days && JSON.stringify(a.values) === JSON.stringify(b.values);
+
+/**
+ * Writes only the month rows that changed: a visit touches one month of a
+ * pool with years of them, so rewriting them all would cost the save time.
+ */
+async function replaceChangedMonths(
+  writer: Writer,
+  versionId: number,
+  companyId: number,
+  before: readonly KeptPoolMonth[],
+  after: readonly KeptPoolMonth[],
+) {
+  const now = new Map(after.map((m) => [monthKey(m), m]));
+  const was = new Map(before.map((m) => [monthKey(m), m]));
+  const gone = before.filter((m) => !now.has(monthKey(m)));
+  for (let from = 0; from < gone.length; from += 500) {
+    const keys = gone.slice(from, from + 500).map((m) => sql`(${Number(m.poolId)}, ${m.metal}, ${m.month})`);
+    await writer.execute(
+      sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (pool_id, metal, month) IN (${sql.join(keys, sql`, `)})`,
+    );
+  }
+  const changed = after.filter((m) => {
+    const old = was.get(monthKey(m));
+    return !old || !sameMonth(old, m);
+  });
+  await insertMonths(writer, versionId, companyId, changed);
 }
 
 /** Adds the changes to the company's month histogram, in key order so two writes take the rows' locks in one order. */
@@ -187,13 +219,12 @@ export async function replaceKeptRows(
     monthsBefore.push(...(await monthsKept(writer, version.id, ids)));
     await writer.execute(sql`DELETE FROM kept_episodes WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
     await writer.execute(sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
-    await writer.execute(sql`DELETE FROM kept_pool_months WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
   }
   const rows = keptRowsOf(tests, version.levels);
   const months = keptMonthsOf(tests, version.levels, version.timeZone);
   await insertEpisodes(writer, version.id, companyId, rows.episodes);
   await insertSpans(writer, version.id, companyId, rows.spans);
-  await insertMonths(writer, version.id, companyId, months);
+  await replaceChangedMonths(writer, version.id, companyId, monthsBefore, months);
   await changeMonthValues(writer, version.id, companyId, monthValueChanges(monthsBefore, months));
 }
 
