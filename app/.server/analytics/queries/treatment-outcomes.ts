@@ -1,8 +1,8 @@
 import { and, inArray, isNotNull, or } from "drizzle-orm";
-import { DAY_MS } from "@analysis/metals/episodes";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
-import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type OutcomeTest } from "@analysis/outcomes/treatments";
+import { testsNearTreatments } from "@analysis/outcomes/kept-courses";
+import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES } from "@analysis/outcomes/treatments";
 import { CATEGORY_WORDS } from "~/lib/analytics/labels";
 import { isoInstant, jsonInterval, type JsonInterval } from "@analysis/json-shapes";
 import { db } from "../../db/client";
@@ -76,45 +76,7 @@ function figures(result: ArmResult): ArmFigures {
   };
 }
 
-// Tests this long after a treatment still matter: 30 days of follow-up, then
-// 90 days in which a cleared metal may come back, with room for a late visit.
-const FOLLOW_DAYS_AFTER = DEFAULT_OUTCOME_RULES.followUpDays + DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays + 30;
-const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
-
 const COURSE_CATEGORIES = ["sequestrant", "collector_pad", "ph_decreaser"] as const;
-
-/**
- * Keeps the tests taken from the baseline look-back before to the end of the
- * recurrence check after any metal treatment of their pool. Tests and
- * treatments both come ordered by pool and time, so one pass with a moving
- * pointer into the treatments does it.
- */
-export function testsNearTreatments(tests: readonly OutcomeTest[], applied: ReadonlyArray<{ poolId: string; appliedAt: number }>): OutcomeTest[] {
-  const before = LOOK_DAYS_BEFORE * DAY_MS;
-  const after = FOLLOW_DAYS_AFTER * DAY_MS;
-  const timesByPool = new Map<string, number[]>();
-  for (const t of applied) {
-    const times = timesByPool.get(t.poolId);
-    if (times) times.push(t.appliedAt);
-    else timesByPool.set(t.poolId, [t.appliedAt]);
-  }
-  const kept: OutcomeTest[] = [];
-  let poolId: string | null = null;
-  let times: number[] = [];
-  let next = 0;
-  for (const test of tests) {
-    if (test.poolId !== poolId) {
-      poolId = test.poolId;
-      times = timesByPool.get(poolId) ?? [];
-      next = 0;
-    }
-    // Treatments whose follow-up ended before this test cannot reach any later test either.
-    while (next < times.length && times[next]! + after < test.takenAt) next++;
-    const earliest = times[next];
-    if (earliest !== undefined && earliest - before <= test.takenAt) kept.push(test);
-  }
-  return kept;
-}
 
 /**
  * How metal treatments did: per product, category or combination, the fall
