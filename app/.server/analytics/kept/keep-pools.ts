@@ -5,6 +5,7 @@ import type { PoolConnection } from "mysql2/promise";
 import type { Database } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
+import { replaceKeptCourses } from "./keep-courses";
 
 /** A connection inside a transaction: the drizzle transaction of a write, or a drizzle over the import's connection. */
 export type Writer = Pick<Database, "execute">;
@@ -114,6 +115,7 @@ export async function replaceKeptRows(writer: Writer, companyId: number, version
   const rows = keptRowsOf(tests, version.levels);
   await insertEpisodes(writer, version.id, companyId, rows.episodes);
   await insertSpans(writer, version.id, companyId, rows.spans);
+  await replaceKeptCourses(writer, companyId, version, poolIds);
 }
 
 /**
