@@ -109,8 +109,10 @@ describe("kept treatment courses", () => {
     ),
   });
 
+  type History = typeof history extends fc.Arbitrary<infer H> ? H : never;
+
   /** Ordered by pool, time and id, as the database reads them. */
-  function materialise(h: fc.Infer<typeof history>): { treatments: TreatmentRecord[]; tests: OutcomeTest[] } {
+  function materialise(h: History): { treatments: TreatmentRecord[]; tests: OutcomeTest[] } {
     const order = <T extends { poolId: string; at: number; id: string }>(a: T, b: T) =>
       Number(a.poolId) - Number(b.poolId) || a.at - b.at || Number(a.id) - Number(b.id);
     const treatments = h.treatments
