@@ -48,7 +48,7 @@ try {
         continue;
       }
       console.log(
-        `[kept] company ${companyId}, version ${check.versionId}: ${check.pools} pools, ${check.tests} tests, ${check.episodes} kept episodes, ${check.spans} kept spans, ${check.months} kept pool-months: ${check.differences.length} differences`,
+        `[kept] company ${companyId}, version ${check.versionId}: ${check.pools} pools, ${check.tests} tests, ${check.episodes} kept episodes, ${check.spans} kept spans, ${check.months} kept pool-months, ${check.courses} kept courses: ${check.differences.length} differences`,
       );
       for (const d of check.differences.slice(0, 20)) console.log(`  ${d.table} ${d.key}: kept ${d.kept ?? "(none)"}; recomputed ${d.recomputed ?? "(none)"}`);
       if (check.differences.length > 0) failed = true;

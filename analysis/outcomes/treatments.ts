@@ -92,23 +92,24 @@ export function buildCourses(treatments: readonly TreatmentRecord[], rulesOverri
       groups.push([t]);
     }
   }
-  return groups
-    .filter((group) => group.some((t) => t.category !== "ph-decreaser"))
-    .map((group) => {
-      const productIds = unique(group.map((t) => t.productId));
-      const categories = unique(group.map((t) => t.category));
-      return {
-        poolId: group[0]!.poolId,
-        startAt: group[0]!.appliedAt,
-        treatments: group,
-        productIds,
-        categories,
-        combination: productIds.join(" + "),
-        categoryCombination: categories.join(" + "),
-        cost: group.reduce((sum, t) => sum + (t.cost ?? 0), 0),
-        costComplete: group.every((t) => typeof t.cost === "number"),
-      };
-    });
+  return groups.filter((group) => group.some((t) => t.category !== "ph-decreaser")).map(courseOf);
+}
+
+/** The course made of treatments grouped together, the first of them starting it. */
+export function courseOf(group: TreatmentRecord[]): TreatmentCourse {
+  const productIds = unique(group.map((t) => t.productId));
+  const categories = unique(group.map((t) => t.category));
+  return {
+    poolId: group[0]!.poolId,
+    startAt: group[0]!.appliedAt,
+    treatments: group,
+    productIds,
+    categories,
+    combination: productIds.join(" + "),
+    categoryCombination: categories.join(" + "),
+    cost: group.reduce((sum, t) => sum + (t.cost ?? 0), 0),
+    costComplete: group.every((t) => typeof t.cost === "number"),
+  };
 }
 
 export type PhStratum = "inside" | "outside" | "unknown";

@@ -79,12 +79,13 @@ function rowsWith(rows: PlannedRows, flag: number): Uint32Array {
   return out;
 }
 
-/** The pools already in the route book that the upload adds tests to: their kept results change. */
+/** The pools already in the route book that the upload adds tests or treatments to: their kept results change. */
 function existingPoolsOf(rows: PlannedRows): number[] {
   const pools = new Set<number>();
   for (let i = 0; i < rows.length; i++) {
     const pool = rows.pool[i]!;
-    if (pool > 0 && rows.has(i, PlannedRows.TEST_IS_NEW)) pools.add(pool);
+    // A row adding only a treatment (to a test already stored) changes its pool's courses too.
+    if (pool > 0 && (rows.has(i, PlannedRows.TEST_IS_NEW) || rows.has(i, PlannedRows.ADDS_TREATMENT))) pools.add(pool);
   }
   return [...pools];
 }
@@ -318,7 +319,8 @@ export async function undoBatch(scope: Scope, batchId: number): Promise<{ ok: tr
     if (!batch) return { ok: false as const, status: 404 as const, message: "No import batch with that number in your company." };
     if (batch.status === "undone") return { ok: false as const, status: 409 as const, message: "This import has already been undone." };
     const touched = await tx.selectDistinct({ poolId: waterTests.poolId }).from(waterTests).where(eq(waterTests.importBatchId, batchId));
-    const touchedPools = touched.map((t) => t.poolId);
+    const treated = await tx.selectDistinct({ poolId: treatments.poolId }).from(treatments).where(eq(treatments.importBatchId, batchId));
+    const touchedPools = [...new Set([...touched, ...treated].map((t) => t.poolId))];
     await lockPoolsForKeeping(tx, touchedPools);
     const [removedTreatments] = await tx
       .delete(treatments)

@@ -6,6 +6,7 @@ import type { PoolConnection } from "mysql2/promise";
 import type { Database } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
+import { replaceKeptCourses } from "./keep-courses";
 
 /** A connection inside a transaction: the drizzle transaction of a write, or a drizzle over the import's connection. */
 export type Writer = Pick<Database, "execute">;
@@ -226,6 +227,7 @@ export async function replaceKeptRows(
   await insertSpans(writer, version.id, companyId, rows.spans);
   await replaceChangedMonths(writer, version.id, companyId, monthsBefore, months);
   await changeMonthValues(writer, version.id, companyId, monthValueChanges(monthsBefore, months));
+  await replaceKeptCourses(writer, companyId, version, poolIds);
 }
 
 /**

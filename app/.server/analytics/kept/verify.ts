@@ -1,13 +1,15 @@
 import { sql } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptSpan } from "@analysis/metals/kept-history";
 import { keptMonthsOf, type KeptMonthValue, type KeptPoolMonth } from "@analysis/metals/kept-months";
+import { keptCoursesOf, type KeptCourse } from "@analysis/outcomes/kept-courses";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import { db, pool } from "../../db/client";
 import { utcDate } from "../../db/values";
+import { courseInputs, keptCourses } from "./keep-courses";
 import { poolTests } from "./keep-pools";
 
 export type KeptDifference = {
-  table: "kept_episodes" | "kept_pool_spans" | "kept_pool_months" | "kept_month_values";
+  table: "kept_episodes" | "kept_pool_spans" | "kept_pool_months" | "kept_month_values" | "kept_treatment_courses";
   key: string;
   kept: string | null;
   recomputed: string | null;
@@ -21,6 +23,7 @@ export type KeptCheck = {
   episodes: number;
   spans: number;
   months: number;
+  courses: number;
   differences: KeptDifference[];
 };
 
@@ -37,6 +40,30 @@ function episodeLine(
 
 const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">) =>
   [s.firstTestAt, s.lastTestAt, s.tests, s.latestBalanceAt ?? null].join(" ");
+
+/** Everything a kept course holds, in a fixed order (the pool, metal and place are its key). */
+function courseLine(c: KeptCourse): string {
+  return JSON.stringify([
+    c.startAt,
+    c.treatments.map((t) => [t.id, t.productId, t.category, t.appliedAt, t.cost ?? null]),
+    c.combination,
+    c.categoryCombination,
+    c.cost,
+    c.costComplete,
+    c.baseline && [c.baseline.testId, c.baseline.takenAt, c.baseline.value, c.baseline.status],
+    c.ineligible,
+    c.phAtTreatment,
+    c.phStratum,
+    c.firstFollowUp && [c.firstFollowUp.testId, c.firstFollowUp.takenAt, c.firstFollowUp.value, c.firstFollowUp.belowDetection],
+    c.clockStoppedAt,
+    c.cleared,
+    c.censoredBy,
+    c.clearedAt,
+    c.recurrence,
+  ]);
+}
+
+const courseKey = (c: KeptCourse) => `${c.metal}/${c.poolId}/${c.seq}`;
 
 function compare(table: KeptDifference["table"], kept: Map<string, string>, recomputed: Map<string, string>, into: KeptDifference[]) {
   for (const [key, line] of recomputed) {
@@ -92,7 +119,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
     sql`SELECT id, levels, time_zone FROM kept_versions WHERE company_id = ${companyId} AND state = 'ready' ORDER BY id DESC LIMIT 1`,
   )) as unknown as [Array<{ id: number; levels: string | MetalThresholds; time_zone: string }>];
   const version = versions[0];
-  if (!version) return { companyId, versionId: null, pools: 0, tests: 0, episodes: 0, spans: 0, months: 0, differences: [] };
+  if (!version) return { companyId, versionId: null, pools: 0, tests: 0, episodes: 0, spans: 0, months: 0, courses: 0, differences: [] };
   const levels = typeof version.levels === "string" ? (JSON.parse(version.levels) as MetalThresholds) : version.levels;
   const [poolRows] = (await db().execute(sql`SELECT id FROM pools WHERE company_id = ${companyId} ORDER BY id`)) as unknown as [
     Array<{ id: number }>,
@@ -145,6 +172,11 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   compare("kept_episodes", keptEpisodes, recomputedEpisodes, differences);
   compare("kept_pool_spans", keptSpans, recomputedSpans, differences);
   const months = await compareMonths(version.id, keptMonthsOf(tests, levels, version.time_zone), differences);
+
+  const courseSources = await courseInputs(db(), companyId, poolIds, false);
+  const recomputedCourses = new Map(keptCoursesOf(courseSources.treatments, courseSources.tests, levels).map((c) => [courseKey(c), courseLine(c)]));
+  const keptCourseLines = new Map((await keptCourses({ companyId }, version.id)).map((c) => [courseKey(c), courseLine(c)]));
+  compare("kept_treatment_courses", keptCourseLines, recomputedCourses, differences);
   return {
     companyId,
     versionId: version.id,
@@ -153,6 +185,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
     episodes: keptEpisodes.size,
     spans: keptSpans.size,
     months,
+    courses: keptCourseLines.size,
     differences,
   };
 }

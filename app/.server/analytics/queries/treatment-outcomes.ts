@@ -1,13 +1,15 @@
-import { and, inArray, isNotNull, or } from "drizzle-orm";
-import { DAY_MS } from "@analysis/metals/episodes";
+import { and, eq, inArray, isNotNull, or } from "drizzle-orm";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
 import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
-import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type OutcomeTest } from "@analysis/outcomes/treatments";
+import { courseOrder, outcomeOfKept, testsNearTreatments } from "@analysis/outcomes/kept-courses";
+import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type CourseOutcome } from "@analysis/outcomes/treatments";
 import { CATEGORY_WORDS } from "~/lib/analytics/labels";
 import { isoInstant, jsonInterval, type JsonInterval } from "@analysis/json-shapes";
 import { db } from "../../db/client";
-import { pools, waterTests } from "../../db/schema";
+import { pools, products, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
+import { keptCourses } from "../kept/keep-courses";
+import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { anyMetalMeasured, treatmentRows, waterTestReadings } from "./metal-readings";
 import { tenantCondition, isWithin, type TimeWindow } from "./tenant-and-window";
 
@@ -41,6 +43,7 @@ export type TreatmentOutcomes = {
   ineligible: Record<string, number>;
   arms: OutcomeArm[];
   escalation: Array<{ poolId: number; street: string; coursesWithoutClearing: number; since: string }>;
+  source: AnswerSource;
 };
 
 function figures(result: ArmResult): ArmFigures {
@@ -76,52 +79,30 @@ function figures(result: ArmResult): ArmFigures {
   };
 }
 
-// Tests this long after a treatment still matter: 30 days of follow-up, then
-// 90 days in which a cleared metal may come back, with room for a late visit.
-const FOLLOW_DAYS_AFTER = DEFAULT_OUTCOME_RULES.followUpDays + DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays + 30;
-const LOOK_DAYS_BEFORE = DEFAULT_OUTCOME_RULES.baselineLookbackDays;
-
 const COURSE_CATEGORIES = ["sequestrant", "collector_pad", "ph_decreaser"] as const;
-
-/**
- * Keeps the tests taken from the baseline look-back before to the end of the
- * recurrence check after any metal treatment of their pool. Tests and
- * treatments both come ordered by pool and time, so one pass with a moving
- * pointer into the treatments does it.
- */
-export function testsNearTreatments(tests: readonly OutcomeTest[], applied: ReadonlyArray<{ poolId: string; appliedAt: number }>): OutcomeTest[] {
-  const before = LOOK_DAYS_BEFORE * DAY_MS;
-  const after = FOLLOW_DAYS_AFTER * DAY_MS;
-  const timesByPool = new Map<string, number[]>();
-  for (const t of applied) {
-    const times = timesByPool.get(t.poolId);
-    if (times) times.push(t.appliedAt);
-    else timesByPool.set(t.poolId, [t.appliedAt]);
-  }
-  const kept: OutcomeTest[] = [];
-  let poolId: string | null = null;
-  let times: number[] = [];
-  let next = 0;
-  for (const test of tests) {
-    if (test.poolId !== poolId) {
-      poolId = test.poolId;
-      times = timesByPool.get(poolId) ?? [];
-      next = 0;
-    }
-    // Treatments whose follow-up ended before this test cannot reach any later test either.
-    while (next < times.length && times[next]! + after < test.takenAt) next++;
-    const earliest = times[next];
-    if (earliest !== undefined && earliest - before <= test.takenAt) kept.push(test);
-  }
-  return kept;
-}
 
 /**
  * How metal treatments did: per product, category or combination, the fall
  * at the first follow-up, Kaplan-Meier time to clear, recurrence after
  * clearing and cost per cleared pool, each also split by pH at treatment.
+ * Without a date window and under the company's levels, the courses come
+ * from the kept results (a technician's: their routes' pools, as read from
+ * the tests); otherwise they are worked out from the treatments and tests.
  */
 export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
+  const versionId = await keptVersionFor(scope.companyId, params);
+  if (versionId !== null) {
+    // Ordered as buildCourses orders them, so every sum adds in the same order as a recomputation.
+    const outcomes = (await keptCourses({ scope }, versionId, params.metal)).sort(courseOrder).map(outcomeOfKept);
+    const productIds = [...new Set(outcomes.flatMap((o) => o.course.productIds.map(Number)))];
+    const named = productIds.length
+      ? await db()
+          .select({ id: products.id, name: products.name })
+          .from(products)
+          .where(and(eq(products.companyId, scope.companyId), inArray(products.id, productIds)))
+      : [];
+    return outcomesAnswer(scope, params, outcomes, new Map(named.map((p) => [String(p.id), p.name])), "kept");
+  }
   // Every metal treatment bounds the tests kept; only those in the window form courses.
   const everyApplied = await treatmentRows({ scope }, { categories: COURSE_CATEGORIES });
   const applied = everyApplied.filter((t) => isWithin(t.appliedAt, params.window));
@@ -130,9 +111,18 @@ export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Pr
   const read = await waterTestReadings({ scope }, { poolIds: treatedPools, with: { ph: true }, where: or(anyMetalMeasured(), isNotNull(waterTests.ph)) });
   const tests = testsNearTreatments(read, everyApplied);
   const outcomes = courseOutcomes(courses, tests, params.metal, { thresholds: params.thresholds });
+  return outcomesAnswer(scope, params, outcomes, new Map(applied.map((t) => [t.productId, t.productName])), "recomputed");
+}
+
+async function outcomesAnswer(
+  scope: Scope,
+  params: OutcomeParams,
+  outcomes: CourseOutcome[],
+  productNames: ReadonlyMap<string, string>,
+  source: AnswerSource,
+): Promise<TreatmentOutcomes> {
   const summaries = summariseOutcomes(outcomes, params.arm);
 
-  const productNames = new Map(applied.map((t) => [t.productId, t.productName]));
   // Parts of a combination are named in alphabetical order, whatever their ids.
   const joinNames = (names: string[]) => names.sort((a, b) => a.localeCompare(b)).join(" + ");
   const label = (arm: string) => {
@@ -178,5 +168,6 @@ export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Pr
       coursesWithoutClearing: h.coursesWithoutClearing,
       since: isoInstant(h.since)!,
     })),
+    source,
   };
 }

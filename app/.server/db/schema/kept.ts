@@ -1,5 +1,6 @@
 import {
   bigint,
+  boolean,
   char,
   double,
   index,
@@ -15,6 +16,7 @@ import {
 } from "drizzle-orm/mysql-core";
 import type { MetalThresholds } from "../../../../analysis/metals/reading";
 import type { KeptMonthValue } from "../../../../analysis/metals/kept-months";
+import type { ProductCategory } from "../../../../analysis/outcomes/treatments";
 import { bigSerialId, decimalNumber, flag, instant, instantNow } from "./columns";
 import { owningCompany } from "./company";
 import { owningPool } from "./routebook";
@@ -170,5 +172,61 @@ export const keptMonthValues = mysqlTable(
   (t) => [
     primaryKey({ name: "kept_month_values_pk", columns: [t.versionId, t.metal, t.month, t.value, t.belowDetection] }),
     index("kept_month_values_company_idx").on(t.companyId),
+  ],
+);
+
+const METAL_STATUSES = ["elevated", "watch", "clear", "unknown"] as const;
+const INELIGIBLE = ["no-baseline", "baseline-clear", "baseline-below-detection"] as const;
+const CENSORING = ["follow-up-window", "end-of-data", "different-treatment"] as const;
+const RECURRENCE = ["recurred", "stayed-clear", "not-followed-long-enough"] as const;
+
+/** A course's treatment as kept: its product and category when kept, and the cost recorded with it. */
+export type KeptCourseTreatment = { id: string; productId: string; category: ProductCategory; appliedAt: number; cost: number | null };
+
+/**
+ * Each pool's metal treatment courses followed on each metal (see
+ * analysis/outcomes/kept-courses.ts): what the outcome answer sums. Levels
+ * decide the baseline and clearing, so rows belong to a version too.
+ */
+export const keptTreatmentCourses = mysqlTable(
+  "kept_treatment_courses",
+  {
+    versionId: int("version_id")
+      .notNull()
+      .references(() => keptVersions.id, { onDelete: "cascade" }),
+    metal: mysqlEnum("metal", ["copper", "iron", "manganese"]).notNull(),
+    poolId: owningPool(),
+    /** The course's place among the pool's courses, by start. */
+    seq: smallint("seq", { unsigned: true }).notNull(),
+    companyId: owningCompany(),
+    startedAt: instant("started_at").notNull(),
+    treatments: json("treatments").$type<KeptCourseTreatment[]>().notNull(),
+    /** The arm keys: product ids, and categories, sorted and joined with " + ". */
+    combination: varchar("combination", { length: 1000 }).notNull(),
+    categoryCombination: varchar("category_combination", { length: 255 }).notNull(),
+    cost: double("cost").notNull(),
+    costComplete: flag("cost_complete", true),
+    baselineTestId: bigint("baseline_test_id", { mode: "number", unsigned: true }),
+    baselineAt: instant("baseline_at"),
+    baselineValue: double("baseline_value"),
+    baselineStatus: mysqlEnum("baseline_status", METAL_STATUSES),
+    ineligible: mysqlEnum("ineligible", INELIGIBLE),
+    phAtTreatment: double("ph_at_treatment"),
+    phStratum: mysqlEnum("ph_stratum", ["inside", "outside", "unknown"]).notNull(),
+    followUpTestId: bigint("follow_up_test_id", { mode: "number", unsigned: true }),
+    followUpAt: instant("follow_up_at"),
+    followUpValue: double("follow_up_value"),
+    followUpBelowDetection: boolean("follow_up_below_detection"),
+    /** When the clock to clearing stopped: the clearing test, else the last follow-up reading, else the start. */
+    clockStoppedAt: instant("clock_stopped_at").notNull(),
+    cleared: flag("cleared", false),
+    censoredBy: mysqlEnum("censored_by", CENSORING),
+    clearedAt: instant("cleared_at"),
+    recurrence: mysqlEnum("recurrence", RECURRENCE),
+  },
+  (t) => [
+    primaryKey({ columns: [t.versionId, t.metal, t.poolId, t.seq] }),
+    index("kept_treatment_courses_pool_idx").on(t.poolId, t.versionId),
+    index("kept_treatment_courses_company_idx").on(t.companyId),
   ],
 );
