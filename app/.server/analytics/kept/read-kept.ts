@@ -1,7 +1,8 @@
-import { and, asc, eq, inArray } from "drizzle-orm";
+import { and, asc, eq, inArray, isNull } from "drizzle-orm";
 import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@analysis/metals/episodes";
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
-import type { MetalThresholds } from "@analysis/metals/reading";
+import { notTested, type MetalStateOfPool } from "@analysis/metals/metal-state";
+import { METALS, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { serverEnv } from "../../env";
 import { keptEpisodes, keptPoolSpans, pools } from "../../db/schema";
@@ -104,4 +105,43 @@ export async function keptMetalHistory(tenant: Tenant, versionId: number, readAs
   ]);
   const observed = spans.map(({ poolId, firstTestAt, lastTestAt, tests }) => ({ poolId, firstTestAt, lastTestAt, tests }));
   return historyFromKept(episodes, observed, metalsReadAs(readAs));
+}
+
+/**
+ * Each pool's state per metal from the kept rows of the metal read alone:
+ * open with a censored episode, last tested at the span's last test, not
+ * tested without a span. Pools with no metal reading at all are left out.
+ */
+export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds?: readonly number[]): Promise<Map<string, MetalStateOfPool>> {
+  const states = new Map<string, MetalStateOfPool>();
+  if (poolIds && poolIds.length === 0) return states;
+  const [spans, open] = await Promise.all([
+    db()
+      .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: keptPoolSpans.lastAt })
+      .from(keptPoolSpans)
+      .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
+      .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId))),
+    db()
+      // Read as one metal alone, every episode is of that metal.
+      .selectDistinct({ poolId: keptEpisodes.poolId, metal: keptEpisodes.readAs })
+      .from(keptEpisodes)
+      .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
+      .where(
+        and(
+          eq(keptEpisodes.versionId, versionId),
+          inArray(keptEpisodes.readAs, [...METALS]),
+          isNull(keptEpisodes.closedAt),
+          keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId),
+        ),
+      ),
+  ]);
+  const openSet = new Set(open.map((o) => `${o.poolId}:${o.metal}`));
+  for (const span of spans) {
+    if (span.readAs === "any" || span.readAs === "all") continue;
+    const poolId = String(span.poolId);
+    let state = states.get(poolId);
+    if (!state) states.set(poolId, (state = notTested()));
+    state[span.readAs] = { state: openSet.has(`${poolId}:${span.readAs}`) ? "open" : "clear", lastTestedAt: span.lastAt.getTime() };
+  }
+  return states;
 }
