@@ -1,11 +1,11 @@
-import { and, asc, eq, inArray, isNull } from "drizzle-orm";
+import { and, asc, eq, gt, inArray, isNull } from "drizzle-orm";
 import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@analysis/metals/episodes";
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
 import { notTested, type MetalStateOfPool } from "@analysis/metals/metal-state";
 import { METALS, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { serverEnv } from "../../env";
-import { keptEpisodes, keptPoolSpans, pools } from "../../db/schema";
+import { keptEpisodes, keptPoolSpans, pools, waterTests } from "../../db/schema";
 import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
 import { readyVersionFor } from "./versions";
 
@@ -21,6 +21,23 @@ export async function keptVersionFor(companyId: number, request: { window?: Time
   if (serverEnv().PATINA_KEPT_ANALYTICS === "off") return null;
   if (request.window && (request.window.from || request.window.to)) return null;
   return readyVersionFor(companyId, request.thresholds);
+}
+
+/**
+ * The kept version that answers as of `now` (mail worked out for a moment
+ * already past), or null. Kept rows cover every test, so they answer only
+ * while none of the pools' tests (the company's, without `poolIds`) is later than `now`.
+ */
+export async function keptVersionAsOf(companyId: number, thresholds: MetalThresholds, now: Date, poolIds?: readonly number[]): Promise<number | null> {
+  const versionId = await keptVersionFor(companyId, { thresholds });
+  if (versionId === null) return null;
+  if (poolIds && poolIds.length === 0) return versionId;
+  const later = await db()
+    .select({ id: waterTests.id })
+    .from(waterTests)
+    .where(and(eq(waterTests.companyId, companyId), poolIds ? inArray(waterTests.poolId, [...poolIds]) : undefined, gt(waterTests.sampledAt, now)))
+    .limit(1);
+  return later.length === 0 ? versionId : null;
 }
 
 /** Tenant rows of a kept table: the company and, for a member's Scope, their pools (joined). */
