@@ -10,7 +10,8 @@ import { db } from "../db/client";
 import { alertEvents, type ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
 import { serverEnv } from "../env";
 import { claimJob, type JobClaim, runClaimed } from "../jobs/claims";
-import { waterTestReadings } from "../analytics/queries/metal-readings";
+import { keptEpisodeList, keptVersionAsOf } from "../analytics/kept/read-kept";
+import { metalReadings, waterTestReadings } from "../analytics/queries/metal-readings";
 import { poolLabels } from "../analytics/queries/pool-profiles";
 import { episodeOpenedMail, type PoolLabel, poolRecurringMail, sharedSourceMail } from "./alert-messages";
 import { enqueueMail, signalMailQueued } from "./outbox";
@@ -156,6 +157,17 @@ async function poolAlerts(company: Company, poolId: number, now: number): Promis
   return poolEvents(company, label, history.episodes, valueAt, now - ALERT_LOOKBACK_DAYS * DAY_MS);
 }
 
+/**
+ * The episodes (every metal) of a source's pools up to `now`: their kept rows
+ * when those answer as of `now`, else worked out from the pools' tests.
+ */
+async function sourcePoolEpisodes(company: Company, poolIds: readonly number[], now: number): Promise<Episode[]> {
+  const versionId = await keptVersionAsOf(company.id, company.thresholds, new Date(now), poolIds);
+  if (versionId !== null) return keptEpisodeList({ companyId: company.id }, versionId, "all", poolIds);
+  const tests = await metalReadings({ companyId: company.id }, { poolIds, window: { from: null, to: new Date(now) } });
+  return analyseMetalHistory(tests, { thresholds: company.thresholds }).episodes;
+}
+
 async function sourceAlerts(company: Company, fillSourceId: number, now: number): Promise<AlertEvent[]> {
   const [source] = await db()
     .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
@@ -170,10 +182,10 @@ async function sourceAlerts(company: Company, fillSourceId: number, now: number)
     .select({ n: count() })
     .from(pools)
     .where(and(eq(pools.companyId, company.id), eq(pools.fillSourceId, fillSourceId), eq(pools.active, true)));
-  const tests = await waterTestReadings({ companyId: company.id }, { poolIds: onSource.map((p) => p.id), window: { from: null, to: new Date(now) } });
-  const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
+  const poolIds = onSource.map((p) => p.id);
+  const episodes = await sourcePoolEpisodes(company, poolIds, now);
   const profiles: PoolProfile[] = onSource.map((p) => ({ poolId: String(p.id), fillSourceId: String(fillSourceId) }));
-  const alerts = sharedSourceAlerts(history.episodes, profiles, {
+  const alerts = sharedSourceAlerts(episodes, profiles, {
     activePools: new Map([[String(fillSourceId), activeRow?.n ?? 0]]),
   });
   const since = now - ALERT_LOOKBACK_DAYS * DAY_MS;

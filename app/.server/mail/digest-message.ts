@@ -1,5 +1,6 @@
 import type { Metal } from "@analysis/metals/reading";
 import type { RateRatio } from "@analysis/stats/intervals";
+import type { AnswerSource } from "../analytics/kept/read-kept";
 import { formatDate } from "~/lib/format";
 import { METAL_LABELS } from "@analysis/metals/names";
 import { absoluteUrl, renderMail, type RenderedMail } from "./templates";
@@ -7,6 +8,8 @@ import { absoluteUrl, renderMail, type RenderedMail } from "./templates";
 type PoolName = { customerName: string; street: string };
 
 export type WeeklyDigest = {
+  /** Whether the episodes and observed time came from the kept rows or were worked out from the tests. */
+  source: AnswerSource;
   companyName: string;
   timeZone: string;
   weekStart: number;

@@ -2,8 +2,9 @@ import { TZDate } from "@date-fns/tz";
 import { format } from "date-fns";
 import { and, eq, inArray } from "drizzle-orm";
 import { z } from "zod";
-import { analyseMetalHistory, DAY_MS, type Episode } from "@analysis/metals/episodes";
-import { type Metal, METALS } from "@analysis/metals/reading";
+import { analyseMetalHistory, DAY_MS, type Episode, type PoolObservation } from "@analysis/metals/episodes";
+import { testsReadAs } from "@analysis/metals/kept-history";
+import { type Metal, METALS, type MetalThresholds } from "@analysis/metals/reading";
 import { buildCourses, courseOutcomes } from "@analysis/outcomes/treatments";
 import { groupComparison, type GroupingKey } from "@analysis/stats/groups";
 import { companySettings } from "../settings/queries/company-settings";
@@ -11,7 +12,9 @@ import { db } from "../db/client";
 import { companies, mailOutbox, memberships, user } from "../db/schema";
 import { serverEnv } from "../env";
 import { claimJob, type JobClaim, runClaimed } from "../jobs/claims";
+import { keptEpisodeList, keptSpans, keptVersionAsOf, type AnswerSource } from "../analytics/kept/read-kept";
 import { poolProfiles, type PoolLabel } from "../analytics/queries/pool-profiles";
+import { observationInstants } from "~/lib/analytics/observation-points";
 import { isWithin } from "../analytics/queries/tenant-and-window";
 import { treatmentRows, waterTestReadings } from "../analytics/queries/metal-readings";
 import { digestMail, type WeeklyDigest } from "./digest-message";
@@ -58,12 +61,17 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
   const { thresholds } = company;
   const weekStart = now.getTime() - WEEK_MS;
   const week = { from: new Date(weekStart), to: now };
-  const [book, tests, applied] = await Promise.all([
+  const [book, applied, found] = await Promise.all([
     poolProfiles({ companyId }),
-    waterTestReadings({ companyId }, { window: { from: null, to: now }, with: { ph: true } }),
     treatmentRows({ companyId }, { window: { from: new Date(now.getTime() - 45 * DAY_MS), to: now } }),
+    episodesAndSpans(companyId, thresholds, now),
   ]);
-  const history = analyseMetalHistory(tests, { thresholds });
+  // Treatment results need the treated pools' own tests (with pH), read alike either way.
+  const treatedPools = new Set(applied.map((t) => t.poolId));
+  const tests =
+    found.tests?.filter((t) => treatedPools.has(t.poolId)) ??
+    (await waterTestReadings({ companyId }, { poolIds: [...treatedPools].map(Number), window: { from: null, to: now }, with: { ph: true } }));
+  const history = { episodes: found.episodes };
   const poolOf = (id: string): PoolLabel | undefined => book.labels.get(Number(id));
 
   const openCases = history.episodes
@@ -89,8 +97,14 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
     if (key === "route") return labels.find((p) => String(p.routeId) === group)?.routeName ?? group;
     return group.replaceAll("-", " ");
   };
+  const profiles = new Map(book.profiles.map((p) => [p.poolId, p]));
+  const instantsOf = (key: GroupingKey) =>
+    found.spans.flatMap((span) => {
+      const pool = profiles.get(span.poolId);
+      return pool ? observationInstants(pool, span.firstTestAt, span.lastTestAt, key).map((takenAt) => ({ poolId: span.poolId, takenAt })) : [];
+    });
   const riskyGroups = DIGEST_GROUPINGS.flatMap(({ key, label }) =>
-    groupComparison(book.profiles, tests, history.episodes, key)
+    groupComparison(book.profiles, instantsOf(key), history.episodes, key)
       .filter((g) => g.risky)
       .map((g) => ({
         grouping: label,
@@ -130,7 +144,34 @@ export async function weeklyDigestFor(companyId: number, now: Date): Promise<Wee
     newRecurring,
     riskyGroups,
     treatmentResults,
+    source: found.source,
   };
+}
+
+/**
+ * The company's metal episodes (every metal) and each pool's observed span
+ * (first and last test of any analyte) up to `now`: from the kept rows when
+ * they answer as of `now`, else worked out from every test, which are then
+ * handed back for the rest of the digest.
+ */
+async function episodesAndSpans(companyId: number, thresholds: MetalThresholds, now: Date) {
+  const versionId = await keptVersionAsOf(companyId, thresholds, now);
+  if (versionId !== null) {
+    const [episodes, spans] = await Promise.all([keptEpisodeList({ companyId }, versionId, "all"), keptSpans({ companyId }, versionId, "any")]);
+    return { episodes, spans, tests: null, source: "kept" as AnswerSource };
+  }
+  const tests = await waterTestReadings({ companyId }, { window: { from: null, to: now }, with: { ph: true } });
+  // The episodes' openings, peaks and recurrence are those of the tests with a metal; the spans count every test.
+  const episodes = analyseMetalHistory(testsReadAs(tests, "all"), { thresholds }).episodes;
+  const spans: PoolObservation[] = [];
+  for (const t of tests) {
+    const last = spans[spans.length - 1];
+    if (last?.poolId === t.poolId) {
+      last.lastTestAt = t.takenAt;
+      last.tests++;
+    } else spans.push({ poolId: t.poolId, firstTestAt: t.takenAt, lastTestAt: t.takenAt, tests: 1 });
+  }
+  return { episodes, spans, tests, source: "recomputed" as AnswerSource };
 }
 
 /** ISO week of the moment in the company's time zone, e.g. "2026-W26": one digest per member and week. */

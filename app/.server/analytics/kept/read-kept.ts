@@ -1,10 +1,11 @@
-import { and, asc, count, eq, gt, inArray } from "drizzle-orm";
+import { and, asc, count, eq, gt, inArray, isNull } from "drizzle-orm";
 import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@analysis/metals/episodes";
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
-import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { notTested, type MetalStateOfPool } from "@analysis/metals/metal-state";
+import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { db } from "../../db/client";
 import { serverEnv } from "../../env";
-import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools } from "../../db/schema";
+import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
 import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
 import { readyVersionFor } from "./versions";
@@ -21,6 +22,23 @@ export async function keptVersionFor(companyId: number, request: { window?: Time
   if (serverEnv().PATINA_KEPT_ANALYTICS === "off") return null;
   if (request.window && (request.window.from || request.window.to)) return null;
   return readyVersionFor(companyId, request.thresholds);
+}
+
+/**
+ * The kept version that answers as of `now` (mail worked out for a moment
+ * already past), or null. Kept rows cover every test, so they answer only
+ * while none of the pools' tests (the company's, without `poolIds`) is later than `now`.
+ */
+export async function keptVersionAsOf(companyId: number, thresholds: MetalThresholds, now: Date, poolIds?: readonly number[]): Promise<number | null> {
+  const versionId = await keptVersionFor(companyId, { thresholds });
+  if (versionId === null) return null;
+  if (poolIds && poolIds.length === 0) return versionId;
+  const later = await db()
+    .select({ id: waterTests.id })
+    .from(waterTests)
+    .where(and(eq(waterTests.companyId, companyId), poolIds ? inArray(waterTests.poolId, [...poolIds]) : undefined, gt(waterTests.sampledAt, now)))
+    .limit(1);
+  return later.length === 0 ? versionId : null;
 }
 
 /** Tenant rows of a kept table: the company and, for a member's Scope, their pools (joined). */
@@ -142,4 +160,43 @@ export function keptPoolsElevatedByMonth(versionId: number, metals: readonly Met
     .from(keptPoolMonths)
     .where(and(eq(keptPoolMonths.versionId, versionId), gt(keptPoolMonths.elevated, 0), inArray(keptPoolMonths.metal, [...metals])))
     .groupBy(keptPoolMonths.metal, keptPoolMonths.month);
+}
+
+/**
+ * Each pool's state per metal from the kept rows of the metal read alone:
+ * open with a censored episode, last tested at the span's last test, not
+ * tested without a span. Pools with no metal reading at all are left out.
+ */
+export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds?: readonly number[]): Promise<Map<string, MetalStateOfPool>> {
+  const states = new Map<string, MetalStateOfPool>();
+  if (poolIds && poolIds.length === 0) return states;
+  const [spans, open] = await Promise.all([
+    db()
+      .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: keptPoolSpans.lastAt })
+      .from(keptPoolSpans)
+      .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
+      .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId))),
+    db()
+      // Read as one metal alone, every episode is of that metal.
+      .selectDistinct({ poolId: keptEpisodes.poolId, metal: keptEpisodes.readAs })
+      .from(keptEpisodes)
+      .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
+      .where(
+        and(
+          eq(keptEpisodes.versionId, versionId),
+          inArray(keptEpisodes.readAs, [...METALS]),
+          isNull(keptEpisodes.closedAt),
+          keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId),
+        ),
+      ),
+  ]);
+  const openSet = new Set(open.map((o) => `${o.poolId}:${o.metal}`));
+  for (const span of spans) {
+    if (span.readAs === "any" || span.readAs === "all") continue;
+    const poolId = String(span.poolId);
+    let state = states.get(poolId);
+    if (!state) states.set(poolId, (state = notTested()));
+    state[span.readAs] = { state: openSet.has(`${poolId}:${span.readAs}`) ? "open" : "clear", lastTestedAt: span.lastAt.getTime() };
+  }
+  return states;
 }

@@ -1,11 +1,11 @@
-import { analyseMetalHistory } from "@analysis/metals/episodes";
 import { likelySourceEvidence, type Evidence, type FillSourceTest } from "@analysis/metals/likely-source";
 import type { BalanceBand } from "@analysis/chemistry/saturation";
 import type { SharedSourceAlert } from "@analysis/metals/shared-source";
 import { episodeJson, isoInstant, type EpisodeJson } from "@analysis/json-shapes";
 import type { Scope } from "../../scope";
-import { poolBalance, poolInScope } from "./pool-series";
-import { metalReadings, treatmentRows } from "./metal-readings";
+import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
+import { poolBalance, poolEpisodes, poolInScope } from "./pool-series";
+import { treatmentRows } from "./metal-readings";
 import { dayToMs } from "../../db/values";
 import { companyPreferences } from "../../settings/queries/company-settings";
 import { sourceTestRows } from "./fill-water-tests";
@@ -20,6 +20,8 @@ export type PoolEvidence = {
   poolId: number;
   episodes: EpisodeEvidence[];
   openEpisodes: number;
+  /** Where the episodes came from; the evidence is read for the pool either way. */
+  source: AnswerSource;
   note: string;
 };
 
@@ -36,8 +38,10 @@ export async function poolEvidence(
   formatDate?: (epochMs: number) => string,
 ): Promise<PoolEvidence | null> {
   if (!(await poolInScope(scope, poolId))) return null;
-  const [readings, book, treated, balance] = await Promise.all([
-    metalReadings({ scope }, { window: params.window, poolIds: [poolId] }),
+  // One version for the pool's episodes and its source's alerts, so the evidence never mixes two.
+  const versionId = await keptVersionFor(scope.companyId, params);
+  const [episodesRead, book, treated, balance] = await Promise.all([
+    poolEpisodes(scope, poolId, params, "all", undefined, versionId),
     poolProfiles({ scope }, { poolIds: [poolId] }),
     // Algaecide evidence looks back before the window's first episode.
     treatmentRows({ scope }, { window: { from: null, to: params.window.to }, poolIds: [poolId] }),
@@ -49,7 +53,11 @@ export async function poolEvidence(
     sourceId === null ? Promise.resolve([]) : sourceTestRows(scope.companyId, [sourceId]),
     sourceId === null
       ? Promise.resolve({ alerts: [] })
-      : sharedSourceAlertList(scope, { ...params, window: { from: null, to: params.window.to }, metal: null, sourceIds: [sourceId] }),
+      : sharedSourceAlertList(
+          scope,
+          { ...params, window: { from: null, to: params.window.to }, metal: null, sourceIds: [sourceId] },
+          versionId ?? undefined,
+        ),
   ]);
   const fillSourceTests: FillSourceTest[] = sourceTests.map((t) => ({
     fillSourceId: String(t.fillSourceId),
@@ -68,8 +76,7 @@ export async function poolEvidence(
     activePools: a.activePools,
     poolsRequired: a.poolsRequired,
   }));
-  const history = analyseMetalHistory(readings, { thresholds: params.thresholds });
-  const episodes = history.episodes
+  const episodes = [...episodesRead.list]
     .sort((a, b) => b.openedAt - a.openedAt)
     .map((e) => ({
       ...episodeJson(e),
@@ -90,6 +97,7 @@ export async function poolEvidence(
     poolId,
     episodes,
     openEpisodes: episodes.filter((e) => e.censored).length,
+    source: episodesRead.source,
     note: "Evidence points at possible causes; more than one can be at work. It is not a verdict.",
   };
 }

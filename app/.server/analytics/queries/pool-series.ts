@@ -1,12 +1,14 @@
 import { and, asc, eq, isNotNull } from "drizzle-orm";
 import { saturationIndex } from "@analysis/chemistry/saturation";
-import { analyseMetalHistory } from "@analysis/metals/episodes";
+import { analyseMetalHistory, type Episode } from "@analysis/metals/episodes";
+import { metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import { episodeJson, type EpisodeJson } from "@analysis/json-shapes";
 import type { SeriesAnalyte } from "~/lib/analytics/params";
 import { db } from "../../db/client";
 import { pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
+import { keptEpisodeList, keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { metalReadings, treatmentRows } from "./metal-readings";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
 import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
@@ -37,6 +39,8 @@ export type PoolSeries = {
   /** For a metal: its elevated and clear levels. */
   levels: { elevated: number; clear: number } | null;
   episodes: EpisodeJson[];
+  /** Where the episodes came from; the points are always the pool's own tests. */
+  source: AnswerSource;
   treatments: Array<{ appliedAt: string; productName: string; category: string; amount: number; unit: string }>;
 };
 
@@ -69,6 +73,28 @@ export async function poolBalance(scope: Scope, poolId: number, window: TimeWind
   return points;
 }
 
+/**
+ * One pool's metal episodes read one way: from its kept rows when a kept
+ * version answers, else from its readings in the window (those of a metal
+ * series already read are passed in as its points).
+ */
+export async function poolEpisodes(
+  scope: Scope,
+  poolId: number,
+  params: AnalyticsParams,
+  readAs: ReadAs,
+  metalPoints?: readonly SeriesPoint[],
+  keptVersion?: number | null,
+): Promise<{ list: Episode[]; source: AnswerSource }> {
+  const versionId = keptVersion === undefined ? await keptVersionFor(scope.companyId, params) : keptVersion;
+  if (versionId !== null) return { list: await keptEpisodeList({ scope }, versionId, readAs, [poolId]), source: "kept" };
+  const tests =
+    metalPoints && readAs !== "all"
+      ? metalPoints.map((p, i) => ({ id: String(i), poolId: String(poolId), takenAt: Date.parse(p.at), [readAs]: { value: p.value, belowDetection: p.belowDetection } }))
+      : await metalReadings({ scope }, { window: params.window, metals: metalsReadAs(readAs), poolIds: [poolId] });
+  return { list: analyseMetalHistory(tests, { thresholds: params.thresholds, metals: metalsReadAs(readAs) }).episodes, source: "recomputed" };
+}
+
 /** One analyte of one pool over time, with the pool's metal episodes and treatments; null when not in scope. */
 export async function poolSeries(scope: Scope, poolId: number, analyte: SeriesAnalyte, params: AnalyticsParams): Promise<PoolSeries | null> {
   if (!(await poolInScope(scope, poolId))) return null;
@@ -92,20 +118,18 @@ export async function poolSeries(scope: Scope, poolId: number, analyte: SeriesAn
       .orderBy(asc(waterTests.sampledAt));
     points = rows.map((r) => ({ at: r.sampledAt.toISOString(), value: Number(r.value), belowDetection: false }));
   }
-  const metals = isMetal(analyte) ? [analyte] : METALS;
-  const [readings, treated] = await Promise.all([
-    isMetal(analyte) ? Promise.resolve(null) : metalReadings({ scope }, { window: params.window, poolIds: [poolId] }),
+  const [episodes, treated] = await Promise.all([
+    poolEpisodes(scope, poolId, params, isMetal(analyte) ? analyte : "all", isMetal(analyte) ? points : undefined),
     treatmentRows({ scope }, { window: params.window, poolIds: [poolId] }),
   ]);
-  const metalTests = readings ?? points.map((p, i) => ({ id: String(i), poolId: String(poolId), takenAt: Date.parse(p.at), [analyte]: { value: p.value, belowDetection: p.belowDetection } }));
-  const history = analyseMetalHistory(metalTests, { thresholds: params.thresholds, metals });
   return {
     poolId,
     analyte,
     unit: ANALYTE_UNITS[analyte],
     points,
     levels: isMetal(analyte) ? params.thresholds[analyte] : null,
-    episodes: history.episodes.map(episodeJson),
+    episodes: episodes.list.map(episodeJson),
+    source: episodes.source,
     treatments: treated.map((t) => ({
       appliedAt: new Date(t.appliedAt).toISOString(),
       productName: t.productName,

@@ -40,8 +40,10 @@ export type SharedSourceAlerts = { alerts: SourceAlert[]; sourcesWatched: number
 export async function sharedSourceAlertList(
   scope: Scope,
   params: AnalyticsParams & { sourceIds?: readonly number[] },
+  /** The kept version a caller already chose for the rest of its answer (null: recompute), so one answer reads one version. */
+  keptVersion?: number | null,
 ): Promise<SharedSourceAlerts> {
-  const versionId = await keptVersionFor(scope.companyId, params);
+  const versionId = keptVersion === undefined ? await keptVersionFor(scope.companyId, params) : keptVersion;
   if (versionId !== null) {
     const { alerts, sourcesWatched } = await sourceAlertsFrom(scope, params, (poolIds) => keptEpisodeList({ companyId: scope.companyId }, versionId, params.metal ?? "all", poolIds));
     return { alerts, sourcesWatched, source: "kept" };

@@ -1,14 +1,16 @@
 import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
-import type { MetalTest } from "@analysis/metals/episodes";
-import { METALS, metalStatus, type Metal, type MetalReading, type MetalThresholds } from "@analysis/metals/reading";
+import { notTested, poolMetalStates, type MetalStateOfPool, type PoolMetalState } from "@analysis/metals/metal-state";
+import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
+import { isoInstant } from "@analysis/json-shapes";
 import { db } from "../../db/client";
 import { fillSources, pools, routes } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { sourceAlertsWithReadings, type SourceAlert } from "./shared-source-alerts";
+import { keptMetalStates, keptVersionFor, type AnswerSource } from "../kept/read-kept";
+import { sharedSourceAlertList, sourceAlertsWithReadings, type SourceAlert } from "./shared-source-alerts";
 import { sourceTestRows } from "./fill-water-tests";
 import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
 
-export type PoolMetalState = "open" | "clear" | "not-tested";
+export type { PoolMetalState };
 
 export type SourceHealthPool = {
   poolId: number;
@@ -29,53 +31,30 @@ export type SourceHealth = {
   flagged: boolean;
 };
 
-export type SourceHealthReport = { sources: SourceHealth[]; flaggedPoolsInScope: number };
+export type SourceHealthReport = { sources: SourceHealth[]; flaggedPoolsInScope: number; source: AnswerSource };
 
-/**
- * Per pool and metal, the last elevated, last clear and last tested time,
- * from readings ordered by pool and time. An episode is open when the last
- * elevated reading is later than the last clear one: only a clear reading
- * closes it.
- */
-function poolMetalStates(readings: readonly MetalTest[], poolIds: ReadonlySet<number>, thresholds: MetalThresholds) {
-  type Seen = { last: number | null; clear: number | null; elevated: number | null };
-  const seenByPool = new Map<number, Record<Metal, Seen>>();
-  for (const r of readings) {
-    const poolId = Number(r.poolId);
-    if (!poolIds.has(poolId)) continue;
-    let seen = seenByPool.get(poolId);
-    if (!seen) {
-      seen = Object.fromEntries(METALS.map((m) => [m, { last: null, clear: null, elevated: null }])) as unknown as Record<Metal, Seen>;
-      seenByPool.set(poolId, seen);
-    }
-    for (const metal of METALS) {
-      const reading = r[metal];
-      if (!reading) continue;
-      const s = seen[metal];
-      s.last = r.takenAt;
-      const status = metalStatus(reading, thresholds[metal]);
-      if (status === "clear") s.clear = r.takenAt;
-      else if (status === "elevated") s.elevated = r.takenAt;
-    }
-  }
-  const states = new Map<number, SourceHealthPool["metals"]>();
-  for (const [poolId, seen] of seenByPool) {
-    const metals = {} as SourceHealthPool["metals"];
-    for (const metal of METALS) {
-      const { last, clear, elevated } = seen[metal];
-      const state: PoolMetalState = last === null ? "not-tested" : elevated !== null && (clear === null || elevated > clear) ? "open" : "clear";
-      metals[metal] = { state, lastTestedAt: last === null ? null : new Date(last).toISOString() };
-    }
-    states.set(poolId, metals);
-  }
-  return states;
+function metalsJson(state: MetalStateOfPool): SourceHealthPool["metals"] {
+  const json = {} as SourceHealthPool["metals"];
+  for (const metal of METALS) json[metal] = { state: state[metal].state, lastTestedAt: isoInstant(state[metal].lastTestedAt) };
+  return json;
 }
 
-const untested = (): SourceHealthPool["metals"] => ({
-  copper: { state: "not-tested", lastTestedAt: null },
-  iron: { state: "not-tested", lastTestedAt: null },
-  manganese: { state: "not-tested", lastTestedAt: null },
-});
+/**
+ * The shared-source alerts and each pool's metal state: from the kept rows
+ * when a kept version answers (no reading is read), else from one read of
+ * every metal of the company's pools on the sources, which serves both.
+ */
+async function alertsAndStates(scope: Scope, params: AnalyticsParams, versionId: number | null, poolIds: readonly number[]) {
+  if (versionId !== null) {
+    const [alerts, states] = await Promise.all([
+      sharedSourceAlertList(scope, params, versionId),
+      keptMetalStates({ scope }, versionId, poolIds),
+    ]);
+    return { alerts: alerts.alerts, states, source: "kept" as const };
+  }
+  const alerts = await sourceAlertsWithReadings(scope, params, METALS);
+  return { alerts: alerts.alerts, states: poolMetalStates(alerts.readings, params.thresholds), source: "recomputed" as const };
+}
 
 /**
  * Every fill source the member may see (a technician: the sources of their
@@ -101,33 +80,32 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
     )
     .orderBy(asc(fillSources.name));
   const sourceIds = sources.map((s) => s.id);
-  if (sourceIds.length === 0) return { sources: [], flaggedPoolsInScope: 0 };
+  const versionId = await keptVersionFor(scope.companyId, params);
+  if (sourceIds.length === 0) return { sources: [], flaggedPoolsInScope: 0, source: versionId === null ? "recomputed" : "kept" };
 
   const onSources = scopedPools.filter((p) => p.fillSourceId !== null);
-  // One read of every metal serves both the alerts and the pools' metal state.
-  const [active, tests, alerts, routeNames] = await Promise.all([
+  const [active, tests, found, routeNames] = await Promise.all([
     db()
       .select({ sourceId: pools.fillSourceId, n: count() })
       .from(pools)
       .where(and(tenantCondition({ companyId: scope.companyId }), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
       .groupBy(pools.fillSourceId),
     sourceTestRows(scope.companyId, sourceIds),
-    sourceAlertsWithReadings(scope, params, METALS),
+    alertsAndStates(scope, params, versionId, onSources.map((p) => p.id)),
     db().select({ id: routes.id, name: routes.name }).from(routes).where(eq(routes.companyId, scope.companyId)),
   ]);
-  const states = poolMetalStates(alerts.readings, new Set(onSources.map((p) => p.id)), params.thresholds);
   const routeName = new Map(routeNames.map((r) => [r.id, r.name]));
   const activeBySource = new Map(active.map((a) => [a.sourceId, a.n]));
   let flaggedPoolsInScope = 0;
   const report = sources.map((s) => {
-    const sourceAlerts = alerts.alerts.filter((a) => a.fillSourceId === s.id);
+    const sourceAlerts = found.alerts.filter((a) => a.fillSourceId === s.id);
     const sourcePools = onSources
       .filter((p) => p.fillSourceId === s.id)
       .map((p) => ({
         poolId: p.id,
         street: p.street,
         routeName: p.routeId === null ? null : (routeName.get(p.routeId) ?? null),
-        metals: states.get(p.id) ?? untested(),
+        metals: metalsJson(found.states.get(String(p.id)) ?? notTested()),
       }));
     const flagged = sourceAlerts.length > 0;
     if (flagged) flaggedPoolsInScope += sourcePools.length;
@@ -146,5 +124,5 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
   });
   // Flagged sources first, then by name.
   report.sort((a, b) => Number(b.flagged) - Number(a.flagged) || a.name.localeCompare(b.name));
-  return { sources: report, flaggedPoolsInScope };
+  return { sources: report, flaggedPoolsInScope, source: found.source };
 }
