@@ -12,6 +12,7 @@ import { sharedSourceAlertList } from "~/.server/analytics/queries/shared-source
 import { sourceHealth } from "~/.server/analytics/queries/source-health";
 import { ALL_TIME } from "~/.server/analytics/queries/tenant-and-window";
 import { db } from "~/.server/db/client";
+import { keepPoolsInStep, lockPoolsForKeeping } from "~/.server/analytics/kept/keep-pools";
 import { alertEvents, companies, importBatches, mailOutbox, pools, products, treatments } from "~/.server/db/schema";
 import { serverEnv } from "~/.server/env";
 import { undoBatch } from "~/.server/imports/commit";
@@ -133,9 +134,14 @@ beforeAll(async () => {
   await visit(2, at(203), { iron: mgL(0.3), ph: 7.5, temperatureC: 28.9, calciumHardness: 300, totalAlkalinity: 100 });
   await visit(2, at(207), { iron: mgL(0.15), ph: 7.4 });
   const [product] = await db().insert(products).values({ companyId: scope.companyId, name: "Sequestrant S", category: "sequestrant", unitCost: 0.5 }).$returningId();
-  await db()
-    .insert(treatments)
-    .values({ companyId: scope.companyId, poolId: poolIds[2]!, productId: product!.id, appliedAt: new Date(T0 + 204 * DAY), amount: 20, unit: "fl oz", cost: 10 });
+  // A treatment written as the app writes one: the pool's kept rows (its courses among them) kept in step.
+  await db().transaction(async (tx) => {
+    await lockPoolsForKeeping(tx, [poolIds[2]!]);
+    await tx
+      .insert(treatments)
+      .values({ companyId: scope.companyId, poolId: poolIds[2]!, productId: product!.id, appliedAt: new Date(T0 + 204 * DAY), amount: 20, unit: "fl oz", cost: 10 });
+    await keepPoolsInStep(tx, scope.companyId, [poolIds[2]!]);
+  });
 
   await visit(3, at(1), { ph: 7.6 });
   await importRows(prefix, [
