@@ -20,8 +20,8 @@ export const READ_AS: readonly ReadAs[] = ["all", ...METALS];
 export type KeptEpisode = Episode & { readAs: ReadAs; seq: number };
 export type KeptSpan = PoolObservation & { readAs: ReadAs | "any"; latestBalanceAt?: number | null };
 
-/** A test as kept results read it: its metals, and whether it carries the saturation index's four inputs. */
-export type KeptInputTest = MetalTest & { balanceComplete?: boolean };
+/** A test as kept results read it: its metals and pH, and whether it carries the saturation index's four inputs. */
+export type KeptInputTest = MetalTest & { balanceComplete?: boolean; ph?: number | null };
 
 export const metalsReadAs = (readAs: ReadAs): readonly Metal[] => (readAs === "all" ? METALS : [readAs]);
 

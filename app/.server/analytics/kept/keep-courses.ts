@@ -1,11 +1,12 @@
 import { and, asc, eq, sql, type SQL } from "drizzle-orm";
 import { keptCoursesOf, type KeptCourse } from "@analysis/outcomes/kept-courses";
+import type { KeptInputTest } from "@analysis/metals/kept-history";
 import type { Metal } from "@analysis/metals/reading";
 import type { OutcomeTest, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { db } from "../../db/client";
 import { keptTreatmentCourses, pools, type KeptCourseTreatment } from "../../db/schema";
 import { utcDate } from "../../db/values";
-import { metalReading, PRODUCT_CATEGORY } from "../queries/metal-readings";
+import { PRODUCT_CATEGORY } from "../queries/metal-readings";
 import { tenantCondition, type Tenant } from "../queries/tenant-and-window";
 import type { LiveVersion, Writer } from "./keep-pools";
 
@@ -20,30 +21,15 @@ const idList = (ids: readonly number[]) => sql.join(ids.map((id) => sql`${id}`),
 const number = (value: unknown) => (value === null || value === undefined ? null : Number(value));
 const ms = (value: unknown) => utcDate(value)?.getTime() ?? null;
 
-/**
- * What the courses of some pools are worked out from: their metal treatments
- * (the categories that start or join a course, with each product's category
- * as it is now) and their tests with a metal or the pH, both ordered by pool,
- * time and id as the recomputed answer reads them. Under `lock` the reads see
- * the latest committed rows, and hold the products read against a change of
- * category until the write commits.
- */
-export async function courseInputs(
-  reader: Writer,
-  companyId: number,
-  poolIds: readonly number[],
-  lock: boolean,
-): Promise<{ treatments: TreatmentRecord[]; tests: OutcomeTest[] }> {
-  if (poolIds.length === 0) return { treatments: [], tests: [] };
-  const locking = lock ? sql` LOCK IN SHARE MODE` : sql``;
-  const treatmentRows = await rowsOf(
+async function metalTreatments(reader: Writer, companyId: number, poolIds: readonly number[], lock: boolean): Promise<TreatmentRecord[]> {
+  if (poolIds.length === 0) return [];
+  const rows = await rowsOf(
     reader,
     sql`SELECT t.id, t.pool_id, t.product_id, p.category, t.applied_at, t.cost FROM treatments t JOIN products p ON p.id = t.product_id
       WHERE t.company_id = ${companyId} AND t.pool_id IN (${idList(poolIds)}) AND p.category IN ('sequestrant', 'collector_pad', 'ph_decreaser')
-      ORDER BY t.pool_id, t.applied_at, t.id${locking}`,
+      ORDER BY t.pool_id, t.applied_at, t.id${lock ? sql` LOCK IN SHARE MODE` : sql``}`,
   );
-  if (treatmentRows.length === 0) return { treatments: [], tests: [] };
-  const treatments = treatmentRows.map((r) => ({
+  return rows.map((r) => ({
     id: String(r.id),
     poolId: String(r.pool_id),
     productId: String(r.product_id),
@@ -51,24 +37,31 @@ export async function courseInputs(
     appliedAt: ms(r.applied_at)!,
     cost: number(r.cost),
   }));
-  const treated = [...new Set(treatmentRows.map((r) => Number(r.pool_id)))];
-  const testRows = await rowsOf(
-    reader,
-    sql`SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection, ph
-      FROM water_tests WHERE company_id = ${companyId} AND pool_id IN (${idList(treated)})
-        AND (copper IS NOT NULL OR iron IS NOT NULL OR manganese IS NOT NULL OR ph IS NOT NULL)
-      ORDER BY pool_id, sampled_at, id${locking}`,
-  );
-  const tests = testRows.map((r) => ({
-    id: String(r.id),
-    poolId: String(r.pool_id),
-    takenAt: ms(r.sampled_at)!,
-    ph: number(r.ph),
-    copper: metalReading(number(r.copper), Number(r.copper_below_detection) === 1),
-    iron: metalReading(number(r.iron), Number(r.iron_below_detection) === 1),
-    manganese: metalReading(number(r.manganese), Number(r.manganese_below_detection) === 1),
-  }));
-  return { treatments, tests };
+}
+
+/** The tests the courses read: those of treated pools with a metal or the pH, in the order they came (pool, time, id). */
+function courseTests(tests: readonly KeptInputTest[], treatments: readonly TreatmentRecord[]): OutcomeTest[] {
+  const treated = new Set(treatments.map((t) => t.poolId));
+  return tests.filter((t) => treated.has(t.poolId) && (t.copper || t.iron || t.manganese || (t.ph !== null && t.ph !== undefined)));
+}
+
+/**
+ * What the courses of some pools are worked out from: their metal treatments
+ * (the categories that start or join a course, with each product's category
+ * as it is now; under `lock` held against a change of category until the
+ * write commits) and their tests with a metal or the pH, ordered by pool,
+ * time and id as the recomputed answer reads them. `tests` are every test of
+ * the pools, as the write has already read them.
+ */
+export async function courseInputs(
+  reader: Writer,
+  companyId: number,
+  poolIds: readonly number[],
+  tests: readonly KeptInputTest[],
+  lock: boolean,
+): Promise<{ treatments: TreatmentRecord[]; tests: OutcomeTest[] }> {
+  const treatments = await metalTreatments(reader, companyId, poolIds, lock);
+  return { treatments, tests: treatments.length ? courseTests(tests, treatments) : [] };
 }
 
 const at = (value: number | null) => (value === null ? null : new Date(value));
@@ -81,11 +74,17 @@ const storedTreatments = (treatments: readonly TreatmentRecord[]): KeptCourseTre
  * worked out from their treatments and tests (read with a locking read, in
  * the caller's transaction, after lockPoolsForKeeping).
  */
-export async function replaceKeptCourses(writer: Writer, companyId: number, version: LiveVersion, poolIds: readonly number[]): Promise<void> {
+export async function replaceKeptCourses(
+  writer: Writer,
+  companyId: number,
+  version: LiveVersion,
+  poolIds: readonly number[],
+  poolTests: readonly KeptInputTest[],
+): Promise<void> {
   for (let from = 0; from < poolIds.length; from += 1000) {
     await writer.execute(sql`DELETE FROM kept_treatment_courses WHERE pool_id IN (${idList(poolIds.slice(from, from + 1000))}) AND version_id = ${version.id}`);
   }
-  const { treatments, tests } = await courseInputs(writer, companyId, poolIds, true);
+  const { treatments, tests } = await courseInputs(writer, companyId, poolIds, poolTests, true);
   const courses = keptCoursesOf(treatments, tests, version.levels);
   for (let from = 0; from < courses.length; from += 500) {
     const values = courses.slice(from, from + 500).map(
@@ -116,7 +115,9 @@ function keptCourseOfRow(r: CourseRow): KeptCourse {
     treatments: stored.map((t) => ({ ...t, poolId: String(r.poolId) })),
     combination: r.combination,
     categoryCombination: r.categoryCombination,
-    cost: r.cost,
+    // Summed again from the treatments' own costs, in the course's order: a DOUBLE read back through the
+    // driver's text protocol can lose the last binary digit of a sum such as 8.6 + 57.66 + 24.5.
+    cost: stored.reduce((sum, t) => sum + (t.cost ?? 0), 0),
     costComplete: r.costComplete,
     baseline:
       r.baselineTestId === null

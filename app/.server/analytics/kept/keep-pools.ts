@@ -74,12 +74,13 @@ type TestRow = [
   manganese: number | null,
   manganeseBelow: number,
   balanceComplete: number,
+  ph: number | string | null,
 ];
 
 export async function poolTests(source: Writer | RawReader, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
   if (poolIds.length === 0) return [];
   const statement = `SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
-      (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete
+      (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete, ph
     FROM water_tests WHERE company_id = ? AND pool_id IN (${poolIds.map(() => "?").join(", ")})
     ORDER BY pool_id, sampled_at, id${lock ? " LOCK IN SHARE MODE" : ""}`;
   const params = [companyId, ...poolIds];
@@ -93,7 +94,7 @@ export async function poolTests(source: Writer | RawReader, companyId: number, p
     ];
     rows = objects.map((r) => Object.values(r) as TestRow);
   }
-  return rows.map(([id, poolId, sampledAt, copper, copperBelow, iron, ironBelow, manganese, manganeseBelow, balanceComplete]) => ({
+  return rows.map(([id, poolId, sampledAt, copper, copperBelow, iron, ironBelow, manganese, manganeseBelow, balanceComplete, ph]) => ({
     id: String(id),
     poolId: String(poolId),
     takenAt: utcDate(sampledAt)!.getTime(),
@@ -101,6 +102,7 @@ export async function poolTests(source: Writer | RawReader, companyId: number, p
     iron: metalReading(iron === null ? null : Number(iron), Number(ironBelow) === 1),
     manganese: metalReading(manganese === null ? null : Number(manganese), Number(manganeseBelow) === 1),
     balanceComplete: Number(balanceComplete) === 1,
+    ph: ph === null ? null : Number(ph),
   }));
 }
 
@@ -227,7 +229,7 @@ export async function replaceKeptRows(
   await insertSpans(writer, version.id, companyId, rows.spans);
   await replaceChangedMonths(writer, version.id, companyId, monthsBefore, months);
   await changeMonthValues(writer, version.id, companyId, monthValueChanges(monthsBefore, months));
-  await replaceKeptCourses(writer, companyId, version, poolIds);
+  await replaceKeptCourses(writer, companyId, version, poolIds, tests);
 }
 
 /**

@@ -173,7 +173,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   compare("kept_pool_spans", keptSpans, recomputedSpans, differences);
   const months = await compareMonths(version.id, keptMonthsOf(tests, levels, version.time_zone), differences);
 
-  const courseSources = await courseInputs(db(), companyId, poolIds, false);
+  const courseSources = await courseInputs(db(), companyId, poolIds, tests, false);
   const recomputedCourses = new Map(keptCoursesOf(courseSources.treatments, courseSources.tests, levels).map((c) => [courseKey(c), courseLine(c)]));
   const keptCourseLines = new Map((await keptCourses({ companyId }, version.id)).map((c) => [courseKey(c), courseLine(c)]));
   compare("kept_treatment_courses", keptCourseLines, recomputedCourses, differences);
