@@ -74,6 +74,88 @@ const storedTreatments = (treatments: readonly TreatmentRecord[]): KeptCourseTre
  * worked out from their treatments and tests (read with a locking read, in
  * the caller's transaction, after lockPoolsForKeeping).
  */
+/** Everything a kept course holds, in a fixed order (the pool, metal and place are its key). */
+export function courseLine(c: KeptCourse): string {
+  return JSON.stringify([
+    c.startAt,
+    c.treatments.map((t) => [t.id, t.productId, t.category, t.appliedAt, t.cost ?? null]),
+    c.combination,
+    c.categoryCombination,
+    c.cost,
+    c.costComplete,
+    c.baseline && [c.baseline.testId, c.baseline.takenAt, c.baseline.value, c.baseline.status],
+    c.ineligible,
+    c.phAtTreatment,
+    c.phStratum,
+    c.firstFollowUp && [c.firstFollowUp.testId, c.firstFollowUp.takenAt, c.firstFollowUp.value, c.firstFollowUp.belowDetection],
+    c.clockStoppedAt,
+    c.cleared,
+    c.censoredBy,
+    c.clearedAt,
+    c.recurrence,
+  ]);
+}
+
+export const courseKey = (c: KeptCourse) => `${c.metal}/${c.poolId}/${c.seq}`;
+
+/** A kept course as the driver returns its row (snake_case columns). */
+function keptCourseOfRaw(r: Row): KeptCourse {
+  return keptCourseOfRow({
+    versionId: Number(r.version_id),
+    metal: r.metal as Metal,
+    poolId: Number(r.pool_id),
+    seq: Number(r.seq),
+    companyId: Number(r.company_id),
+    startedAt: utcDate(r.started_at)!,
+    treatments: (typeof r.treatments === "string" ? JSON.parse(r.treatments) : r.treatments) as KeptCourseTreatment[],
+    combination: String(r.combination),
+    categoryCombination: String(r.category_combination),
+    cost: Number(r.cost),
+    costComplete: Number(r.cost_complete) === 1,
+    baselineTestId: number(r.baseline_test_id),
+    baselineAt: utcDate(r.baseline_at),
+    baselineValue: number(r.baseline_value),
+    baselineStatus: r.baseline_status as CourseRow["baselineStatus"],
+    ineligible: r.ineligible as CourseRow["ineligible"],
+    phAtTreatment: number(r.ph_at_treatment),
+    phStratum: r.ph_stratum as CourseRow["phStratum"],
+    followUpTestId: number(r.follow_up_test_id),
+    followUpAt: utcDate(r.follow_up_at),
+    followUpValue: number(r.follow_up_value),
+    followUpBelowDetection: r.follow_up_below_detection === null ? null : Number(r.follow_up_below_detection) === 1,
+    clockStoppedAt: utcDate(r.clock_stopped_at)!,
+    cleared: Number(r.cleared) === 1,
+    censoredBy: r.censored_by as CourseRow["censoredBy"],
+    clearedAt: utcDate(r.cleared_at),
+    recurrence: r.recurrence as CourseRow["recurrence"],
+  });
+}
+
+const courseValues = (versionId: number, companyId: number, c: KeptCourse) =>
+  sql`(${versionId}, ${c.metal}, ${Number(c.poolId)}, ${c.seq}, ${companyId}, ${at(c.startAt)}, ${JSON.stringify(storedTreatments(c.treatments))},
+    ${c.combination}, ${c.categoryCombination}, ${c.cost}, ${c.costComplete},
+    ${c.baseline ? Number(c.baseline.testId) : null}, ${at(c.baseline?.takenAt ?? null)}, ${c.baseline?.value ?? null}, ${c.baseline?.status ?? null},
+    ${c.ineligible}, ${c.phAtTreatment}, ${c.phStratum},
+    ${c.firstFollowUp ? Number(c.firstFollowUp.testId) : null}, ${at(c.firstFollowUp?.takenAt ?? null)}, ${c.firstFollowUp?.value ?? null},
+    ${c.firstFollowUp?.belowDetection ?? null},
+    ${at(c.clockStoppedAt)}, ${c.cleared}, ${c.censoredBy}, ${at(c.clearedAt)}, ${c.recurrence})`;
+
+const COURSE_COLUMNS = `version_id, metal, pool_id, seq, company_id, started_at, treatments,
+  combination, category_combination, cost, cost_complete, baseline_test_id, baseline_at, baseline_value, baseline_status,
+  ineligible, ph_at_treatment, ph_stratum, follow_up_test_id, follow_up_at, follow_up_value, follow_up_below_detection,
+  clock_stopped_at, cleared, censored_by, cleared_at, recurrence`;
+const COURSE_UPDATES = COURSE_COLUMNS.split(",")
+  .map((c) => c.trim())
+  .filter((c) => !["version_id", "metal", "pool_id", "seq"].includes(c))
+  .map((c) => `${c} = VALUES(${c})`)
+  .join(", ");
+
+/**
+ * Replaces one version's kept treatment courses of these pools with those
+ * worked out from their treatments and tests (read with a locking read, in
+ * the caller's transaction, after lockPoolsForKeeping). Only courses that
+ * changed are written: a visit changes one or two of a pool's many.
+ */
 export async function replaceKeptCourses(
   writer: Writer,
   companyId: number,
@@ -81,25 +163,35 @@ export async function replaceKeptCourses(
   poolIds: readonly number[],
   poolTests: readonly KeptInputTest[],
 ): Promise<void> {
+  const before = new Map<string, string>();
   for (let from = 0; from < poolIds.length; from += 1000) {
-    await writer.execute(sql`DELETE FROM kept_treatment_courses WHERE pool_id IN (${idList(poolIds.slice(from, from + 1000))}) AND version_id = ${version.id}`);
+    // A locking read: it sees what the write before this one kept, whatever this transaction's snapshot.
+    const rows = await rowsOf(
+      writer,
+      sql`SELECT * FROM kept_treatment_courses WHERE pool_id IN (${idList(poolIds.slice(from, from + 1000))}) AND version_id = ${version.id} FOR UPDATE`,
+    );
+    for (const row of rows) {
+      const course = keptCourseOfRaw(row);
+      before.set(courseKey(course), courseLine(course));
+    }
   }
   const { treatments, tests } = await courseInputs(writer, companyId, poolIds, poolTests, true);
   const courses = keptCoursesOf(treatments, tests, version.levels);
-  for (let from = 0; from < courses.length; from += 500) {
-    const values = courses.slice(from, from + 500).map(
-      (c) => sql`(${version.id}, ${c.metal}, ${Number(c.poolId)}, ${c.seq}, ${companyId}, ${at(c.startAt)}, ${JSON.stringify(storedTreatments(c.treatments))},
-        ${c.combination}, ${c.categoryCombination}, ${c.cost}, ${c.costComplete},
-        ${c.baseline ? Number(c.baseline.testId) : null}, ${at(c.baseline?.takenAt ?? null)}, ${c.baseline?.value ?? null}, ${c.baseline?.status ?? null},
-        ${c.ineligible}, ${c.phAtTreatment}, ${c.phStratum},
-        ${c.firstFollowUp ? Number(c.firstFollowUp.testId) : null}, ${at(c.firstFollowUp?.takenAt ?? null)}, ${c.firstFollowUp?.value ?? null},
-        ${c.firstFollowUp?.belowDetection ?? null},
-        ${at(c.clockStoppedAt)}, ${c.cleared}, ${c.censoredBy}, ${at(c.clearedAt)}, ${c.recurrence})`,
+  const now = new Set(courses.map(courseKey));
+  const gone = [...before.keys()].filter((key) => !now.has(key));
+  for (let from = 0; from < gone.length; from += 500) {
+    const keys = gone.slice(from, from + 500).map((key) => {
+      const [metal, poolId, seq] = key.split("/");
+      return sql`(${metal}, ${Number(poolId)}, ${Number(seq)})`;
+    });
+    await writer.execute(sql`DELETE FROM kept_treatment_courses WHERE version_id = ${version.id} AND (metal, pool_id, seq) IN (${sql.join(keys, sql`, `)})`);
+  }
+  const changed = courses.filter((c) => before.get(courseKey(c)) !== courseLine(c));
+  for (let from = 0; from < changed.length; from += 500) {
+    const values = changed.slice(from, from + 500).map((c) => courseValues(version.id, companyId, c));
+    await writer.execute(
+      sql`INSERT INTO kept_treatment_courses (${sql.raw(COURSE_COLUMNS)}) VALUES ${sql.join(values, sql`, `)} ON DUPLICATE KEY UPDATE ${sql.raw(COURSE_UPDATES)}`,
     );
-    await writer.execute(sql`INSERT INTO kept_treatment_courses (version_id, metal, pool_id, seq, company_id, started_at, treatments,
-      combination, category_combination, cost, cost_complete, baseline_test_id, baseline_at, baseline_value, baseline_status,
-      ineligible, ph_at_treatment, ph_stratum, follow_up_test_id, follow_up_at, follow_up_value, follow_up_below_detection,
-      clock_stopped_at, cleared, censored_by, cleared_at, recurrence) VALUES ${sql.join(values, sql`, `)}`);
   }
 }
 

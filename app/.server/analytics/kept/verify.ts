@@ -1,11 +1,11 @@
 import { sql } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptSpan } from "@analysis/metals/kept-history";
 import { keptMonthsOf, type KeptMonthValue, type KeptPoolMonth } from "@analysis/metals/kept-months";
-import { keptCoursesOf, type KeptCourse } from "@analysis/outcomes/kept-courses";
+import { keptCoursesOf } from "@analysis/outcomes/kept-courses";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import { db, pool } from "../../db/client";
 import { utcDate } from "../../db/values";
-import { courseInputs, keptCourses } from "./keep-courses";
+import { courseInputs, courseKey, courseLine, keptCourses } from "./keep-courses";
 import { poolTests } from "./keep-pools";
 
 export type KeptDifference = {
@@ -41,29 +41,6 @@ function episodeLine(
 const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">) =>
   [s.firstTestAt, s.lastTestAt, s.tests, s.latestBalanceAt ?? null].join(" ");
 
-/** Everything a kept course holds, in a fixed order (the pool, metal and place are its key). */
-function courseLine(c: KeptCourse): string {
-  return JSON.stringify([
-    c.startAt,
-    c.treatments.map((t) => [t.id, t.productId, t.category, t.appliedAt, t.cost ?? null]),
-    c.combination,
-    c.categoryCombination,
-    c.cost,
-    c.costComplete,
-    c.baseline && [c.baseline.testId, c.baseline.takenAt, c.baseline.value, c.baseline.status],
-    c.ineligible,
-    c.phAtTreatment,
-    c.phStratum,
-    c.firstFollowUp && [c.firstFollowUp.testId, c.firstFollowUp.takenAt, c.firstFollowUp.value, c.firstFollowUp.belowDetection],
-    c.clockStoppedAt,
-    c.cleared,
-    c.censoredBy,
-    c.clearedAt,
-    c.recurrence,
-  ]);
-}
-
-const courseKey = (c: KeptCourse) => `${c.metal}/${c.poolId}/${c.seq}`;
 
 function compare(table: KeptDifference["table"], kept: Map<string, string>, recomputed: Map<string, string>, into: KeptDifference[]) {
   for (const [key, line] of recomputed) {
