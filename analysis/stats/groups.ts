@@ -1,29 +1,9 @@
 import type { Episode, MetalTest } from "../metals/episodes";
 import type { Metal } from "../metals/reading";
-import {
-  DEFAULT_HEATER_AGE_EDGES,
-  exchangerMetalAt,
-  heaterAgeBucketAt,
-  type PoolProfile,
-} from "../metals/route-book";
-import {
-  DEFAULT_CONFIDENCE,
-  poissonRateInterval,
-  rateRatioInterval,
-  wilsonInterval,
-  type Interval,
-  type RateRatio,
-} from "./intervals";
+import { DEFAULT_HEATER_AGE_EDGES, exchangerMetalAt, heaterAgeBucketAt, type PoolProfile } from "../metals/route-book";
+import { DEFAULT_CONFIDENCE, poissonRateInterval, rateRatioInterval, wilsonInterval, type Interval, type RateRatio } from "./intervals";
 
-export type GroupingKey =
-  | "fill-source"
-  | "fill-source-kind"
-  | "heater-age"
-  | "exchanger-metal"
-  | "neighbourhood"
-  | "route"
-  | "surface"
-  | "sanitiser";
+export type GroupingKey = "fill-source" | "fill-source-kind" | "heater-age" | "exchanger-metal" | "neighbourhood" | "route" | "surface" | "sanitiser";
 
 export const GROUPING_KEYS: readonly GroupingKey[] = [
   "fill-source",
@@ -103,10 +83,26 @@ export function groupObservations(
   key: GroupingKey,
   options: ObservationOptions = {},
 ): GroupObservation[] {
-  const rules = { ...DEFAULT_GROUP_RULES, ...options.rules };
+  return groupObservationsByMetal(pools, tests, episodes, key, [options.metal ?? null], options.rules).get(options.metal ?? null)!;
+}
+
+/**
+ * The same observations for several metals at once (null: every metal): the
+ * observed years, the costly part, are split into groups once, and each
+ * metal's openings counted on its own copy of them.
+ */
+export function groupObservationsByMetal<M extends Metal | null>(
+  pools: readonly PoolProfile[],
+  tests: readonly Pick<MetalTest, "poolId" | "takenAt">[],
+  episodes: readonly Episode[],
+  key: GroupingKey,
+  metals: readonly M[],
+  rulesOverride?: Partial<GroupRules>,
+): Map<M, GroupObservation[]> {
+  const rules = { ...DEFAULT_GROUP_RULES, ...rulesOverride };
   const profiles = new Map(pools.map((p) => [p.poolId, p]));
-  const cells = new Map<string, GroupObservation>();
-  const cell = (group: string, poolId: string): GroupObservation => {
+  const observed = new Map<string, GroupObservation>();
+  const cellIn = (cells: Map<string, GroupObservation>, group: string, poolId: string): GroupObservation => {
     const id = `${group}\u0000${poolId}`;
     let found = cells.get(id);
     if (!found) {
@@ -128,17 +124,34 @@ export function groupObservations(
     times.sort((a, b) => a - b);
     for (let i = 0; i + 1 < times.length; i++) {
       const at = times[i]!;
-      cell(groupOf(pool, key, at, rules), poolId).years += (times[i + 1]! - at) / MS_PER_YEAR;
+      cellIn(observed, groupOf(pool, key, at, rules), poolId).years += (times[i + 1]! - at) / MS_PER_YEAR;
     }
-    if (times.length === 1) cell(groupOf(pool, key, times[0]!, rules), poolId);
+    if (times.length === 1) cellIn(observed, groupOf(pool, key, times[0]!, rules), poolId);
   }
+  // An episode opens in the group its pool was in at that moment: worked out once, whichever metals are asked.
+  const openedIn: Array<{ metal: Metal; id: string; group: string; poolId: string }> = [];
   for (const episode of episodes) {
-    if (options.metal && episode.metal !== options.metal) continue;
     const pool = profiles.get(episode.poolId);
     if (!pool) continue;
-    cell(groupOf(pool, key, episode.openedAt, rules), episode.poolId).openings++;
+    const group = groupOf(pool, key, episode.openedAt, rules);
+    openedIn.push({ metal: episode.metal, id: `${group}\u0000${episode.poolId}`, group, poolId: episode.poolId });
   }
-  return [...cells.values()];
+  const byMetal = new Map<M, GroupObservation[]>();
+  for (const metal of metals) {
+    const openings = new Map<string, number>();
+    const openedOnly: GroupObservation[] = [];
+    for (const o of openedIn) {
+      if (metal !== null && o.metal !== metal) continue;
+      const n = openings.get(o.id);
+      if (n === undefined && !observed.has(o.id)) openedOnly.push({ group: o.group, poolId: o.poolId, years: 0, openings: 0 });
+      openings.set(o.id, (n ?? 0) + 1);
+    }
+    const list: GroupObservation[] = [];
+    for (const [id, o] of observed) list.push({ ...o, openings: openings.get(id) ?? 0 });
+    for (const o of openedOnly) list.push({ ...o, openings: openings.get(`${o.group}\u0000${o.poolId}`)! });
+    byMetal.set(metal, list);
+  }
+  return byMetal;
 }
 
 export interface GroupStatistics {

@@ -1,5 +1,12 @@
 import type { Metal } from "@analysis/metals/reading";
-import { compareGroups, GROUPING_KEYS, groupObservations, type GroupingKey } from "@analysis/stats/groups";
+import {
+  compareGroups,
+  GROUPING_KEYS,
+  groupObservations,
+  groupObservationsByMetal,
+  type GroupingKey,
+  type GroupObservation,
+} from "@analysis/stats/groups";
 import { groupValueLabel } from "~/lib/analytics/labels";
 import { observationInstants } from "~/lib/analytics/observation-points";
 import type { Scope } from "../../scope";
@@ -27,20 +34,14 @@ export type GroupFigure = {
   tooSmallToJudge: boolean;
 };
 
-export type GroupFigures = {
-  grouping: GroupingKey;
-  metal: Metal | null;
-  pools: number;
-  poolYears: number;
-  openings: number;
-  groups: GroupFigure[];
-};
+export type GroupFigures = { grouping: GroupingKey; metal: Metal | null; pools: number; poolYears: number; openings: number; groups: GroupFigure[] };
 
 /** Names for source and route ids, so groups read as people know them. */
 function groupNames(dataset: MetalDataset, grouping: GroupingKey): Map<string, string> {
   const names = new Map<string, string>();
   for (const label of dataset.book.labels.values()) {
-    if (grouping === "fill-source" && label.fillSourceId !== null && label.fillSourceName) names.set(String(label.fillSourceId), label.fillSourceName);
+    if (grouping === "fill-source" && label.fillSourceId !== null && label.fillSourceName)
+      names.set(String(label.fillSourceId), label.fillSourceName);
     if (grouping === "route" && label.routeId !== null && label.routeName) names.set(String(label.routeId), label.routeName);
   }
   return names;
@@ -71,7 +72,15 @@ export function computeGroupFigures(
   metal: Metal | null,
   instants: readonly Instant[] = groupingInstants(dataset, grouping),
 ): GroupFigures {
-  const observations = groupObservations(dataset.book.profiles, instants, dataset.history.episodes, grouping, metal ? { metal } : {});
+  return figuresOf(
+    dataset,
+    grouping,
+    metal,
+    groupObservations(dataset.book.profiles, instants, dataset.history.episodes, grouping, metal ? { metal } : {}),
+  );
+}
+
+function figuresOf(dataset: MetalDataset, grouping: GroupingKey, metal: Metal | null, observations: readonly GroupObservation[]): GroupFigures {
   const stats = compareGroups(observations);
   const names = groupNames(dataset, grouping);
   const groups = stats.map((s) => ({
@@ -107,15 +116,22 @@ export type RiskyGroup = GroupFigure & { grouping: GroupingKey; metal: Metal };
 /** Every group flagged risky, over all dimensions and each metal of the dataset. */
 export function computeRiskyGroups(dataset: MetalDataset): RiskyGroup[] {
   const risky: RiskyGroup[] = [];
-  // The observed time does not depend on the metal: work it out once per dimension.
-  const instants = new Map(GROUPING_KEYS.map((grouping) => [grouping, groupingInstants(dataset, grouping)]));
-  for (const metal of dataset.metals) {
-    for (const grouping of GROUPING_KEYS) {
-      for (const g of computeGroupFigures(dataset, grouping, metal, instants.get(grouping)).groups) {
+  for (const grouping of GROUPING_KEYS) {
+    // The observed time does not depend on the metal: it is split into groups once per dimension.
+    const byMetal = groupObservationsByMetal(
+      dataset.book.profiles,
+      groupingInstants(dataset, grouping),
+      dataset.history.episodes,
+      grouping,
+      dataset.metals,
+    );
+    for (const metal of dataset.metals) {
+      for (const g of figuresOf(dataset, grouping, metal, byMetal.get(metal)!).groups) {
         if (g.risky) risky.push({ ...g, grouping, metal });
       }
     }
   }
-  return risky.sort((a, b) => (b.rateRatio.estimate ?? Infinity) - (a.rateRatio.estimate ?? Infinity));
+  // Metal first, then dimension, as listed before the sort, so groups of equal ratio keep one order.
+  const order = (g: RiskyGroup) => dataset.metals.indexOf(g.metal) * GROUPING_KEYS.length + GROUPING_KEYS.indexOf(g.grouping);
+  return risky.sort((a, b) => order(a) - order(b)).sort((a, b) => (b.rateRatio.estimate ?? Infinity) - (a.rateRatio.estimate ?? Infinity));
 }
-
