@@ -1,10 +1,8 @@
 import { randomUUID } from "node:crypto";
-import { setTimeout as sleep } from "node:timers/promises";
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { and, eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS } from "@analysis/metals/reading";
-import { keepCompanyCurrent } from "~/.server/analytics/kept/versions";
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { groupFigures } from "~/.server/analytics/queries/group-figures";
@@ -22,6 +20,7 @@ import type { Scope } from "~/.server/scope";
 import type { VisitInput } from "~/lib/forms/visit";
 import { createFillSource } from "../fixtures/company";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
+import { keptReady } from "../fixtures/kept";
 
 const DAY = 86_400_000;
 const T0 = Date.UTC(2024, 2, 1, 12);
@@ -99,15 +98,6 @@ function importFile(prefix: string, rows: Extract<Step, { kind: "import" }>["row
   return new TextEncoder().encode(lines.join("\n"));
 }
 
-/** Waits until the company's current levels have a ready kept version (a build may run in the background). */
-async function keptReady(companyId: number): Promise<number> {
-  for (let attempt = 0; attempt < 200; attempt++) {
-    const version = await keepCompanyCurrent(companyId);
-    if (version !== null) return version;
-    await sleep(50);
-  }
-  throw new Error("the kept results were never built");
-}
 
 describe("kept analytics stay equal to a recomputation from the tests", () => {
   it("after every step of random visits, imports, undos and changes of levels", async () => {

@@ -1,5 +1,4 @@
 import { randomUUID } from "node:crypto";
-import { setTimeout as sleep } from "node:timers/promises";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { desc, eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS, METALS, type Metal } from "@analysis/metals/reading";
@@ -20,6 +19,7 @@ import * as outcomesApi from "~/routes/api.analytics.outcomes";
 import { createMember, createRoute, requestAs, type FixtureMember } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
+import { keptReady } from "../fixtures/kept";
 
 const DAY = 86_400_000;
 const T0 = Date.UTC(2024, 2, 1, 12);
@@ -40,15 +40,6 @@ const productInput = (name: string, category: ProductInput["category"], unitCost
   active: true,
 });
 
-/** Waits until the company's current levels have a ready kept version (a build may run in the background). */
-async function keptReady(companyId: number): Promise<number> {
-  for (let attempt = 0; attempt < 200; attempt++) {
-    const version = await keepCompanyCurrent(companyId);
-    if (version !== null) return version;
-    await sleep(50);
-  }
-  throw new Error("the kept results were never built");
-}
 
 const instantText = (at: number) => new Date(at).toISOString().slice(0, 16).replace("T", " ");
 

@@ -1,10 +1,8 @@
 import { randomUUID } from "node:crypto";
-import { setTimeout as sleep } from "node:timers/promises";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS, type MetalReading } from "@analysis/metals/reading";
 import { keptVersionAsOf } from "~/.server/analytics/kept/read-kept";
-import { keepCompanyCurrent } from "~/.server/analytics/kept/versions";
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { poolEvidence, poolMetalPanel } from "~/.server/analytics/queries/pool-evidence";
 import { poolSeries } from "~/.server/analytics/queries/pool-series";
@@ -26,6 +24,7 @@ import * as evidenceApi from "~/routes/api.analytics.pools.$poolId.evidence";
 import * as seriesApi from "~/routes/api.analytics.pools.$poolId.series";
 import * as sourcesApi from "~/routes/api.analytics.sources";
 import { createFillSource, requestAs, type FixtureMember } from "../fixtures/company";
+import { keptReady } from "../fixtures/kept";
 import { callRoute } from "../fixtures/route-call";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
 
@@ -80,14 +79,6 @@ async function importRows(prefix: string, rows: Array<[pool: number, day: number
   return Math.max(...batches.map((b) => b.id));
 }
 
-async function keptReady(): Promise<number> {
-  for (let attempt = 0; attempt < 200; attempt++) {
-    const version = await keepCompanyCurrent(scope.companyId);
-    if (version !== null) return version;
-    await sleep(50);
-  }
-  throw new Error("the kept results were never built");
-}
 
 /** The same question answered with kept analytics turned off: worked out from the tests. */
 async function recomputed<T>(answer: () => Promise<T>): Promise<T> {
@@ -113,7 +104,7 @@ beforeAll(async () => {
   const well = await createFillSource(scope.companyId, "Ridge shared well", "shared_well");
   await db().update(pools).set({ fillSourceId: well }).where(eq(pools.companyId, scope.companyId));
   // Kept rows exist from the start, so every write below keeps them in step.
-  await keptReady();
+  await keptReady(scope.companyId);
 
   const at = (day: number) => T0 + day * DAY + visits * 1000;
   await visit(0, at(0), { iron: mgL(0.5), copper: mgL(0.05, true), ph: 7.4 });
