@@ -3,7 +3,7 @@ import fc from "fast-check";
 import { DAY_MS, analyseMetalHistory, type Episode, type MetalTest } from "../metals/episodes";
 import { heaterAgeBucketAt, type PoolProfile } from "../metals/route-book";
 import { clopperPearsonInterval, poissonRateInterval, wilsonInterval } from "./intervals";
-import { MS_PER_YEAR, compareGroups, groupComparison, groupObservations, type GroupObservation } from "./groups";
+import { MS_PER_YEAR, compareGroups, groupComparison, groupObservations, riskyGroups, type GroupObservation } from "./groups";
 
 const T0 = Date.UTC(2023, 0, 1);
 const day = (n: number) => T0 + n * DAY_MS;
@@ -142,5 +142,37 @@ describe("group comparison", () => {
         }
       }),
     );
+  });
+});
+
+describe("risky groups alone", () => {
+  const observations = fc.array(
+    fc.record({
+      group: fc.constantFrom("a", "b", "c", "d", "e"),
+      poolId: fc.constantFrom("1", "2", "3", "4", "5", "6", "7", "8"),
+      years: fc.double({ min: 0, max: 5, noNaN: true }),
+      openings: fc.nat(6),
+    }),
+    { maxLength: 40 },
+  );
+
+  it("are the groups the full comparison flags risky, with the same figures", () => {
+    fc.assert(
+      fc.property(observations, fc.constantFrom(1, 2, 3), (obs: GroupObservation[], minPools) => {
+        expect(riskyGroups(obs, { minPools })).toEqual(compareGroups(obs, { minPools }).filter((g) => g.risky));
+      }),
+      { numRuns: 500 },
+    );
+  });
+
+  it("include a group whose rest has no openings at all", () => {
+    const obs: GroupObservation[] = ["1", "2", "3"].map((poolId) => ({ group: "well", poolId, years: 1, openings: 4 }));
+    obs.push({ group: "town", poolId: "9", years: 10, openings: 0 }, { group: "town", poolId: "8", years: 10, openings: 0 });
+    expect(riskyGroups(obs).map((g) => g.group)).toEqual(
+      compareGroups(obs)
+        .filter((g) => g.risky)
+        .map((g) => g.group),
+    );
+    expect(riskyGroups(obs).map((g) => g.group)).toEqual(["well"]);
   });
 });

@@ -171,7 +171,20 @@ export interface GroupStatistics {
 }
 
 export function compareGroups(observations: readonly GroupObservation[], rulesOverride: Partial<GroupRules> = {}): GroupStatistics[] {
-  const rules = { ...DEFAULT_GROUP_RULES, ...rulesOverride };
+  return groupStatistics(observations, { ...DEFAULT_GROUP_RULES, ...rulesOverride }, false);
+}
+
+/**
+ * Only the groups compareGroups would flag risky, with the same figures.
+ * A group's interval is worked out only when its point estimate is above the
+ * bound (the lower bound never is when the estimate is not), which spares
+ * the exact intervals of most of a thousand fill sources.
+ */
+export function riskyGroups(observations: readonly GroupObservation[], rulesOverride: Partial<GroupRules> = {}): GroupStatistics[] {
+  return groupStatistics(observations, { ...DEFAULT_GROUP_RULES, ...rulesOverride }, true).filter((g) => g.risky);
+}
+
+function groupStatistics(observations: readonly GroupObservation[], rules: GroupRules, riskyOnly: boolean): GroupStatistics[] {
   const totals = { years: 0, openings: 0 };
   const groups = new Map<string, { pools: Set<string>; poolsWithEpisode: Set<string>; years: number; openings: number }>();
   for (const o of observations) {
@@ -189,8 +202,12 @@ export function compareGroups(observations: readonly GroupObservation[], rulesOv
   }
   const result: GroupStatistics[] = [];
   for (const [group, g] of groups) {
-    const rateRatio = rateRatioInterval(g.openings, g.years, totals.openings - g.openings, totals.years - g.years, rules.level);
     const tooSmallToJudge = g.pools.size < rules.minPools;
+    if (riskyOnly) {
+      const estimate = g.openings / g.years / ((totals.openings - g.openings) / (totals.years - g.years));
+      if (tooSmallToJudge || (Number.isFinite(estimate) && estimate <= rules.riskyRatioLowerBound)) continue;
+    }
+    const rateRatio = rateRatioInterval(g.openings, g.years, totals.openings - g.openings, totals.years - g.years, rules.level);
     result.push({
       group,
       pools: g.pools.size,

@@ -1,12 +1,5 @@
 import type { Metal } from "@analysis/metals/reading";
-import {
-  compareGroups,
-  GROUPING_KEYS,
-  groupObservations,
-  groupObservationsByMetal,
-  type GroupingKey,
-  type GroupObservation,
-} from "@analysis/stats/groups";
+import { compareGroups, GROUPING_KEYS, groupObservations, groupObservationsByMetal, riskyGroups, type GroupingKey, type GroupObservation } from "@analysis/stats/groups";
 import { groupValueLabel } from "~/lib/analytics/labels";
 import { observationInstants } from "~/lib/analytics/observation-points";
 import type { Scope } from "../../scope";
@@ -80,8 +73,14 @@ export function computeGroupFigures(
   );
 }
 
-function figuresOf(dataset: MetalDataset, grouping: GroupingKey, metal: Metal | null, observations: readonly GroupObservation[]): GroupFigures {
-  const stats = compareGroups(observations);
+function figuresOf(
+  dataset: MetalDataset,
+  grouping: GroupingKey,
+  metal: Metal | null,
+  observations: readonly GroupObservation[],
+  compare: typeof compareGroups = compareGroups,
+): GroupFigures {
+  const stats = compare(observations);
   const names = groupNames(dataset, grouping);
   const groups = stats.map((s) => ({
     group: s.group,
@@ -126,7 +125,7 @@ export function computeRiskyGroups(dataset: MetalDataset): RiskyGroup[] {
       dataset.metals,
     );
     for (const metal of dataset.metals) {
-      for (const g of figuresOf(dataset, grouping, metal, byMetal.get(metal)!).groups) {
+      for (const g of figuresOf(dataset, grouping, metal, byMetal.get(metal)!, riskyGroups).groups) {
         if (g.risky) risky.push({ ...g, grouping, metal });
       }
     }
