@@ -101,15 +101,19 @@ export function groupObservationsByMetal<M extends Metal | null>(
 ): Map<M, GroupObservation[]> {
   const rules = { ...DEFAULT_GROUP_RULES, ...rulesOverride };
   const profiles = new Map(pools.map((p) => [p.poolId, p]));
-  const observed = new Map<string, GroupObservation>();
-  const cellIn = (cells: Map<string, GroupObservation>, group: string, poolId: string): GroupObservation => {
-    const id = `${group}\u0000${poolId}`;
-    let found = cells.get(id);
-    if (!found) {
-      found = { group, poolId, years: 0, openings: 0 };
-      cells.set(id, found);
+  // Cells by pool, then by group, as indices into one list: a pool has one or a few groups, so no
+  // joined keys are built for tens of thousands of cells.
+  const cells: GroupObservation[] = [];
+  const cellsOfPool = new Map<string, Map<string, number>>();
+  const cellIndex = (group: string, poolId: string): number => {
+    let groups = cellsOfPool.get(poolId);
+    if (!groups) cellsOfPool.set(poolId, (groups = new Map()));
+    let index = groups.get(group);
+    if (index === undefined) {
+      index = cells.push({ group, poolId, years: 0, openings: 0 }) - 1;
+      groups.set(group, index);
     }
-    return found;
+    return index;
   };
 
   const timesByPool = new Map<string, number[]>();
@@ -124,31 +128,25 @@ export function groupObservationsByMetal<M extends Metal | null>(
     times.sort((a, b) => a - b);
     for (let i = 0; i + 1 < times.length; i++) {
       const at = times[i]!;
-      cellIn(observed, groupOf(pool, key, at, rules), poolId).years += (times[i + 1]! - at) / MS_PER_YEAR;
+      cells[cellIndex(groupOf(pool, key, at, rules), poolId)]!.years += (times[i + 1]! - at) / MS_PER_YEAR;
     }
-    if (times.length === 1) cellIn(observed, groupOf(pool, key, times[0]!, rules), poolId);
+    if (times.length === 1) cellIndex(groupOf(pool, key, times[0]!, rules), poolId);
   }
+  const observedCells = cells.length;
   // An episode opens in the group its pool was in at that moment: worked out once, whichever metals are asked.
-  const openedIn: Array<{ metal: Metal; id: string; group: string; poolId: string }> = [];
+  // A pool observed outside that group still gets a cell for the opening (no years of its own).
+  const openedIn: Array<{ metal: Metal; cell: number }> = [];
   for (const episode of episodes) {
     const pool = profiles.get(episode.poolId);
     if (!pool) continue;
-    const group = groupOf(pool, key, episode.openedAt, rules);
-    openedIn.push({ metal: episode.metal, id: `${group}\u0000${episode.poolId}`, group, poolId: episode.poolId });
+    openedIn.push({ metal: episode.metal, cell: cellIndex(groupOf(pool, key, episode.openedAt, rules), episode.poolId) });
   }
   const byMetal = new Map<M, GroupObservation[]>();
   for (const metal of metals) {
-    const openings = new Map<string, number>();
-    const openedOnly: GroupObservation[] = [];
-    for (const o of openedIn) {
-      if (metal !== null && o.metal !== metal) continue;
-      const n = openings.get(o.id);
-      if (n === undefined && !observed.has(o.id)) openedOnly.push({ group: o.group, poolId: o.poolId, years: 0, openings: 0 });
-      openings.set(o.id, (n ?? 0) + 1);
-    }
+    const openings = new Int32Array(cells.length);
+    for (const o of openedIn) if (metal === null || o.metal === metal) openings[o.cell]!++;
     const list: GroupObservation[] = [];
-    for (const [id, o] of observed) list.push({ ...o, openings: openings.get(id) ?? 0 });
-    for (const o of openedOnly) list.push({ ...o, openings: openings.get(`${o.group}\u0000${o.poolId}`)! });
+    for (let i = 0; i < cells.length; i++) if (i < observedCells || openings[i]! > 0) list.push({ ...cells[i]!, openings: openings[i]! });
     byMetal.set(metal, list);
   }
   return byMetal;

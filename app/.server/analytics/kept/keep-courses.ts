@@ -8,7 +8,7 @@ import { keptTreatmentCourses, pools, type KeptCourseTreatment } from "../../db/
 import { utcDate } from "../../db/values";
 import { PRODUCT_CATEGORY } from "../queries/metal-readings";
 import { tenantCondition, type Tenant } from "../queries/tenant-and-window";
-import type { LiveVersion, Writer } from "./keep-pools";
+import type { LiveVersion, Writer } from "./writer";
 
 type Row = Record<string, unknown>;
 

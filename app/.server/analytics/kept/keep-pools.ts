@@ -3,13 +3,12 @@ import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from 
 import { keptMonthsOf, monthValueChanges, type KeptMonthValue, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { PoolConnection } from "mysql2/promise";
-import type { Database } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
 import { replaceKeptCourses } from "./keep-courses";
+import type { LiveVersion, Writer } from "./writer";
 
-/** A connection inside a transaction: the drizzle transaction of a write, or a drizzle over the import's connection. */
-export type Writer = Pick<Database, "execute">;
+export type { LiveVersion, Writer };
 
 type Row = Record<string, unknown>;
 
@@ -35,8 +34,6 @@ export async function lockPoolsForKeeping(writer: Writer, poolIds: readonly numb
     await writer.execute(sql`SELECT id FROM pools WHERE id IN (${idList(ids.slice(from, from + 1000))}) ORDER BY id FOR UPDATE`);
   }
 }
-
-export type LiveVersion = { id: number; levels: MetalThresholds; timeZone: string };
 
 /**
  * The company's versions that writes keep in step: the one answers come from
