@@ -3,7 +3,17 @@ import fc from "fast-check";
 import { DAY_MS, analyseMetalHistory, type Episode, type MetalTest } from "../metals/episodes";
 import { heaterAgeBucketAt, type PoolProfile } from "../metals/route-book";
 import { clopperPearsonInterval, poissonRateInterval, wilsonInterval } from "./intervals";
-import { MS_PER_YEAR, compareGroups, groupComparison, groupObservations, riskyGroups, type GroupObservation } from "./groups";
+import {
+  MS_PER_YEAR,
+  compareGroups,
+  groupComparison,
+  groupObservations,
+  riskyGroups,
+  riskyGroupsByMetal,
+  type GroupObservation,
+  type GroupingKey,
+} from "./groups";
+import type { Metal } from "../metals/reading";
 
 const T0 = Date.UTC(2023, 0, 1);
 const day = (n: number) => T0 + n * DAY_MS;
@@ -174,5 +184,56 @@ describe("risky groups alone", () => {
         .map((g) => g.group),
     );
     expect(riskyGroups(obs).map((g) => g.group)).toEqual(["well"]);
+  });
+});
+
+describe("risky groups worked out cell by cell without observation objects", () => {
+  const world = fc.record({
+    pools: fc.array(
+      fc.record({
+        source: fc.constantFrom("s1", "s2", "s3", undefined),
+        route: fc.constantFrom("r1", "r2"),
+        heater: fc.option(fc.record({ installed: fc.integer({ min: -6000, max: 2000 }), removedAfter: fc.option(fc.nat(3000)), metal: fc.constantFrom("copper", "titanium", null) })),
+        instants: fc.array(fc.nat(4000), { maxLength: 5 }),
+      }),
+      { minLength: 1, maxLength: 30 },
+    ),
+    episodes: fc.array(fc.record({ pool: fc.nat(40), metal: fc.constantFrom<Metal>("copper", "iron", "manganese"), d: fc.nat(4000) }), { maxLength: 60 }),
+    minPools: fc.constantFrom(1, 2, 3),
+    key: fc.constantFrom<GroupingKey>("fill-source", "route", "heater-age", "exchanger-metal"),
+  });
+
+  it("flags the same groups with the same figures, to the last digit, as the observations", () => {
+    fc.assert(
+      fc.property(world, (w) => {
+        const pools: PoolProfile[] = w.pools.map((p, i) => ({
+          poolId: `p${i}`,
+          fillSourceId: p.source,
+          routeId: p.route,
+          equipment: p.heater
+            ? [
+                {
+                  id: `h${i}`,
+                  kind: "heater",
+                  exchangerMetal: p.heater.metal,
+                  installedAt: day(p.heater.installed),
+                  removedAt: p.heater.removedAfter === null ? null : day(p.heater.installed + p.heater.removedAfter),
+                },
+              ]
+            : [],
+        }));
+        // Some pools have no observed time and some episodes name pools that do not exist.
+        const observed = w.pools.map((p, i) => ({ poolId: `p${i}`, instants: p.instants.map((d) => day(d) + i) }));
+        const episodes = w.episodes.map((e) => ({ ...opening(`p${e.pool}`, day(e.d)), metal: e.metal }));
+        const tests = observed.flatMap((o) => o.instants.map((takenAt) => ({ poolId: o.poolId, takenAt })));
+        const metals = [null, "copper", "iron"] as const;
+        const fast = riskyGroupsByMetal(pools, observed, episodes, w.key, metals, { minPools: w.minPools });
+        for (const metal of metals) {
+          const observations = groupObservations(pools, tests, episodes, w.key, { metal: metal ?? undefined, rules: { minPools: w.minPools } });
+          expect(fast.get(metal)).toEqual(riskyGroups(observations, { minPools: w.minPools }));
+        }
+      }),
+      { numRuns: 1000 },
+    );
   });
 });

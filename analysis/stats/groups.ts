@@ -182,6 +182,15 @@ export function riskyGroups(observations: readonly GroupObservation[], rulesOver
   return groupStatistics(observations, { ...DEFAULT_GROUP_RULES, ...rulesOverride }, true).filter((g) => g.risky);
 }
 
+/** A group's pools, observed years and openings, summed over its observations. */
+interface GroupTotals {
+  group: string;
+  pools: number;
+  poolsWithEpisode: number;
+  years: number;
+  openings: number;
+}
+
 function groupStatistics(observations: readonly GroupObservation[], rules: GroupRules, riskyOnly: boolean): GroupStatistics[] {
   const totals = { years: 0, openings: 0 };
   const groups = new Map<string, { pools: Set<string>; poolsWithEpisode: Set<string>; years: number; openings: number }>();
@@ -198,28 +207,160 @@ function groupStatistics(observations: readonly GroupObservation[], rules: Group
     g.years += o.years;
     g.openings += o.openings;
   }
+  const summed = [...groups].map(([group, g]) => ({ group, pools: g.pools.size, poolsWithEpisode: g.poolsWithEpisode.size, years: g.years, openings: g.openings }));
+  return judgeGroups(summed, totals, rules, riskyOnly);
+}
+
+function judgeGroups(groups: readonly GroupTotals[], totals: { years: number; openings: number }, rules: GroupRules, riskyOnly: boolean): GroupStatistics[] {
   const result: GroupStatistics[] = [];
-  for (const [group, g] of groups) {
-    const tooSmallToJudge = g.pools.size < rules.minPools;
+  for (const g of groups) {
+    const tooSmallToJudge = g.pools < rules.minPools;
     if (riskyOnly) {
       const estimate = g.openings / g.years / ((totals.openings - g.openings) / (totals.years - g.years));
       if (tooSmallToJudge || (Number.isFinite(estimate) && estimate <= rules.riskyRatioLowerBound)) continue;
     }
     const rateRatio = rateRatioInterval(g.openings, g.years, totals.openings - g.openings, totals.years - g.years, rules.level);
     result.push({
-      group,
-      pools: g.pools.size,
-      poolsWithEpisode: g.poolsWithEpisode.size,
+      group: g.group,
+      pools: g.pools,
+      poolsWithEpisode: g.poolsWithEpisode,
       poolYears: g.years,
       openings: g.openings,
       rate: poissonRateInterval(g.openings, g.years, rules.level),
-      shareWithEpisode: wilsonInterval(g.poolsWithEpisode.size, g.pools.size, rules.level),
+      shareWithEpisode: wilsonInterval(g.poolsWithEpisode, g.pools, rules.level),
       rateRatio,
       risky: !tooSmallToJudge && rateRatio.lower > rules.riskyRatioLowerBound,
       tooSmallToJudge,
     });
   }
   return result.sort((a, b) => (a.group < b.group ? -1 : a.group > b.group ? 1 : 0));
+}
+
+/** Dimensions whose group can change during a pool's observed time (with its equipment). */
+export const CHANGES_OVER_TIME: ReadonlySet<GroupingKey> = new Set(["heater-age", "exchanger-metal"]);
+
+/** A pool's observed time as instants (its first and last test, and any moment its group can change between). */
+export type ObservedInstants = { poolId: string; instants: readonly number[] };
+
+/**
+ * The groups riskyGroups would flag for each metal, from the same pools,
+ * instants and episodes as groupObservationsByMetal, with every figure the
+ * same to the last digit: years and openings are summed cell by cell in the
+ * same order, but a cell is a few numbers, not an object per pool and metal.
+ */
+export function riskyGroupsByMetal<M extends Metal | null>(
+  pools: readonly PoolProfile[],
+  observed: readonly ObservedInstants[],
+  episodes: readonly Episode[],
+  key: GroupingKey,
+  metals: readonly M[],
+  rulesOverride?: Partial<GroupRules>,
+): Map<M, GroupStatistics[]> {
+  return riskyGroupFinder(pools, episodes, metals, rulesOverride)(key, observed);
+}
+
+/**
+ * riskyGroupsByMetal for several dimensions of one route book: the pools and
+ * episodes are indexed once, then each dimension costs a pass over the pools'
+ * instants and the episodes.
+ */
+export function riskyGroupFinder<M extends Metal | null>(
+  pools: readonly PoolProfile[],
+  episodes: readonly Episode[],
+  metals: readonly M[],
+  rulesOverride?: Partial<GroupRules>,
+): (key: GroupingKey, observed: readonly ObservedInstants[]) => Map<M, GroupStatistics[]> {
+  const rules = { ...DEFAULT_GROUP_RULES, ...rulesOverride };
+  const poolIndex = new Map<string, number>();
+  pools.forEach((p, i) => poolIndex.set(p.poolId, i));
+  const episodePool = Int32Array.from(episodes, (e) => poolIndex.get(e.poolId) ?? -1);
+  // Bit m set: the episode counts as an opening for metals[m].
+  const episodeMetals = Int32Array.from(episodes, (e) => metals.reduce((bits, metal, m) => (metal === null || metal === e.metal ? bits | (1 << m) : bits), 0));
+
+  return (key, observed) => {
+    const changes = CHANGES_OVER_TIME.has(key);
+    const groupIndex = new Map<string, number>();
+    const groupNames: string[] = [];
+    const groupAt = (pool: PoolProfile, at: number) => {
+      const group = groupOf(pool, key, at, rules);
+      let index = groupIndex.get(group);
+      if (index === undefined) groupIndex.set(group, (index = groupNames.push(group) - 1));
+      return index;
+    };
+    // A cell is one pool's time in one group. A pool's observed cells are consecutive: [first, end).
+    const cellGroup: number[] = [];
+    const cellYears: number[] = [];
+    const firstCell = new Int32Array(pools.length).fill(-1);
+    const endCell = new Int32Array(pools.length);
+    for (const { poolId, instants } of observed) {
+      const p = poolIndex.get(poolId);
+      if (p === undefined || instants.length === 0 || firstCell[p] !== -1) continue;
+      const pool = pools[p]!;
+      let times = instants;
+      for (let i = 1; i < instants.length; i++) {
+        if (instants[i]! < instants[i - 1]!) {
+          times = [...instants].sort((x, y) => x - y);
+          break;
+        }
+      }
+      const first = cellGroup.length;
+      // Time up to the next instant goes to the group at the earlier one; a lone instant gives a cell without years.
+      const steps = times.length === 1 ? 1 : times.length - 1;
+      const fixedGroup = changes ? -1 : groupAt(pool, times[0]!);
+      for (let i = 0; i < steps; i++) {
+        const group = changes ? groupAt(pool, times[i]!) : fixedGroup;
+        let cell = first;
+        while (cell < cellGroup.length && cellGroup[cell] !== group) cell++;
+        if (cell === cellGroup.length) {
+          cellGroup.push(group);
+          cellYears.push(0);
+        }
+        if (times.length > 1) cellYears[cell]! += (times[i + 1]! - times[i]!) / MS_PER_YEAR;
+      }
+      firstCell[p] = first;
+      endCell[p] = cellGroup.length;
+    }
+    const observedCells = cellGroup.length;
+    // An opening outside the pool's observed groups gets a cell of its own, without years.
+    const openingCells = new Map<string, number>();
+    const episodeCell = new Int32Array(episodes.length).fill(-1);
+    episodes.forEach((episode, e) => {
+      const p = episodePool[e]!;
+      if (p < 0) return;
+      const group = groupAt(pools[p]!, episode.openedAt);
+      let cell = -1;
+      for (let c = firstCell[p]!; c >= 0 && c < endCell[p]! && cell < 0; c++) if (cellGroup[c] === group) cell = c;
+      if (cell < 0) {
+        const name = `${p}:${group}`;
+        cell = openingCells.get(name) ?? -1;
+        if (cell < 0) {
+          cellYears.push(0);
+          openingCells.set(name, (cell = cellGroup.push(group) - 1));
+        }
+      }
+      episodeCell[e] = cell;
+    });
+    const byMetal = new Map<M, GroupStatistics[]>();
+    metals.forEach((metal, m) => {
+      const opened = new Int32Array(cellGroup.length);
+      for (let e = 0; e < episodes.length; e++) if (episodeCell[e]! >= 0 && episodeMetals[e]! & (1 << m)) opened[episodeCell[e]!]!++;
+      const groups: GroupTotals[] = groupNames.map((group) => ({ group, pools: 0, poolsWithEpisode: 0, years: 0, openings: 0 }));
+      const totals = { years: 0, openings: 0 };
+      for (let c = 0; c < cellGroup.length; c++) {
+        if (c >= observedCells && opened[c] === 0) continue;
+        const g = groups[cellGroup[c]!]!;
+        totals.years += cellYears[c]!;
+        totals.openings += opened[c]!;
+        g.pools++;
+        if (opened[c]! > 0) g.poolsWithEpisode++;
+        g.years += cellYears[c]!;
+        g.openings += opened[c]!;
+      }
+      const present = groups.filter((g) => g.pools > 0);
+      byMetal.set(metal, judgeGroups(present, totals, rules, true).filter((g) => g.risky));
+    });
+    return byMetal;
+  };
 }
 
 /** Observations and comparison in one call, for one grouping key. */

@@ -1,5 +1,5 @@
 import { DEFAULT_HEATER_AGE_EDGES, HEATING_KINDS, type PoolProfile } from "@analysis/metals/route-book";
-import type { GroupingKey } from "@analysis/stats/groups";
+import { CHANGES_OVER_TIME, type GroupingKey } from "@analysis/stats/groups";
 
 /**
  * Instants that stand in for a pool's tests when its observed time is split
@@ -18,21 +18,20 @@ export function observationInstants(
   key: GroupingKey,
   ageEdges: readonly number[] = DEFAULT_HEATER_AGE_EDGES,
 ): number[] {
+  if (!CHANGES_OVER_TIME.has(key)) return firstAt === lastAt ? [firstAt] : [Math.min(firstAt, lastAt), Math.max(firstAt, lastAt)];
   const instants = new Set<number>([firstAt, lastAt]);
-  if (key === "heater-age" || key === "exchanger-metal") {
-    for (const item of pool.equipment ?? []) {
-      if (!HEATING_KINDS.includes(item.kind)) continue;
-      const changes: number[] = [];
-      if (item.installedAt !== null) changes.push(item.installedAt);
-      if (item.removedAt !== null && item.removedAt !== undefined) changes.push(item.removedAt);
-      if (key === "heater-age" && item.installedAt !== null) {
-        const installed = new Date(item.installedAt);
-        for (const years of ageEdges) {
-          changes.push(Date.UTC(installed.getUTCFullYear() + years, installed.getUTCMonth(), installed.getUTCDate()));
-        }
+  for (const item of pool.equipment ?? []) {
+    if (!HEATING_KINDS.includes(item.kind)) continue;
+    const changes: number[] = [];
+    if (item.installedAt !== null) changes.push(item.installedAt);
+    if (item.removedAt !== null && item.removedAt !== undefined) changes.push(item.removedAt);
+    if (key === "heater-age" && item.installedAt !== null) {
+      const installed = new Date(item.installedAt);
+      for (const years of ageEdges) {
+        changes.push(Date.UTC(installed.getUTCFullYear() + years, installed.getUTCMonth(), installed.getUTCDate()));
       }
-      for (const at of changes) if (at > firstAt && at < lastAt) instants.add(at);
     }
+    for (const at of changes) if (at > firstAt && at < lastAt) instants.add(at);
   }
   return [...instants].sort((a, b) => a - b);
 }

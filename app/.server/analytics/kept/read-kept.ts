@@ -3,6 +3,7 @@ import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
 import { notTested, type MetalStateOfPool } from "@analysis/metals/metal-state";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
+import { arrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { serverEnv } from "../../env";
 import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools, waterTests } from "../../db/schema";
@@ -55,66 +56,83 @@ export type KeptPoolSpan = PoolObservation & { latestBalanceAt: number | null };
 /** Each pool's observed span, read one way ("any": every test), ordered by pool. */
 export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadAs | "any", poolIds?: readonly number[]): Promise<KeptPoolSpan[]> {
   if (poolIds && poolIds.length === 0) return [];
-  const rows = await db()
-    .select({
-      poolId: keptPoolSpans.poolId,
-      firstAt: keptPoolSpans.firstAt,
-      lastAt: keptPoolSpans.lastAt,
-      tests: keptPoolSpans.tests,
-      latestBalanceAt: keptPoolSpans.latestBalanceAt,
-    })
-    .from(keptPoolSpans)
-    .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
-    .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId)))
-    .orderBy(asc(keptPoolSpans.poolId));
-  return rows.map((r) => ({
-    poolId: String(r.poolId),
-    firstTestAt: r.firstAt.getTime(),
-    lastTestAt: r.lastAt.getTime(),
-    tests: r.tests,
-    latestBalanceAt: r.latestBalanceAt ? r.latestBalanceAt.getTime() : null,
+  const rows = await arrayRows<[poolId: number, firstAt: Date, lastAt: Date, tests: number, latestBalanceAt: Date | null]>(
+    db()
+      .select({
+        poolId: keptPoolSpans.poolId,
+        firstAt: keptPoolSpans.firstAt,
+        lastAt: keptPoolSpans.lastAt,
+        tests: keptPoolSpans.tests,
+        latestBalanceAt: keptPoolSpans.latestBalanceAt,
+      })
+      .from(keptPoolSpans)
+      .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
+      .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId)))
+      .orderBy(asc(keptPoolSpans.poolId)),
+  );
+  return rows.map(([poolId, firstAt, lastAt, tests, latestBalanceAt]) => ({
+    poolId: String(poolId),
+    firstTestAt: firstAt.getTime(),
+    lastTestAt: lastAt.getTime(),
+    tests,
+    latestBalanceAt: latestBalanceAt ? latestBalanceAt.getTime() : null,
   }));
 }
 
 /** Kept episodes read one way, ordered by pool and in the order the analysis found them. */
 export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs: ReadAs, poolIds?: readonly number[]): Promise<Episode[]> {
   if (poolIds && poolIds.length === 0) return [];
-  const rows = await db()
-    .select({
-      poolId: keptEpisodes.poolId,
-      metal: keptEpisodes.metal,
-      openedAt: keptEpisodes.openedAt,
-      openedByTestId: keptEpisodes.openedByTestId,
-      closedAt: keptEpisodes.closedAt,
-      closedByTestId: keptEpisodes.closedByTestId,
-      endAt: keptEpisodes.endAt,
-      peak: keptEpisodes.peak,
-      testCount: keptEpisodes.testCount,
-      chronic: keptEpisodes.chronic,
-      recurrence: keptEpisodes.recurrence,
-    })
-    .from(keptEpisodes)
-    .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
-    .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId)))
-    .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq));
-  return rows.map((r) => {
-    const openedAt = r.openedAt.getTime();
-    const endAt = r.endAt.getTime();
-    const closedAt = r.closedAt ? r.closedAt.getTime() : null;
+  type EpisodeRow = [
+    poolId: number,
+    metal: Metal,
+    openedAt: Date,
+    openedByTestId: number | string,
+    closedAt: Date | null,
+    closedByTestId: number | string | null,
+    endAt: Date,
+    peak: number,
+    testCount: number,
+    chronic: number,
+    recurrence: number,
+  ];
+  const rows = await arrayRows<EpisodeRow>(
+    db()
+      .select({
+        poolId: keptEpisodes.poolId,
+        metal: keptEpisodes.metal,
+        openedAt: keptEpisodes.openedAt,
+        openedByTestId: keptEpisodes.openedByTestId,
+        closedAt: keptEpisodes.closedAt,
+        closedByTestId: keptEpisodes.closedByTestId,
+        endAt: keptEpisodes.endAt,
+        peak: keptEpisodes.peak,
+        testCount: keptEpisodes.testCount,
+        chronic: keptEpisodes.chronic,
+        recurrence: keptEpisodes.recurrence,
+      })
+      .from(keptEpisodes)
+      .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
+      .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId)))
+      .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq)),
+  );
+  return rows.map(([poolId, metal, openedAtDate, openedByTestId, closedAtDate, closedByTestId, endAtDate, peak, testCount, chronic, recurrence]) => {
+    const openedAt = openedAtDate.getTime();
+    const endAt = endAtDate.getTime();
+    const closedAt = closedAtDate ? closedAtDate.getTime() : null;
     return {
-      poolId: String(r.poolId),
-      metal: r.metal,
+      poolId: String(poolId),
+      metal,
       openedAt,
-      openedByTestId: String(r.openedByTestId),
+      openedByTestId: String(openedByTestId),
       closedAt,
-      closedByTestId: r.closedByTestId === null ? null : String(r.closedByTestId),
+      closedByTestId: closedByTestId === null ? null : String(closedByTestId),
       censored: closedAt === null,
       endAt,
       durationDays: (endAt - openedAt) / DAY_MS,
-      peak: r.peak,
-      testCount: r.testCount,
-      chronic: r.chronic,
-      recurrence: r.recurrence,
+      peak,
+      testCount,
+      chronic: chronic === 1,
+      recurrence: recurrence === 1,
     };
   });
 }

@@ -1,5 +1,15 @@
 import type { Metal } from "@analysis/metals/reading";
-import { compareGroups, GROUPING_KEYS, groupObservations, groupObservationsByMetal, riskyGroups, type GroupingKey, type GroupObservation } from "@analysis/stats/groups";
+import type { PoolProfile } from "@analysis/metals/route-book";
+import {
+  compareGroups,
+  GROUPING_KEYS,
+  groupObservations,
+  riskyGroupFinder,
+  type GroupingKey,
+  type GroupObservation,
+  type GroupStatistics,
+  type ObservedInstants,
+} from "@analysis/stats/groups";
 import { groupValueLabel } from "~/lib/analytics/labels";
 import { observationInstants } from "~/lib/analytics/observation-points";
 import type { Scope } from "../../scope";
@@ -47,16 +57,23 @@ function groupNames(dataset: MetalDataset, grouping: GroupingKey): Map<string, s
  */
 type Instant = { poolId: string; takenAt: number };
 
-/** The instants bounding each pool's observed time, split where the pool's group of this dimension changes. */
-function groupingInstants(dataset: MetalDataset, grouping: GroupingKey): Instant[] {
-  const profiles = new Map(dataset.book.profiles.map((p) => [p.poolId, p]));
-  const instants: Instant[] = [];
+/** Each pool's observed instants for this dimension: its span, split where the pool's group can change. */
+function observedInstants(
+  dataset: MetalDataset,
+  grouping: GroupingKey,
+  profiles: ReadonlyMap<string, PoolProfile> = new Map(dataset.book.profiles.map((p) => [p.poolId, p])),
+): ObservedInstants[] {
+  const observed: ObservedInstants[] = [];
   for (const span of dataset.spans) {
     const pool = profiles.get(span.poolId);
-    if (!pool) continue;
-    for (const takenAt of observationInstants(pool, span.firstAt, span.lastAt, grouping)) instants.push({ poolId: span.poolId, takenAt });
+    if (pool) observed.push({ poolId: span.poolId, instants: observationInstants(pool, span.firstAt, span.lastAt, grouping) });
   }
-  return instants;
+  return observed;
+}
+
+/** The same instants, one per pool and moment, as the observations take them. */
+function groupingInstants(dataset: MetalDataset, grouping: GroupingKey): Instant[] {
+  return observedInstants(dataset, grouping).flatMap(({ poolId, instants }) => instants.map((takenAt) => ({ poolId, takenAt })));
 }
 
 export function computeGroupFigures(
@@ -78,23 +95,10 @@ function figuresOf(
   grouping: GroupingKey,
   metal: Metal | null,
   observations: readonly GroupObservation[],
-  compare: typeof compareGroups = compareGroups,
 ): GroupFigures {
-  const stats = compare(observations);
+  const stats = compareGroups(observations);
   const names = groupNames(dataset, grouping);
-  const groups = stats.map((s) => ({
-    group: s.group,
-    label: groupValueLabel(grouping, s.group, names),
-    pools: s.pools,
-    poolsWithEpisode: s.poolsWithEpisode,
-    poolYears: s.poolYears,
-    openings: s.openings,
-    ratePerPoolYear: jsonInterval(s.rate),
-    shareWithEpisode: jsonInterval(s.shareWithEpisode),
-    rateRatio: jsonInterval(s.rateRatio),
-    risky: s.risky,
-    tooSmallToJudge: s.tooSmallToJudge,
-  }));
+  const groups = stats.map((s) => figureOf(grouping, s, names));
   return {
     grouping,
     metal,
@@ -112,22 +116,34 @@ export async function groupFigures(scope: Scope, params: GroupFiguresParams): Pr
 
 export type RiskyGroup = GroupFigure & { grouping: GroupingKey; metal: Metal };
 
+/** A group's figures as the API gives them, named as people know the group. */
+function figureOf(grouping: GroupingKey, s: GroupStatistics, names: ReadonlyMap<string, string>): GroupFigure {
+  return {
+    group: s.group,
+    label: groupValueLabel(grouping, s.group, names),
+    pools: s.pools,
+    poolsWithEpisode: s.poolsWithEpisode,
+    poolYears: s.poolYears,
+    openings: s.openings,
+    ratePerPoolYear: jsonInterval(s.rate),
+    shareWithEpisode: jsonInterval(s.shareWithEpisode),
+    rateRatio: jsonInterval(s.rateRatio),
+    risky: s.risky,
+    tooSmallToJudge: s.tooSmallToJudge,
+  };
+}
+
 /** Every group flagged risky, over all dimensions and each metal of the dataset. */
 export function computeRiskyGroups(dataset: MetalDataset): RiskyGroup[] {
   const risky: RiskyGroup[] = [];
+  const riskyIn = riskyGroupFinder(dataset.book.profiles, dataset.history.episodes, dataset.metals);
+  const profiles = new Map(dataset.book.profiles.map((p) => [p.poolId, p]));
   for (const grouping of GROUPING_KEYS) {
+    const names = groupNames(dataset, grouping);
     // The observed time does not depend on the metal: it is split into groups once per dimension.
-    const byMetal = groupObservationsByMetal(
-      dataset.book.profiles,
-      groupingInstants(dataset, grouping),
-      dataset.history.episodes,
-      grouping,
-      dataset.metals,
-    );
+    const byMetal = riskyIn(grouping, observedInstants(dataset, grouping, profiles));
     for (const metal of dataset.metals) {
-      for (const g of figuresOf(dataset, grouping, metal, byMetal.get(metal)!, riskyGroups).groups) {
-        if (g.risky) risky.push({ ...g, grouping, metal });
-      }
+      for (const g of byMetal.get(metal)!) risky.push({ ...figureOf(grouping, g, names), grouping, metal });
     }
   }
   // Metal first, then dimension, as listed before the sort, so groups of equal ratio keep one order.
