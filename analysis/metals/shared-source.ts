@@ -37,7 +37,7 @@ export interface SharedSourceAlert {
  */
 export function sharedSourceAlerts(
   episodes: readonly Episode[],
-  pools: readonly PoolProfile[],
+  pools: ReadonlyArray<Pick<PoolProfile, "poolId" | "fillSourceId">>,
   options: { rules?: Partial<SharedSourceRules>; activePools?: ReadonlyMap<string, number> } = {},
 ): SharedSourceAlert[] {
   const rules = { ...DEFAULT_SHARED_SOURCE_RULES, ...options.rules };

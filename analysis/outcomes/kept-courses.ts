@@ -10,7 +10,9 @@ import {
   type Ineligible,
   type OutcomeTest,
   type PhStratum,
+  type ProductCategory,
   type RecurrenceOutcome,
+  type TreatmentCourse,
   type TreatmentRecord,
 } from "./treatments";
 
@@ -149,23 +151,42 @@ export function keptCourseOf(outcome: CourseOutcome, seq: number): KeptCourse {
   };
 }
 
+/**
+ * A kept course read without its treatments: enough for every arm but
+ * "product", which needs each treatment's category.
+ */
+export type KeptCourseKeys = Omit<KeptCourse, "treatments">;
+
+function courseOfKeys(row: KeptCourseKeys): TreatmentCourse {
+  return {
+    poolId: row.poolId,
+    startAt: row.startAt,
+    treatments: [],
+    productIds: row.combination.split(" + "),
+    categories: row.categoryCombination.split(" + ") as ProductCategory[],
+    combination: row.combination,
+    categoryCombination: row.categoryCombination,
+    cost: row.cost,
+    costComplete: row.costComplete,
+  };
+}
+
 /** The course outcome a kept row stands for, with the derived quantities worked out as courseOutcomes does. */
-export function outcomeOfKept(row: KeptCourse): CourseOutcome {
-  const daysAfter = (at: number) => (at - row.startAt) / DAY_MS;
+export function outcomeOfKept(row: KeptCourse | KeptCourseKeys): CourseOutcome {
   const { baseline, firstFollowUp, ineligible } = row;
   const percentReduction =
     ineligible === null && baseline && firstFollowUp && baseline.value > 0 ? ((baseline.value - firstFollowUp.value) / baseline.value) * 100 : null;
   return {
-    course: courseOf(row.treatments),
+    course: "treatments" in row ? courseOf(row.treatments) : courseOfKeys(row),
     metal: row.metal,
     baseline,
     ineligible,
     phAtTreatment: row.phAtTreatment,
     phStratum: row.phStratum,
-    firstFollowUp: firstFollowUp ? { ...firstFollowUp, daysAfter: daysAfter(firstFollowUp.takenAt) } : null,
+    firstFollowUp: firstFollowUp ? { ...firstFollowUp, daysAfter: (firstFollowUp.takenAt - row.startAt) / DAY_MS } : null,
     percentReduction,
     reductionIsAtLeast: percentReduction !== null && firstFollowUp!.belowDetection,
-    timeToClear: { days: daysAfter(row.clockStoppedAt), cleared: row.cleared, censoredBy: row.censoredBy },
+    timeToClear: { days: (row.clockStoppedAt - row.startAt) / DAY_MS, cleared: row.cleared, censoredBy: row.censoredBy },
     clearedAt: row.clearedAt,
     recurrence: row.recurrence,
   };

@@ -16,6 +16,7 @@ export type ArmDimension = "product" | "category" | "combination" | "category-co
 export function armsOf(outcome: CourseOutcome, dimension: ArmDimension): string[] {
   switch (dimension) {
     case "product":
+      if (outcome.course.treatments.length === 0) throw new Error("a course read without its treatments has no product arms");
       return [...new Set(outcome.course.treatments.filter((t) => t.category !== "ph-decreaser").map((t) => t.productId))].sort();
     case "category":
       return outcome.course.categories.filter((c) => c !== "ph-decreaser");

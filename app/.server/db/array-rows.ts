@@ -13,3 +13,14 @@ export async function arrayRows<Row extends readonly unknown[]>(query: BuiltQuer
   const [rows] = await pool().query({ sql, rowsAsArray: true }, params);
   return rows as unknown as Row[];
 }
+
+/**
+ * The same through the binary protocol (a prepared statement): every DOUBLE
+ * arrives with all its bits, where the text protocol's decimal form can drop
+ * the last one.
+ */
+export async function exactArrayRows<Row extends readonly unknown[]>(query: BuiltQuery): Promise<Row[]> {
+  const { sql, params } = query.toSQL();
+  const [rows] = await pool().execute({ sql, rowsAsArray: true }, params as never);
+  return rows as unknown as Row[];
+}

@@ -1,8 +1,9 @@
 import { and, asc, eq, sql, type SQL } from "drizzle-orm";
-import { keptCoursesOf, type KeptCourse } from "@analysis/outcomes/kept-courses";
+import { keptCoursesOf, type KeptCourse, type KeptCourseKeys } from "@analysis/outcomes/kept-courses";
 import type { KeptInputTest } from "@analysis/metals/kept-history";
 import type { Metal } from "@analysis/metals/reading";
 import type { OutcomeTest, TreatmentRecord } from "@analysis/outcomes/treatments";
+import { arrayRows, exactArrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { keptTreatmentCourses, pools, type KeptCourseTreatment } from "../../db/schema";
 import { utcDate } from "../../db/values";
@@ -101,16 +102,13 @@ export const courseKey = (c: KeptCourse) => `${c.metal}/${c.poolId}/${c.seq}`;
 /** A kept course as the driver returns its row (snake_case columns). */
 function keptCourseOfRaw(r: Row): KeptCourse {
   return keptCourseOfRow({
-    versionId: Number(r.version_id),
     metal: r.metal as Metal,
     poolId: Number(r.pool_id),
     seq: Number(r.seq),
-    companyId: Number(r.company_id),
     startedAt: utcDate(r.started_at)!,
     treatments: (typeof r.treatments === "string" ? JSON.parse(r.treatments) : r.treatments) as KeptCourseTreatment[],
     combination: String(r.combination),
     categoryCombination: String(r.category_combination),
-    cost: Number(r.cost),
     costComplete: Number(r.cost_complete) === 1,
     baselineTestId: number(r.baseline_test_id),
     baselineAt: utcDate(r.baseline_at),
@@ -195,21 +193,46 @@ export async function replaceKeptCourses(
   }
 }
 
-type CourseRow = typeof keptTreatmentCourses.$inferSelect;
+/** What every course read takes, in this order; the treatments (or the cost) come last. */
+const COURSE_KEYS = {
+  metal: keptTreatmentCourses.metal,
+  poolId: keptTreatmentCourses.poolId,
+  seq: keptTreatmentCourses.seq,
+  startedAt: keptTreatmentCourses.startedAt,
+  combination: keptTreatmentCourses.combination,
+  categoryCombination: keptTreatmentCourses.categoryCombination,
+  costComplete: keptTreatmentCourses.costComplete,
+  baselineTestId: keptTreatmentCourses.baselineTestId,
+  baselineAt: keptTreatmentCourses.baselineAt,
+  baselineValue: keptTreatmentCourses.baselineValue,
+  baselineStatus: keptTreatmentCourses.baselineStatus,
+  ineligible: keptTreatmentCourses.ineligible,
+  phAtTreatment: keptTreatmentCourses.phAtTreatment,
+  phStratum: keptTreatmentCourses.phStratum,
+  followUpTestId: keptTreatmentCourses.followUpTestId,
+  followUpAt: keptTreatmentCourses.followUpAt,
+  followUpValue: keptTreatmentCourses.followUpValue,
+  followUpBelowDetection: keptTreatmentCourses.followUpBelowDetection,
+  clockStoppedAt: keptTreatmentCourses.clockStoppedAt,
+  cleared: keptTreatmentCourses.cleared,
+  censoredBy: keptTreatmentCourses.censoredBy,
+  clearedAt: keptTreatmentCourses.clearedAt,
+  recurrence: keptTreatmentCourses.recurrence,
+};
+const LAST = Object.keys(COURSE_KEYS).length;
 
-function keptCourseOfRow(r: CourseRow): KeptCourse {
-  const stored = typeof r.treatments === "string" ? (JSON.parse(r.treatments) as KeptCourseTreatment[]) : r.treatments;
+type CourseRow = Omit<typeof keptTreatmentCourses.$inferSelect, "versionId" | "companyId" | "cost">;
+type CourseKeysRow = Omit<CourseRow, "treatments">;
+type CourseFacts = Omit<KeptCourse, "treatments" | "cost">;
+
+function courseFacts(r: CourseKeysRow): CourseFacts {
   return {
     poolId: String(r.poolId),
     metal: r.metal,
     seq: r.seq,
     startAt: r.startedAt.getTime(),
-    treatments: stored.map((t) => ({ ...t, poolId: String(r.poolId) })),
     combination: r.combination,
     categoryCombination: r.categoryCombination,
-    // Summed again from the treatments' own costs, in the course's order: a DOUBLE read back through the
-    // driver's text protocol can lose the last binary digit of a sum such as 8.6 + 57.66 + 24.5.
-    cost: stored.reduce((sum, t) => sum + (t.cost ?? 0), 0),
     costComplete: r.costComplete,
     baseline:
       r.baselineTestId === null
@@ -230,17 +253,74 @@ function keptCourseOfRow(r: CourseRow): KeptCourse {
   };
 }
 
-/**
- * The kept courses of the tenant's pools (a member's Scope: their routes'
- * pools, as the recomputed answer reads them), on one metal or all, ordered
- * by pool and course.
- */
-export async function keptCourses(tenant: Tenant, versionId: number, metal?: Metal): Promise<KeptCourse[]> {
-  const rows = await db()
-    .select({ course: keptTreatmentCourses })
+function keptCourseOfRow(r: CourseRow): KeptCourse {
+  const facts = courseFacts(r);
+  const stored = typeof r.treatments === "string" ? (JSON.parse(r.treatments) as KeptCourseTreatment[]) : r.treatments;
+  return {
+    ...facts,
+    treatments: stored.map((t) => ({ ...t, poolId: facts.poolId })),
+    // Summed again from the treatments' own costs, in the course's order: a DOUBLE read back through the
+    // driver's text protocol can lose the last binary digit of a sum such as 8.6 + 57.66 + 24.5.
+    cost: stored.reduce((sum, t) => sum + (t.cost ?? 0), 0),
+  };
+}
+
+/** A course row read as an array in COURSE_KEYS' order (flags as 0 or 1). */
+const flag = (value: unknown) => value === 1 || value === true;
+
+function courseKeysOfArray(v: readonly unknown[]): CourseKeysRow {
+  return {
+    metal: v[0] as Metal,
+    poolId: v[1] as number,
+    seq: v[2] as number,
+    startedAt: v[3] as Date,
+    combination: v[4] as string,
+    categoryCombination: v[5] as string,
+    costComplete: flag(v[6]),
+    baselineTestId: v[7] as number | null,
+    baselineAt: v[8] as Date | null,
+    baselineValue: v[9] as number | null,
+    baselineStatus: v[10] as CourseRow["baselineStatus"],
+    ineligible: v[11] as CourseRow["ineligible"],
+    phAtTreatment: v[12] as number | null,
+    phStratum: v[13] as CourseRow["phStratum"],
+    followUpTestId: v[14] as number | null,
+    followUpAt: v[15] as Date | null,
+    followUpValue: v[16] as number | null,
+    followUpBelowDetection: v[17] === null ? null : flag(v[17]),
+    clockStoppedAt: v[18] as Date,
+    cleared: flag(v[19]),
+    censoredBy: v[20] as CourseRow["censoredBy"],
+    clearedAt: v[21] as Date | null,
+    recurrence: v[22] as CourseRow["recurrence"],
+  };
+}
+
+function coursesOfTenant(last: typeof keptTreatmentCourses.treatments | typeof keptTreatmentCourses.cost, tenant: Tenant, versionId: number, metal?: Metal) {
+  return db()
+    .select({ ...COURSE_KEYS, last })
     .from(keptTreatmentCourses)
     .innerJoin(pools, eq(pools.id, keptTreatmentCourses.poolId))
     .where(and(eq(keptTreatmentCourses.versionId, versionId), metal ? eq(keptTreatmentCourses.metal, metal) : undefined, tenantCondition(tenant)))
     .orderBy(asc(keptTreatmentCourses.metal), asc(keptTreatmentCourses.poolId), asc(keptTreatmentCourses.seq));
-  return rows.map((r) => keptCourseOfRow(r.course));
+}
+
+/**
+ * The kept courses of the tenant's pools (a member's Scope: their routes'
+ * pools, as the recomputed answer reads them), on one metal or all, ordered
+ * by pool and course. Read as arrays: tens of thousands of rows on a large company.
+ */
+export async function keptCourses(tenant: Tenant, versionId: number, metal?: Metal): Promise<KeptCourse[]> {
+  const rows = await arrayRows<unknown[]>(coursesOfTenant(keptTreatmentCourses.treatments, tenant, versionId, metal));
+  return rows.map((v) => keptCourseOfRow({ ...courseKeysOfArray(v), treatments: v[LAST] as CourseRow["treatments"] }));
+}
+
+/**
+ * The same courses without their treatments, for answers that need only the
+ * arm keys and the cost: the treatments are most of the bytes read. The cost
+ * comes through the binary protocol, so it is the kept sum to the last bit.
+ */
+export async function keptCourseKeys(tenant: Tenant, versionId: number, metal?: Metal): Promise<KeptCourseKeys[]> {
+  const rows = await exactArrayRows<unknown[]>(coursesOfTenant(keptTreatmentCourses.cost, tenant, versionId, metal));
+  return rows.map((v) => ({ ...courseFacts(courseKeysOfArray(v)), cost: v[LAST] as number }));
 }

@@ -5,6 +5,7 @@ import { notTested, type MetalStateOfPool } from "@analysis/metals/metal-state";
 import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import { arrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
+import { inIdList } from "../../db/id-list";
 import { serverEnv } from "../../env";
 import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
@@ -37,7 +38,7 @@ export async function keptVersionAsOf(companyId: number, thresholds: MetalThresh
   const later = await db()
     .select({ id: waterTests.id })
     .from(waterTests)
-    .where(and(eq(waterTests.companyId, companyId), poolIds ? inArray(waterTests.poolId, [...poolIds]) : undefined, gt(waterTests.sampledAt, now)))
+    .where(and(eq(waterTests.companyId, companyId), poolIds ? inIdList(waterTests.poolId, poolIds) : undefined, gt(waterTests.sampledAt, now)))
     .limit(1);
   return later.length === 0 ? versionId : null;
 }
@@ -48,7 +49,7 @@ function keptRowsOfTenant(
   poolIds: readonly number[] | undefined,
   poolColumn: typeof keptEpisodes.poolId | typeof keptPoolSpans.poolId,
 ) {
-  return and(tenantCondition(tenant), poolIds ? inArray(poolColumn, [...poolIds]) : undefined);
+  return and(tenantCondition(tenant), poolIds ? inIdList(poolColumn, poolIds) : undefined);
 }
 
 export type KeptPoolSpan = PoolObservation & { latestBalanceAt: number | null };
@@ -189,11 +190,13 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
   const states = new Map<string, MetalStateOfPool>();
   if (poolIds && poolIds.length === 0) return states;
   const [spans, open] = await Promise.all([
-    db()
-      .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: keptPoolSpans.lastAt })
-      .from(keptPoolSpans)
-      .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
-      .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId))),
+    arrayRows<[poolId: number, readAs: Metal, lastAt: Date]>(
+      db()
+        .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: keptPoolSpans.lastAt })
+        .from(keptPoolSpans)
+        .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
+        .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId))),
+    ),
     db()
       // Read as one metal alone, every episode is of that metal.
       .selectDistinct({ poolId: keptEpisodes.poolId, metal: keptEpisodes.readAs })
@@ -209,12 +212,11 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
       ),
   ]);
   const openSet = new Set(open.map((o) => `${o.poolId}:${o.metal}`));
-  for (const span of spans) {
-    if (span.readAs === "any" || span.readAs === "all") continue;
-    const poolId = String(span.poolId);
+  for (const [id, metal, lastAt] of spans) {
+    const poolId = String(id);
     let state = states.get(poolId);
     if (!state) states.set(poolId, (state = notTested()));
-    state[span.readAs] = { state: openSet.has(`${poolId}:${span.readAs}`) ? "open" : "clear", lastTestedAt: span.lastAt.getTime() };
+    state[metal] = { state: openSet.has(`${poolId}:${metal}`) ? "open" : "clear", lastTestedAt: lastAt.getTime() };
   }
   return states;
 }

@@ -3,6 +3,7 @@ import type { HardnessEndpoint, MetalTest } from "@analysis/metals/episodes";
 import type { OutcomeTest, ProductCategory, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { db, pool } from "../../db/client";
+import { inIdList } from "../../db/id-list";
 import { type PRODUCT_CATEGORIES, pools, products, treatments, waterTests } from "../../db/schema";
 import { tenantCondition, testsInScope, withinWindow, type Tenant, type TimeWindow } from "./tenant-and-window";
 
@@ -65,7 +66,7 @@ export async function waterTestReadings(tenant: Tenant, query: WaterTestQuery = 
     .where(
       and(
         testsInScope(tenant, query.window),
-        query.poolIds ? inArray(waterTests.poolId, [...query.poolIds]) : undefined,
+        query.poolIds ? inIdList(waterTests.poolId, query.poolIds) : undefined,
         query.where,
       ),
     )
@@ -144,7 +145,7 @@ export async function treatmentRows(
       and(
         tenantCondition(tenant, treatments.companyId),
         withinWindow(treatments.appliedAt, query.window),
-        query.poolIds ? inArray(treatments.poolId, [...query.poolIds]) : undefined,
+        query.poolIds ? inIdList(treatments.poolId, query.poolIds) : undefined,
         query.categories ? inArray(products.category, [...query.categories]) : undefined,
       ),
     )

@@ -8,6 +8,7 @@ import type {
   SanitiserSystem,
 } from "@analysis/metals/route-book";
 import { db } from "../../db/client";
+import { inIdList } from "../../db/id-list";
 import { type EQUIPMENT_KINDS, equipment, fillSources, pools, routes, type SANITISERS, type SOURCE_KINDS } from "../../db/schema";
 import { dayToMs } from "../../db/values";
 import { companyOf, tenantCondition, type Tenant } from "./tenant-and-window";
@@ -59,7 +60,7 @@ export type RouteBookProfiles = {
   labels: Map<number, PoolLabel>;
 };
 
-const onlyPools = (poolIds: readonly number[] | undefined) => (poolIds ? inArray(pools.id, [...poolIds]) : undefined);
+const onlyPools = (poolIds: readonly number[] | undefined) => (poolIds ? inIdList(pools.id, poolIds) : undefined);
 
 /** The one read of pools with their route and fill source: names for pages and mail, and what the profile needs. */
 async function poolRows(tenant: Tenant, poolIds: readonly number[] | undefined) {

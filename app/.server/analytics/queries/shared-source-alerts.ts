@@ -4,11 +4,11 @@ import { METALS, type Metal } from "@analysis/metals/reading";
 import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/shared-source";
 import { isoInstant } from "@analysis/json-shapes";
 import { db } from "../../db/client";
+import { inIdList } from "../../db/id-list";
 import { fillSources, pools } from "../../db/schema";
 import type { Scope } from "../../scope";
 import { keptEpisodeList, keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { metalReadings } from "./metal-readings";
-import { poolProfiles } from "./pool-profiles";
 import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
 
 export type SourceAlert = {
@@ -104,7 +104,7 @@ async function sourceAlertsFrom(
   const companyWide = { companyId: scope.companyId };
   const [sourcePools, sources, active] = await Promise.all([
     db()
-      .select({ id: pools.id })
+      .select({ id: pools.id, fillSourceId: pools.fillSourceId })
       .from(pools)
       .where(and(tenantCondition(companyWide), inArray(pools.fillSourceId, sourceIds))),
     db()
@@ -117,14 +117,15 @@ async function sourceAlertsFrom(
       .where(and(tenantCondition(companyWide), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
       .groupBy(pools.fillSourceId),
   ]);
-  const poolIds = sourcePools.map((p) => p.id);
-  const [episodes, book, visible] = await Promise.all([
-    episodesOf(poolIds),
-    poolProfiles(companyWide, { poolIds }),
-    db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, poolIds))),
-  ]);
+  const episodes = await episodesOf(sourcePools.map((p) => p.id));
   const activePools = new Map(active.map((a) => [String(a.sourceId), a.n]));
-  const found = sharedSourceAlerts(episodes, book.profiles, { activePools });
+  const onSources = sourcePools.map((p) => ({ poolId: String(p.id), fillSourceId: String(p.fillSourceId) }));
+  const found = sharedSourceAlerts(episodes, onSources, { activePools });
+  // Streets only of the pools the alerts name, and only those in the member's scope.
+  const named = [...new Set(found.flatMap((a) => a.poolIds.map(Number)))];
+  const visible = named.length
+    ? await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inIdList(pools.id, named)))
+    : [];
   // Lookups by id, built once: a large route book has hundreds of sources.
   const sourceById = new Map(sources.map((s) => [String(s.id), s]));
   const streets = new Map(visible.map((p) => [String(p.id), p.street]));

@@ -1,3 +1,4 @@
+import { group } from "d3-array";
 import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
 import { notTested, poolMetalStates, type MetalStateOfPool, type PoolMetalState } from "@analysis/metals/metal-state";
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
@@ -96,17 +97,19 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
   ]);
   const routeName = new Map(routeNames.map((r) => [r.id, r.name]));
   const activeBySource = new Map(active.map((a) => [a.sourceId, a.n]));
+  // Grouped once: a large route book has hundreds of sources and thousands of pools.
+  const alertsBySource = group(found.alerts, (a) => a.fillSourceId);
+  const poolsBySource = group(onSources, (p) => p.fillSourceId);
+  const testsBySource = group(tests, (t) => t.fillSourceId);
   let flaggedPoolsInScope = 0;
   const report = sources.map((s) => {
-    const sourceAlerts = found.alerts.filter((a) => a.fillSourceId === s.id);
-    const sourcePools = onSources
-      .filter((p) => p.fillSourceId === s.id)
-      .map((p) => ({
-        poolId: p.id,
-        street: p.street,
-        routeName: p.routeId === null ? null : (routeName.get(p.routeId) ?? null),
-        metals: metalsJson(found.states.get(String(p.id)) ?? notTested()),
-      }));
+    const sourceAlerts = alertsBySource.get(s.id) ?? [];
+    const sourcePools = (poolsBySource.get(s.id) ?? []).map((p) => ({
+      poolId: p.id,
+      street: p.street,
+      routeName: p.routeId === null ? null : (routeName.get(p.routeId) ?? null),
+      metals: metalsJson(found.states.get(String(p.id)) ?? notTested()),
+    }));
     const flagged = sourceAlerts.length > 0;
     if (flagged) flaggedPoolsInScope += sourcePools.length;
     return {
@@ -115,9 +118,7 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
       kind: s.kind,
       activePools: activeBySource.get(s.id) ?? 0,
       pools: sourcePools,
-      sourceTests: tests
-        .filter((t) => t.fillSourceId === s.id)
-        .map((t) => ({ sampledOn: t.sampledOn, copper: t.copper, iron: t.iron, manganese: t.manganese })),
+      sourceTests: (testsBySource.get(s.id) ?? []).map((t) => ({ sampledOn: t.sampledOn, copper: t.copper, iron: t.iron, manganese: t.manganese })),
       alerts: sourceAlerts,
       flagged,
     };

@@ -8,7 +8,7 @@ import { isoInstant, jsonInterval, type JsonInterval } from "@analysis/json-shap
 import { db } from "../../db/client";
 import { pools, products, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { keptCourses } from "../kept/keep-courses";
+import { keptCourseKeys, keptCourses } from "../kept/keep-courses";
 import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { anyMetalMeasured, treatmentRows, waterTestReadings } from "./metal-readings";
 import { tenantCondition, isWithin, type TimeWindow } from "./tenant-and-window";
@@ -93,7 +93,9 @@ export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Pr
   const versionId = await keptVersionFor(scope.companyId, params);
   if (versionId !== null) {
     // Ordered as buildCourses orders them, so every sum adds in the same order as a recomputation.
-    const outcomes = (await keptCourses({ scope }, versionId, params.metal)).sort(courseOrder).map(outcomeOfKept);
+    // Only product arms need each treatment's category; the other arms read the courses' keys.
+    const kept = params.arm === "product" ? await keptCourses({ scope }, versionId, params.metal) : await keptCourseKeys({ scope }, versionId, params.metal);
+    const outcomes = kept.sort(courseOrder).map(outcomeOfKept);
     const productIds = [...new Set(outcomes.flatMap((o) => o.course.productIds.map(Number)))];
     const named = productIds.length
       ? await db()
