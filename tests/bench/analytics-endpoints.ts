@@ -3,12 +3,15 @@
  * rows, on a seeded route book (median of several runs).
  *
  *   DATABASE_URL=mysql://…/patina_scratch_x npx tsx drizzle/seed/run.ts --pools 2000 --years 5
- *   DATABASE_URL=mysql://…/patina_scratch_x npx tsx tests/bench/analytics-endpoints.ts [runs]
+ *   DATABASE_URL=mysql://…/patina_scratch_x npx tsx tests/bench/analytics-endpoints.ts [runs] [figures.json]
  *
  * The endpoint is called through its loader with a real session (guard, zod,
  * queries, analysis and JSON included); the bare SQL is the main row set the
  * endpoint reads, run through the same connection pool and fully fetched.
+ * With a file name, the figures are also written there as JSON, for
+ * side-by-side.ts to print several route books next to each other.
  */
+import { writeFileSync } from "node:fs";
 import { performance } from "node:perf_hooks";
 import { RouterContextProvider } from "react-router";
 import { keepPoolsInStep, lockPoolsForKeeping } from "../../app/.server/analytics/kept/keep-pools";
@@ -28,6 +31,7 @@ import { DEMO_EMAIL_DOMAIN, DEMO_USERS } from "../../drizzle/seed/names";
 import { signIn } from "../fixtures/company";
 
 const runs = Number(process.argv[2] ?? 5);
+const figuresFile = process.argv[3];
 const owner = DEMO_USERS.find((u) => u.role === "owner")!;
 const cookie = await signIn(`${owner.email}@${DEMO_EMAIL_DOMAIN}`, owner.password);
 const [[company]] = (await pool().query("SELECT id FROM companies ORDER BY id LIMIT 1")) as unknown as [[{ id: number }]];
@@ -137,6 +141,8 @@ console.log(`route book: ${size.pools} pools, ${size.tests} water tests; median 
 console.log(
   `${"endpoint".padEnd(30)} ${"kept".padStart(12)} ${"recomputed".padStart(12)} ${"kept rows".padStart(12)} ${"test rows".padStart(12)} ${"source".padStart(11)} ${"kB".padStart(6)}`,
 );
+type EndpointFigures = { name: string; kept: Timing | null; recomputed: Timing; keptRows: Timing | null; testRows: Timing; source: string; kB: number };
+const figures = { pools: Number(size.pools), tests: Number(size.tests), runs, endpoints: [] as EndpointFigures[], keepBusiestPoolMs: 0 };
 for (const test of cases) {
   const call = async () => {
     const request = new Request(`http://localhost:3000${test.path}`, { headers: { Cookie: cookie } });
@@ -158,6 +164,7 @@ for (const test of cases) {
   serverEnv().PATINA_KEPT_ANALYTICS = "on";
   const keptRows = test.kept ? await timings(read(test.kept)) : null;
   const testRows = await timings(read(test.bare));
+  figures.endpoints.push({ name: test.name, kept, recomputed, keptRows, testRows, source, kB: Math.round(answer.length / 1024) });
   console.log(
     `${test.name.padEnd(30)} ${ms(kept).padStart(12)} ${ms(recomputed).padStart(12)} ${ms(keptRows).padStart(12)} ${ms(testRows).padStart(12)} ${source.padStart(11)} ${(answer.length / 1024).toFixed(0).padStart(6)}`,
   );
@@ -176,5 +183,7 @@ for (let i = 0; i <= runs * 4; i++) {
     .catch(() => undefined);
   if (i > 0) keepTimes.push(performance.now() - started);
 }
+figures.keepBusiestPoolMs = median(keepTimes);
 console.log(`\nkeeping the busiest pool in step with a visit (lock, read, replace; rolled back): median ${median(keepTimes).toFixed(1)} ms`);
+if (figuresFile) writeFileSync(figuresFile, JSON.stringify(figures));
 await closeDatabase();
