@@ -1,7 +1,9 @@
 /**
  * Import benchmark: a 200,000-row log checked and committed through the import
  * service, beside MariaDB's own LOAD DATA LOCAL INFILE of the same stored rows
- * into the same table, in the same run.
+ * into the same table, in the same run. Then visit saves on those pools (about
+ * 200 tests each), with the kept analytics live and with none to keep: what
+ * keeping them in step adds to a technician's save.
  *
  * Run: npx tsx tests/bench/import-200k.ts [rows]
  * Database: PATINA_BENCH_DATABASE_URL (default the local patina_scratch_bench database;
@@ -36,6 +38,8 @@ const { keepCompanyCurrent } = await import("~/.server/analytics/kept/versions")
 const { keptVersions } = await import("~/.server/db/schema");
 const { eq } = await import("drizzle-orm");
 const { findUpload } = await import("~/.server/imports/uploads");
+const { logVisit } = await import("~/.server/visits/commands/save-visit");
+const { randomUUID } = await import("node:crypto");
 
 let peakRss = process.memoryUsage().rss;
 const sample = () => {
@@ -112,6 +116,9 @@ if (!committed.ok) throw new Error(committed.message);
 stage("committed:");
 const peakImport = peakRss;
 
+// Visits on the committed pools while their kept analytics are live.
+const keptVisitMs = await visitSaveMedian(100, new Date(Date.UTC(2021, 0, 4, 9)));
+
 // The same stored rows, written out in their canonical form for LOAD DATA.
 const connection = await mysql.createConnection({ uri: url, timezone: "Z", dateStrings: true, infileStreamFactory: (path: string) => createReadStream(path) });
 const columns = "company_id, pool_id, sampled_at, free_chlorine, ph, total_alkalinity, calcium_hardness, cyanuric_acid, temperature_c, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection, note";
@@ -129,6 +136,35 @@ await once(out, "finish");
 const undone = await undoBatch(scope, committed.batchId);
 if (!undone.ok) throw new Error(undone.message);
 
+/** Median time of saving one visit on each of `count` pools, spread over the book. */
+async function visitSaveMedian(count: number, at: Date): Promise<number> {
+  const rows = await db().select({ id: pools.id }).from(pools).where(eq(pools.companyId, companyId)).orderBy(pools.id);
+  const owner: Scope = { ...scope, role: "owner" };
+  const times: number[] = [];
+  for (let i = 0; i < count; i++) {
+    const poolId = rows[Math.floor((i * rows.length) / count)]!.id;
+    const started = performance.now();
+    const saved = await logVisit(
+      owner,
+      poolId,
+      {
+        submissionKey: randomUUID(),
+        readings: { ph: 7.4, iron: { value: 0.3, belowDetection: false }, copper: { value: 0.1, belowDetection: false } },
+        hardnessEndpoint: null,
+        stain: null,
+        stainColour: null,
+        padTint: null,
+        note: null,
+        treatments: [],
+      },
+      new Date(at.getTime() + i * 60_000),
+    );
+    times.push(performance.now() - started);
+    if (!saved.ok) throw new Error(`visit refused: ${saved.formError ?? JSON.stringify(saved.fieldErrors)}`);
+  }
+  return times.sort((a, b) => a - b)[Math.floor(times.length / 2)]!;
+}
+
 // The same file committed with no kept analytics to keep in step: what keeping them adds to an import.
 await db().delete(keptVersions).where(eq(keptVersions.companyId, companyId));
 const againId = await storeUpload(scope, "bench-200k-again.csv", file);
@@ -138,12 +174,15 @@ t = performance.now();
 const plainCommit = await commitUpload(scope, againId);
 const plainCommitSeconds = (performance.now() - t) / 1000;
 if (!plainCommit.ok) throw new Error(plainCommit.message);
+const plainVisitMs = await visitSaveMedian(100, new Date(Date.UTC(2021, 1, 1, 9)));
 await undoBatch(scope, plainCommit.batchId);
 
+const [[{ tests_before: before }]] = (await connection.query("SELECT COUNT(*) AS tests_before FROM water_tests WHERE company_id = ?", [companyId])) as unknown as [[{ tests_before: number }]];
 t = performance.now();
 await connection.query({ sql: `LOAD DATA LOCAL INFILE ? INTO TABLE water_tests FIELDS TERMINATED BY '\\t' LINES TERMINATED BY '\\n' (${columns})`, values: [dumpPath] });
 const loadSeconds = (performance.now() - t) / 1000;
-const [[{ loaded }]] = (await connection.query("SELECT COUNT(*) AS loaded FROM water_tests WHERE company_id = ?", [companyId])) as unknown as [[{ loaded: number }]];
+const [[{ tests_after: after }]] = (await connection.query("SELECT COUNT(*) AS tests_after FROM water_tests WHERE company_id = ?", [companyId])) as unknown as [[{ tests_after: number }]];
+const loaded = Number(after) - Number(before);
 await connection.end();
 clearInterval(sampler);
 
@@ -155,6 +194,9 @@ console.log(`check:  ${checkSeconds.toFixed(2)} s  (${rate(ROWS, checkSeconds)})
 console.log(`commit: ${commitSeconds.toFixed(2)} s  (${rate(committed.testsAdded, commitSeconds)}; includes a fresh check)`);
 console.log(
   `commit without kept analytics: ${plainCommitSeconds.toFixed(2)} s; keeping them in step adds ${(((commitSeconds - plainCommitSeconds) / plainCommitSeconds) * 100).toFixed(0)}%`,
+);
+console.log(
+  `visit save (median of 100 pools with about 200 tests each): ${keptVisitMs.toFixed(1)} ms with kept analytics, ${plainVisitMs.toFixed(1)} ms without; keeping adds ${(keptVisitMs - plainVisitMs).toFixed(1)} ms`,
 );
 console.log(`check + commit: ${(checkSeconds + commitSeconds).toFixed(2)} s (${rate(committed.testsAdded, checkSeconds + commitSeconds)})`);
 console.log(`peak memory (rss, sampled): ${mb(peakImport)}; running peak after each step: ${stages.join(", ")}`);
