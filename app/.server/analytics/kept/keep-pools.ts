@@ -216,7 +216,8 @@ export async function replaceKeptRows(
   const monthsBefore: KeptPoolMonth[] = [];
   for (let from = 0; from < poolIds.length; from += 1000) {
     const ids = idList(poolIds.slice(from, from + 1000));
-    monthsBefore.push(...(await monthsKept(writer, version.id, ids)));
+    // Not push(...rows): a thousand pools hold over a hundred thousand month rows, more arguments than a call takes.
+    for (const month of await monthsKept(writer, version.id, ids)) monthsBefore.push(month);
     await writer.execute(sql`DELETE FROM kept_episodes WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
     await writer.execute(sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
   }
