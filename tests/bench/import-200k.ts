@@ -18,6 +18,7 @@ import { performance } from "node:perf_hooks";
 import type { Connection } from "mysql2";
 import type { Scope } from "~/.server/scope";
 import { seededRandom } from "../fixtures/seeded-random";
+import { visitForm } from "../fixtures/visit-input";
 
 const ROWS = Number(process.argv[2] ?? 200_000);
 const POOLS = 1_000;
@@ -39,7 +40,6 @@ const { keptVersions } = await import("~/.server/db/schema");
 const { eq } = await import("drizzle-orm");
 const { findUpload } = await import("~/.server/imports/uploads");
 const { logVisit } = await import("~/.server/visits/commands/save-visit");
-const { randomUUID } = await import("node:crypto");
 
 let peakRss = process.memoryUsage().rss;
 const sample = () => {
@@ -159,16 +159,7 @@ async function visitSaveMedian(count: number, at: Date): Promise<number> {
     const saved = await logVisit(
       owner,
       poolId,
-      {
-        submissionKey: randomUUID(),
-        readings: { ph: 7.4, iron: { value: 0.3, belowDetection: false }, copper: { value: 0.1, belowDetection: false } },
-        hardnessEndpoint: null,
-        stain: null,
-        stainColour: null,
-        padTint: null,
-        note: null,
-        treatments: [],
-      },
+      visitForm({ ph: 7.4, iron: { value: 0.3, belowDetection: false }, copper: { value: 0.1, belowDetection: false } }),
       new Date(at.getTime() + i * 60_000),
     );
     times.push(performance.now() - started);

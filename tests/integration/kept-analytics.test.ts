@@ -1,4 +1,3 @@
-import { randomUUID } from "node:crypto";
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { and, eq, isNull } from "drizzle-orm";
@@ -24,6 +23,7 @@ import type { VisitInput } from "~/lib/forms/visit";
 import { createFillSource, createRoute } from "../fixtures/company";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
 import { keptReady } from "../fixtures/kept";
+import { visitForm } from "../fixtures/visit-input";
 
 const DAY = 86_400_000;
 const T0 = Date.UTC(2024, 2, 1, 12);
@@ -146,16 +146,7 @@ const dayText = (day: number) => new Date(T0 + day * DAY).toISOString().slice(0,
 const reading = (value: number | undefined) => (value === undefined ? undefined : { value, belowDetection: false });
 
 function visitInput(s: Extract<Step, { kind: "visit" }>): VisitInput {
-  return {
-    submissionKey: randomUUID(),
-    readings: { ph: 7.4, copper: reading(s.copper), iron: reading(s.iron), manganese: reading(s.manganese) },
-    hardnessEndpoint: null,
-    stain: null,
-    stainColour: null,
-    padTint: null,
-    note: null,
-    treatments: [],
-  };
+  return visitForm({ ph: 7.4, copper: reading(s.copper), iron: reading(s.iron), manganese: reading(s.manganese) });
 }
 
 function importFile(prefix: string, rows: Extract<Step, { kind: "import" }>["rows"]): Uint8Array<ArrayBuffer> {

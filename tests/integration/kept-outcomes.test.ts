@@ -1,4 +1,3 @@
-import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { desc, eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS, METALS, type Metal } from "@analysis/metals/reading";
@@ -14,12 +13,12 @@ import { saveProduct } from "~/.server/routebook/commands/products";
 import { logVisit } from "~/.server/visits/commands/save-visit";
 import type { Scope } from "~/.server/scope";
 import type { ProductInput } from "~/lib/forms/routebook";
-import type { VisitInput } from "~/lib/forms/visit";
 import * as outcomesApi from "~/routes/api.analytics.outcomes";
 import { createMember, createRoute, requestAs, type FixtureMember } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
 import { keptReady } from "../fixtures/kept";
+import { visitForm } from "../fixtures/visit-input";
 
 const DAY = 86_400_000;
 const T0 = Date.UTC(2024, 2, 1, 12);
@@ -56,19 +55,10 @@ async function visit(pool: number, day: number, readings: Readings, treated: Arr
   const at = T0 + day * DAY + visitTimes.length * 60_000;
   visitTimes.push(at);
   const { ph, ...metals } = readings;
-  const input: VisitInput = {
-    submissionKey: randomUUID(),
-    readings: {
-      ph,
-      ...Object.fromEntries(Object.entries(metals).map(([metal, value]) => [metal, { value, belowDetection: false }])),
-    },
-    hardnessEndpoint: null,
-    stain: null,
-    stainColour: null,
-    padTint: null,
-    note: null,
-    treatments: treated.map(([product, amount, unit]) => ({ productId: productIds[product]!, amount, unit })),
-  };
+  const input = visitForm(
+    { ph, ...Object.fromEntries(Object.entries(metals).map(([metal, value]) => [metal, { value, belowDetection: false }])) },
+    { treatments: treated.map(([product, amount, unit]) => ({ productId: productIds[product]!, amount, unit })) },
+  );
   const saved = await logVisit(owner, poolIds[pool]!, input, new Date(at));
   expect(saved.ok).toBe(true);
   return at;

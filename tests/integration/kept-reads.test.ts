@@ -27,6 +27,7 @@ import { createFillSource, requestAs, type FixtureMember } from "../fixtures/com
 import { keptReady } from "../fixtures/kept";
 import { callRoute } from "../fixtures/route-call";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
+import { visitForm } from "../fixtures/visit-input";
 
 // Default levels, common practice of the trade (no published source): iron
 // elevated >= 0.2, clear < 0.1; copper 0.3 / 0.1; manganese 0.05 / 0.02.
@@ -62,7 +63,7 @@ async function visit(pool: number, at: number, readings: VisitReadings) {
   const saved = await logVisit(
     scope,
     poolIds[pool]!,
-    { submissionKey: randomUUID(), readings, hardnessEndpoint: null, stain: null, stainColour: null, padTint: null, note: null, treatments: [] },
+    visitForm(readings),
     new Date(at),
   );
   expect(saved.ok).toBe(true);

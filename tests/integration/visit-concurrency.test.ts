@@ -5,10 +5,10 @@ import { db } from "~/.server/db/client";
 import { waterTests } from "~/.server/db/schema";
 import type { Scope } from "~/.server/scope";
 import { logVisit } from "~/.server/visits/commands/save-visit";
-import type { VisitInput } from "~/lib/forms/visit";
 import * as visitPool from "~/routes/visit.$poolId";
 import { postForm } from "../fixtures/forms";
 import { EVERY_DAY, routeBookPerFile } from "../fixtures/route-book";
+import { visitForm } from "../fixtures/visit-input";
 
 const PARALLEL = 20;
 const book = routeBookPerFile({
@@ -46,8 +46,7 @@ describe("visits saved at the same moment", () => {
   it("different visits at the very same millisecond are all stored: the submission key decides, not the clock", async () => {
     const scope: Scope = { userId: technician.userId, userName: "Tech", email: technician.email, companyId: book.companyId, companyName: "", timeZone: "UTC", role: "technician", routeIds: [book.route.busy] };
     const now = new Date(Date.UTC(2025, 5, 1, 9, 30, 0, 123));
-    const input = (i: number): VisitInput =>
-      ({ submissionKey: `same-ms-${i}-${randomUUID()}`, readings: { ph: 7.2 }, treatments: [], hardnessEndpoint: null, stain: null, stainColour: null, padTint: null, note: null }) as unknown as VisitInput;
+    const input = (i: number) => visitForm({ ph: 7.2 }, { submissionKey: `same-ms-${i}-${randomUUID()}` });
     const results = await Promise.all(Array.from({ length: PARALLEL }, (_, i) => logVisit(scope, book.pool.busy, input(i), now)));
     expect(results.filter((r) => r.ok && !r.repeated)).toHaveLength(PARALLEL);
     const atThatMoment = (await testsOfPool()).filter((t) => t.sampledAt.getTime() === now.getTime());

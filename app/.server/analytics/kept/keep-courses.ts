@@ -5,6 +5,7 @@ import type { Metal } from "@analysis/metals/reading";
 import type { OutcomeTest, TreatmentRecord } from "@analysis/outcomes/treatments";
 import { arrayRows, exactArrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
+import { idList } from "../../db/id-list";
 import { keptTreatmentCourses, pools, type KeptCourseTreatment } from "../../db/schema";
 import { utcDate } from "../../db/values";
 import { PRODUCT_CATEGORY } from "../queries/metal-readings";
@@ -18,7 +19,6 @@ async function rowsOf(reader: Writer, statement: SQL): Promise<Row[]> {
   return rows;
 }
 
-const idList = (ids: readonly number[]) => sql.join(ids.map((id) => sql`${id}`), sql`, `);
 const number = (value: unknown) => (value === null || value === undefined ? null : Number(value));
 const ms = (value: unknown) => utcDate(value)?.getTime() ?? null;
 
@@ -265,9 +265,9 @@ function keptCourseOfRow(r: CourseRow): KeptCourse {
   };
 }
 
-/** A course row read as an array in COURSE_KEYS' order (flags as 0 or 1). */
 const flag = (value: unknown) => value === 1 || value === true;
 
+/** A course row read as an array in COURSE_KEYS' order (flags as 0 or 1). */
 function courseKeysOfArray(v: readonly unknown[]): CourseKeysRow {
   return {
     metal: v[0] as Metal,

@@ -3,6 +3,7 @@ import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from 
 import { keptMonthsOf, monthValueChanges, type KeptMonthValue, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { PoolConnection } from "mysql2/promise";
+import { idList } from "../../db/id-list";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
 import { replaceKeptCourses } from "./keep-courses";
@@ -16,12 +17,6 @@ async function rowsOf(writer: Writer, statement: SQL): Promise<Row[]> {
   const [rows] = (await writer.execute(statement)) as unknown as [Row[]];
   return rows;
 }
-
-const idList = (ids: readonly number[]) =>
-  sql.join(
-    ids.map((id) => sql`${id}`),
-    sql`, `,
-  );
 
 /**
  * Locks the pools a write is about to change, in id order, before it changes
