@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import type { MetalTest } from "./episodes";
-import { keptMonthsOf, localDayOf, monthValueChanges, type KeptPoolMonth } from "./kept-months";
+import { keptMonthsOf, localDayOf, monthValueChanges, summedMonthValueChanges, type KeptPoolMonth } from "./kept-months";
 import { DEFAULT_METAL_THRESHOLDS, METALS, type MetalReading } from "./reading";
 
 const T0 = Date.UTC(2023, 0, 1);
@@ -133,6 +133,30 @@ describe("kept pool months", () => {
       }),
       { numRuns: 300 },
     );
+  });
+
+  it("sum the changes of several slices of pools into the changes of all of them at once", () => {
+    fc.assert(
+      fc.property(testRows, testRows, fc.integer({ min: 1, max: 4 }), (first, second, slices) => {
+        const before = asTests(first);
+        const after = asTests(second);
+        const pools = [...new Set([...before, ...after].map((t) => t.poolId))].sort();
+        const monthsOf = (tests: MetalTest[], some: readonly string[]) =>
+          keptMonthsOf(
+            tests.filter((t) => some.includes(t.poolId)),
+            DEFAULT_METAL_THRESHOLDS,
+            "UTC",
+          );
+        const parts = Array.from({ length: slices }, (_, k) => pools.filter((_, i) => i % slices === k)).map((some) =>
+          monthValueChanges(monthsOf(before, some), monthsOf(after, some)),
+        );
+        expect(summedMonthValueChanges(parts)).toEqual(monthValueChanges(monthsOf(before, pools), monthsOf(after, pools)));
+      }),
+      { numRuns: 200 },
+    );
+    // A value counted out by one slice and in by another is no change at all.
+    const one = { metal: "iron" as const, month: "2024-05", value: 0.3, belowDetection: false };
+    expect(summedMonthValueChanges([[{ ...one, n: -1 }], [{ ...one, n: 1 }]])).toEqual([]);
   });
 
   it("list a histogram's changes in metal, month and value order", () => {

@@ -20,14 +20,20 @@ export type KeptPoolMonth = {
   values: KeptMonthValue[];
 };
 
+const dayFormats = new Map<string, (at: number) => string>();
+
 /**
  * The local calendar day ("YYYY-MM-DD") of an instant in a time zone. Tests
- * cluster in working hours, so the formatted day is cached per UTC hour.
+ * cluster in working hours, so the formatted day is cached per UTC hour, and
+ * each zone's formatter and cache live as long as the process: a visit save
+ * keeps one pool and would otherwise pay for a new formatter every time.
  */
 export function localDayOf(timeZone: string): (at: number) => string {
+  const kept = dayFormats.get(timeZone);
+  if (kept) return kept;
   const format = new Intl.DateTimeFormat("en-CA", { timeZone, year: "numeric", month: "2-digit", day: "2-digit" });
-  const byHour = new Map<number, string>();
-  return (at) => {
+  let byHour = new Map<number, string>();
+  const dayOf = (at: number) => {
     const hour = Math.floor(at / 3_600_000);
     let day = byHour.get(hour);
     if (day === undefined) {
@@ -36,10 +42,14 @@ export function localDayOf(timeZone: string): (at: number) => string {
       const end = format.format(hour * 3_600_000 + 3_599_999);
       if (start !== end) return format.format(at);
       day = start;
+      // About eleven years of hours; then start again rather than grow without end.
+      if (byHour.size >= 100_000) byHour = new Map();
       byHour.set(hour, day);
     }
     return day;
   };
+  dayFormats.set(timeZone, dayOf);
+  return dayOf;
 }
 
 const byValue = (a: KeptMonthValue, b: KeptMonthValue) => a.value - b.value || Number(a.belowDetection) - Number(b.belowDetection);
@@ -105,17 +115,33 @@ export function monthValueChanges(before: readonly KeptPoolMonth[], after: reado
   const changes = new Map<string, MonthValueChange>();
   const count = (rows: readonly KeptPoolMonth[], sign: 1 | -1) => {
     for (const row of rows) {
-      for (const v of row.values) {
-        const key = `${row.metal}/${row.month}/${v.value}/${v.belowDetection ? 1 : 0}`;
-        const change = changes.get(key);
-        if (change) change.n += sign * v.n;
-        else changes.set(key, { metal: row.metal, month: row.month, value: v.value, belowDetection: v.belowDetection, n: sign * v.n });
-      }
+      for (const v of row.values)
+        addChange(changes, { metal: row.metal, month: row.month, value: v.value, belowDetection: v.belowDetection, n: sign * v.n });
     }
   };
   count(before, -1);
   count(after, 1);
-  return [...changes.values()]
+  return inLockOrder(changes);
+}
+
+/**
+ * Several sets of changes summed into one (the slices of pools one write
+ * keeps), so the histogram is written once, in the order writes take its locks.
+ */
+export function summedMonthValueChanges(parts: readonly (readonly MonthValueChange[])[]): MonthValueChange[] {
+  const changes = new Map<string, MonthValueChange>();
+  for (const part of parts) for (const change of part) addChange(changes, change);
+  return inLockOrder(changes);
+}
+
+function addChange(changes: Map<string, MonthValueChange>, change: MonthValueChange) {
+  const key = `${change.metal}/${change.month}/${change.value}/${change.belowDetection ? 1 : 0}`;
+  const summed = changes.get(key);
+  if (summed) summed.n += change.n;
+  else changes.set(key, { ...change });
+}
+
+const inLockOrder = (changes: ReadonlyMap<string, MonthValueChange>) =>
+  [...changes.values()]
     .filter((c) => c.n !== 0)
     .sort((a, b) => METALS.indexOf(a.metal) - METALS.indexOf(b.metal) || (a.month < b.month ? -1 : a.month > b.month ? 1 : 0) || byValue(a, b));
-}

@@ -7,7 +7,8 @@ import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { treatmentOutcomes, type TreatmentOutcomes } from "~/.server/analytics/queries/treatment-outcomes";
 import { ALL_TIME } from "~/.server/analytics/queries/tenant-and-window";
 import { db } from "~/.server/db/client";
-import { companies, importBatches, keptTreatmentCourses, pools } from "~/.server/db/schema";
+import { keepPoolsInStep, lockPoolsForKeeping } from "~/.server/analytics/kept/keep-pools";
+import { companies, importBatches, keptTreatmentCourses, pools, treatments, waterTests } from "~/.server/db/schema";
 import { undoBatch } from "~/.server/imports/commit";
 import { saveProduct } from "~/.server/routebook/commands/products";
 import { logVisit } from "~/.server/visits/commands/save-visit";
@@ -236,5 +237,27 @@ describe("treatment outcomes from kept courses", () => {
     expect(rows.length).toBe(Number(keptBefore[0]!.n));
     await keptEqualsRecomputed(owner);
     await noDifferences();
+  });
+  it("are kept a slice of pools at a time by a write over many pools, the month histogram summed over the slices", async () => {
+    const at = (day: number) => new Date(T0 + day * DAY);
+    await db().transaction(async (tx) => {
+      await lockPoolsForKeeping(tx, poolIds);
+      for (const poolId of poolIds) {
+        // The same copper reading in the same month on every pool: each slice changes the same histogram row.
+        await tx.insert(waterTests).values({ companyId: owner.companyId, poolId, sampledAt: at(400), copper: 0.6, ph: 7.5 });
+        await tx
+          .insert(treatments)
+          .values({ companyId: owner.companyId, poolId, productId: productIds["Binder A"]!, appliedAt: at(401), amount: 10, unit: "fl oz", cost: 5 });
+        await tx.insert(waterTests).values({ companyId: owner.companyId, poolId, sampledAt: at(410), copper: 0.05 });
+      }
+      await keepPoolsInStep(tx, owner.companyId, poolIds, undefined, 1);
+    });
+    const [[row]] = (await db().execute(
+      `SELECT m.n FROM kept_month_values m JOIN kept_versions v ON v.id = m.version_id
+        WHERE v.company_id = ${owner.companyId} AND v.state = 'ready' AND m.metal = 'copper' AND m.month = '${at(400).toISOString().slice(0, 7)}' AND m.value = 0.6`,
+    )) as unknown as [Array<{ n: number }>];
+    expect(Number(row!.n)).toBe(poolIds.length);
+    await noDifferences();
+    await keptEqualsRecomputed(owner);
   });
 });

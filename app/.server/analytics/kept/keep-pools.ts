@@ -1,6 +1,13 @@
 import { sql, type SQL } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
-import { keptMonthsOf, monthValueChanges, type KeptMonthValue, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
+import {
+  keptMonthsOf,
+  monthValueChanges,
+  summedMonthValueChanges,
+  type KeptMonthValue,
+  type KeptPoolMonth,
+  type MonthValueChange,
+} from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { PoolConnection } from "mysql2/promise";
 import { idList } from "../../db/id-list";
@@ -200,14 +207,18 @@ async function changeMonthValues(writer: Writer, versionId: number, companyId: n
   }
 }
 
-/** Replaces one version's kept rows of these pools with those worked out from their tests. */
-export async function replaceKeptRows(
+/**
+ * Replaces one version's kept rows of these pools with those worked out from
+ * their tests, all but the company's month histogram: returns the changes
+ * to it, for the caller to write once for all the pools it keeps.
+ */
+async function replacePoolRows(
   writer: Writer,
   companyId: number,
   version: LiveVersion,
   poolIds: readonly number[],
   tests: readonly KeptInputTest[],
-) {
+): Promise<MonthValueChange[]> {
   const monthsBefore: KeptPoolMonth[] = [];
   for (let from = 0; from < poolIds.length; from += 1000) {
     const ids = idList(poolIds.slice(from, from + 1000));
@@ -221,20 +232,50 @@ export async function replaceKeptRows(
   await insertEpisodes(writer, version.id, companyId, rows.episodes);
   await insertSpans(writer, version.id, companyId, rows.spans);
   await replaceChangedMonths(writer, version.id, companyId, monthsBefore, months);
-  await changeMonthValues(writer, version.id, companyId, monthValueChanges(monthsBefore, months));
   await replaceKeptCourses(writer, companyId, version, poolIds, tests);
+  return monthValueChanges(monthsBefore, months);
 }
+
+/** Replaces one version's kept rows of these pools with those worked out from their tests. */
+export async function replaceKeptRows(
+  writer: Writer,
+  companyId: number,
+  version: LiveVersion,
+  poolIds: readonly number[],
+  tests: readonly KeptInputTest[],
+) {
+  await changeMonthValues(writer, version.id, companyId, await replacePoolRows(writer, companyId, version, poolIds, tests));
+}
+
+/**
+ * How many pools' tests and kept rows a write holds in memory at once: an
+ * import of a thousand pools is kept slice by slice in its transaction.
+ */
+export const POOLS_PER_SLICE = 200;
 
 /**
  * Keeps the results of the pools a write changed in step with their tests, in
  * the write's own transaction (after lockPoolsForKeeping): each pool is worked
- * out again from its own tests, for every live version of the levels.
+ * out again from its own tests, for every live version of the levels. The
+ * pools are kept a slice at a time; the company's month histogram is written
+ * once at the end, in key order, so two writes take its locks in one order.
  */
-export async function keepPoolsInStep(writer: Writer, companyId: number, poolIds: readonly number[], reader?: RawReader): Promise<void> {
+export async function keepPoolsInStep(
+  writer: Writer,
+  companyId: number,
+  poolIds: readonly number[],
+  reader?: RawReader,
+  poolsPerSlice = POOLS_PER_SLICE,
+): Promise<void> {
   const ids = [...new Set(poolIds)].sort((a, b) => a - b);
   if (ids.length === 0) return;
   const versions = await liveVersions(writer, companyId);
   if (versions.length === 0) return;
-  const tests = await poolTests(reader ?? writer, companyId, ids);
-  for (const version of versions) await replaceKeptRows(writer, companyId, version, ids, tests);
+  const changes = versions.map((): MonthValueChange[][] => []);
+  for (let from = 0; from < ids.length; from += poolsPerSlice) {
+    const slice = ids.slice(from, from + poolsPerSlice);
+    const tests = await poolTests(reader ?? writer, companyId, slice);
+    for (const [v, version] of versions.entries()) changes[v]!.push(await replacePoolRows(writer, companyId, version, slice, tests));
+  }
+  for (const [v, version] of versions.entries()) await changeMonthValues(writer, version.id, companyId, summedMonthValueChanges(changes[v]!));
 }
