@@ -26,7 +26,10 @@ async function metalTreatments(reader: Writer, companyId: number, poolIds: reado
   if (poolIds.length === 0) return [];
   const rows = await rowsOf(
     reader,
-    sql`SELECT t.id, t.pool_id, t.product_id, p.category, t.applied_at, t.cost FROM treatments t JOIN products p ON p.id = t.product_id
+    // The pools' treatments first, by their index: left to itself the optimizer may start from the few products and
+    // read (and under `lock` share-lock) every treatment of the company with those products, tens of milliseconds a save.
+    sql`SELECT t.id, t.pool_id, t.product_id, p.category, t.applied_at, t.cost
+      FROM treatments t FORCE INDEX (treatments_pool_time_idx) STRAIGHT_JOIN products p ON p.id = t.product_id
       WHERE t.company_id = ${companyId} AND t.pool_id IN (${idList(poolIds)}) AND p.category IN ('sequestrant', 'collector_pad', 'ph_decreaser')
       ORDER BY t.pool_id, t.applied_at, t.id${lock ? sql` LOCK IN SHARE MODE` : sql``}`,
   );
@@ -166,7 +169,7 @@ export async function replaceKeptCourses(
     // A locking read: it sees what the write before this one kept, whatever this transaction's snapshot.
     const rows = await rowsOf(
       writer,
-      sql`SELECT * FROM kept_treatment_courses WHERE pool_id IN (${idList(poolIds.slice(from, from + 1000))}) AND version_id = ${version.id} FOR UPDATE`,
+      sql`SELECT * FROM kept_treatment_courses FORCE INDEX (kept_treatment_courses_pool_idx) WHERE pool_id IN (${idList(poolIds.slice(from, from + 1000))}) AND version_id = ${version.id} FOR UPDATE`,
     );
     for (const row of rows) {
       const course = keptCourseOfRaw(row);
