@@ -6,6 +6,7 @@ import type { OutcomeTest, TreatmentRecord } from "@analysis/outcomes/treatments
 import { arrayRows, exactArrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { idList } from "../../db/id-list";
+import { rowValues } from "../../db/row-values";
 import { keptTreatmentCourses, pools, type KeptCourseTreatment } from "../../db/schema";
 import { utcDate } from "../../db/values";
 import { PRODUCT_CATEGORY } from "../queries/metal-readings";
@@ -132,14 +133,35 @@ function keptCourseOfRaw(r: Row): KeptCourse {
   });
 }
 
-const courseValues = (versionId: number, companyId: number, c: KeptCourse) =>
-  sql`(${versionId}, ${c.metal}, ${Number(c.poolId)}, ${c.seq}, ${companyId}, ${at(c.startAt)}, ${JSON.stringify(storedTreatments(c.treatments))},
-    ${c.combination}, ${c.categoryCombination}, ${c.cost}, ${c.costComplete},
-    ${c.baseline ? Number(c.baseline.testId) : null}, ${at(c.baseline?.takenAt ?? null)}, ${c.baseline?.value ?? null}, ${c.baseline?.status ?? null},
-    ${c.ineligible}, ${c.phAtTreatment}, ${c.phStratum},
-    ${c.firstFollowUp ? Number(c.firstFollowUp.testId) : null}, ${at(c.firstFollowUp?.takenAt ?? null)}, ${c.firstFollowUp?.value ?? null},
-    ${c.firstFollowUp?.belowDetection ?? null},
-    ${at(c.clockStoppedAt)}, ${c.cleared}, ${c.censoredBy}, ${at(c.clearedAt)}, ${c.recurrence})`;
+const courseValues = (versionId: number, companyId: number, c: KeptCourse) => [
+  versionId,
+  c.metal,
+  Number(c.poolId),
+  c.seq,
+  companyId,
+  at(c.startAt),
+  JSON.stringify(storedTreatments(c.treatments)),
+  c.combination,
+  c.categoryCombination,
+  c.cost,
+  c.costComplete,
+  c.baseline ? Number(c.baseline.testId) : null,
+  at(c.baseline?.takenAt ?? null),
+  c.baseline?.value ?? null,
+  c.baseline?.status ?? null,
+  c.ineligible,
+  c.phAtTreatment,
+  c.phStratum,
+  c.firstFollowUp ? Number(c.firstFollowUp.testId) : null,
+  at(c.firstFollowUp?.takenAt ?? null),
+  c.firstFollowUp?.value ?? null,
+  c.firstFollowUp?.belowDetection ?? null,
+  at(c.clockStoppedAt),
+  c.cleared,
+  c.censoredBy,
+  at(c.clearedAt),
+  c.recurrence,
+];
 
 const COURSE_COLUMNS = `version_id, metal, pool_id, seq, company_id, started_at, treatments,
   combination, category_combination, cost, cost_complete, baseline_test_id, baseline_at, baseline_value, baseline_status,
@@ -183,15 +205,15 @@ export async function replaceKeptCourses(
   for (let from = 0; from < gone.length; from += 500) {
     const keys = gone.slice(from, from + 500).map((key) => {
       const [metal, poolId, seq] = key.split("/");
-      return sql`(${metal}, ${Number(poolId)}, ${Number(seq)})`;
+      return [metal, Number(poolId), Number(seq)];
     });
-    await writer.execute(sql`DELETE FROM kept_treatment_courses WHERE version_id = ${version.id} AND (metal, pool_id, seq) IN (${sql.join(keys, sql`, `)})`);
+    await writer.execute(sql`DELETE FROM kept_treatment_courses WHERE version_id = ${version.id} AND (metal, pool_id, seq) IN (${rowValues(keys)})`);
   }
   const changed = courses.filter((c) => before.get(courseKey(c)) !== courseLine(c));
   for (let from = 0; from < changed.length; from += 500) {
     const values = changed.slice(from, from + 500).map((c) => courseValues(version.id, companyId, c));
     await writer.execute(
-      sql`INSERT INTO kept_treatment_courses (${sql.raw(COURSE_COLUMNS)}) VALUES ${sql.join(values, sql`, `)} ON DUPLICATE KEY UPDATE ${sql.raw(COURSE_UPDATES)}`,
+      sql`INSERT INTO kept_treatment_courses (${sql.raw(COURSE_COLUMNS)}) VALUES ${rowValues(values)} ON DUPLICATE KEY UPDATE ${sql.raw(COURSE_UPDATES)}`,
     );
   }
 }

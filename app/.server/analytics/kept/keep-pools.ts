@@ -11,6 +11,7 @@ import {
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { PoolConnection } from "mysql2/promise";
 import { idList } from "../../db/id-list";
+import { rowValues } from "../../db/row-values";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
 import { replaceKeptCourses } from "./keep-courses";
@@ -108,13 +109,28 @@ export async function poolTests(source: Writer | RawReader, companyId: number, p
 const at = (ms: number | null) => (ms === null ? null : new Date(ms));
 
 async function insertEpisodes(writer: Writer, versionId: number, companyId: number, episodes: readonly KeptEpisode[]) {
-  for (let from = 0; from < episodes.length; from += 500) {
-    const values = episodes.slice(from, from + 500).map(
-      (e) => sql`(${versionId}, ${companyId}, ${Number(e.poolId)}, ${e.readAs}, ${e.seq}, ${e.metal}, ${at(e.openedAt)}, ${Number(e.openedByTestId)},
-        ${at(e.closedAt)}, ${e.closedByTestId === null ? null : Number(e.closedByTestId)}, ${at(e.endAt)}, ${e.peak}, ${e.testCount}, ${e.chronic}, ${e.recurrence})`,
-    );
+  for (let from = 0; from < episodes.length; from += 1000) {
+    const values = episodes
+      .slice(from, from + 1000)
+      .map((e) => [
+        versionId,
+        companyId,
+        Number(e.poolId),
+        e.readAs,
+        e.seq,
+        e.metal,
+        at(e.openedAt),
+        Number(e.openedByTestId),
+        at(e.closedAt),
+        e.closedByTestId === null ? null : Number(e.closedByTestId),
+        at(e.endAt),
+        e.peak,
+        e.testCount,
+        e.chronic,
+        e.recurrence,
+      ]);
     await writer.execute(sql`INSERT INTO kept_episodes (version_id, company_id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id,
-      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence) VALUES ${sql.join(values, sql`, `)}`);
+      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence) VALUES ${rowValues(values)}`);
   }
 }
 
@@ -122,12 +138,9 @@ async function insertSpans(writer: Writer, versionId: number, companyId: number,
   for (let from = 0; from < spans.length; from += 1000) {
     const values = spans
       .slice(from, from + 1000)
-      .map(
-        (s) =>
-          sql`(${versionId}, ${Number(s.poolId)}, ${s.readAs}, ${companyId}, ${at(s.firstTestAt)}, ${at(s.lastTestAt)}, ${s.tests}, ${at(s.latestBalanceAt ?? null)})`,
-      );
+      .map((s) => [versionId, Number(s.poolId), s.readAs, companyId, at(s.firstTestAt), at(s.lastTestAt), s.tests, at(s.latestBalanceAt ?? null)]);
     await writer.execute(
-      sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at) VALUES ${sql.join(values, sql`, `)}`,
+      sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at) VALUES ${rowValues(values)}`,
     );
   }
 }
@@ -155,12 +168,9 @@ async function insertMonths(writer: Writer, versionId: number, companyId: number
   for (let from = 0; from < months.length; from += 1000) {
     const values = months
       .slice(from, from + 1000)
-      .map(
-        (m) =>
-          sql`(${versionId}, ${Number(m.poolId)}, ${m.metal}, ${m.month}, ${companyId}, ${m.readings}, ${m.elevated}, ${m.days}, ${JSON.stringify(m.values)})`,
-      );
+      .map((m) => [versionId, Number(m.poolId), m.metal, m.month, companyId, m.readings, m.elevated, m.days, JSON.stringify(m.values)]);
     await writer.execute(sql`INSERT INTO kept_pool_months (version_id, pool_id, metal, month, company_id, readings, elevated, days, reading_counts)
-      VALUES ${sql.join(values, sql`, `)}
+      VALUES ${rowValues(values)}
       ON DUPLICATE KEY UPDATE readings = VALUES(readings), elevated = VALUES(elevated), days = VALUES(days), reading_counts = VALUES(reading_counts)`);
   }
 }
@@ -184,10 +194,8 @@ async function replaceChangedMonths(
   const was = new Map(before.map((m) => [monthKey(m), m]));
   const gone = before.filter((m) => !now.has(monthKey(m)));
   for (let from = 0; from < gone.length; from += 500) {
-    const keys = gone.slice(from, from + 500).map((m) => sql`(${Number(m.poolId)}, ${m.metal}, ${m.month})`);
-    await writer.execute(
-      sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (pool_id, metal, month) IN (${sql.join(keys, sql`, `)})`,
-    );
+    const keys = gone.slice(from, from + 500).map((m) => [Number(m.poolId), m.metal, m.month]);
+    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (pool_id, metal, month) IN (${rowValues(keys)})`);
   }
   const changed = after.filter((m) => {
     const old = was.get(monthKey(m));
@@ -199,11 +207,9 @@ async function replaceChangedMonths(
 /** Adds the changes to the company's month histogram, in key order so two writes take the rows' locks in one order. */
 async function changeMonthValues(writer: Writer, versionId: number, companyId: number, changes: readonly MonthValueChange[]) {
   for (let from = 0; from < changes.length; from += 1000) {
-    const values = changes
-      .slice(from, from + 1000)
-      .map((c) => sql`(${versionId}, ${c.metal}, ${c.month}, ${c.value}, ${c.belowDetection}, ${companyId}, ${c.n})`);
+    const values = changes.slice(from, from + 1000).map((c) => [versionId, c.metal, c.month, c.value, c.belowDetection, companyId, c.n]);
     await writer.execute(sql`INSERT INTO kept_month_values (version_id, metal, month, value, below_detection, company_id, n)
-      VALUES ${sql.join(values, sql`, `)} ON DUPLICATE KEY UPDATE n = n + VALUES(n)`);
+      VALUES ${rowValues(values)} ON DUPLICATE KEY UPDATE n = n + VALUES(n)`);
   }
 }
 

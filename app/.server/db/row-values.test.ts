@@ -1,0 +1,24 @@
+import { describe, expect, it } from "vitest";
+import { rowValues } from "./row-values";
+import { sql } from "drizzle-orm";
+import { MySqlDialect } from "drizzle-orm/mysql-core";
+import type { SqlValue } from "mysql2";
+
+const text = (rows: SqlValue[][]) => new MySqlDialect().sqlToQuery(sql`VALUES ${rowValues(rows)}`);
+
+describe("rowValues", () => {
+  it("writes each row as a parenthesised list, escaped as the driver escapes bound values", () => {
+    const query = text([
+      [1, new Date(Date.UTC(2024, 0, 2, 3, 4, 5, 678)), null, true, "it's"],
+      [2, new Date(Date.UTC(2025, 11, 31, 23, 59, 59, 1)), 0.25, false, '[{"value":0.1,"n":2}]'],
+    ]);
+    expect(query.params).toEqual([]);
+    expect(query.sql).toBe(
+      "VALUES (1, '2024-01-02 03:04:05.678', NULL, true, 'it\\'s'), (2, '2025-12-31 23:59:59.001', 0.25, false, '[{\\\"value\\\":0.1,\\\"n\\\":2}]')",
+    );
+  });
+
+  it("refuses an empty list rather than write an insert without rows", () => {
+    expect(() => rowValues([])).toThrow(/no rows/);
+  });
+});
