@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { rowValues } from "./row-values";
 import { sql } from "drizzle-orm";
 import { MySqlDialect } from "drizzle-orm/mysql-core";
-import type { SqlValue } from "mysql2";
+import { format, type SqlValue } from "mysql2";
 
 const text = (rows: SqlValue[][]) => new MySqlDialect().sqlToQuery(sql`VALUES ${rowValues(rows)}`);
 
@@ -16,6 +16,11 @@ describe("rowValues", () => {
     expect(query.sql).toBe(
       "VALUES (1, '2024-01-02 03:04:05.678', NULL, true, 'it\\'s'), (2, '2025-12-31 23:59:59.001', 0.25, false, '[{\\\"value\\\":0.1,\\\"n\\\":2}]')",
     );
+  });
+
+  it("keeps a question mark inside a value when the statement's own parameters are bound after it", () => {
+    const query = new MySqlDialect().sqlToQuery(sql`SELECT ${rowValues([["what?", "it's ?"]])} WHERE id = ${5}`);
+    expect(format(query.sql, query.params as SqlValue[], false, "Z")).toBe("SELECT ('what?', 'it\\'s ?') WHERE id = 5");
   });
 
   it("refuses an empty list rather than write an insert without rows", () => {
