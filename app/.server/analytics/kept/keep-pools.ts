@@ -134,6 +134,53 @@ async function insertEpisodes(writer: Writer, versionId: number, companyId: numb
   }
 }
 
+const episodeKey = (poolId: unknown, readAs: unknown, seq: unknown) => `${String(poolId)}/${String(readAs)}/${String(seq)}`;
+const episodeLine = (e: KeptEpisode) =>
+  [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join("|");
+const instantOf = (value: unknown) => (value === null ? null : utcDate(value)!.getTime());
+
+/**
+ * Writes only the episodes that changed: a visit changes a pool's last
+ * episode or adds one, and a pool can hold a hundred. The pools' kept
+ * episodes are read with a locking read, so the write before this one is seen.
+ */
+async function replaceChangedEpisodes(writer: Writer, versionId: number, companyId: number, ids: SQL, episodes: readonly KeptEpisode[]) {
+  const rows = await rowsOf(
+    writer,
+    sql`SELECT id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
+      FROM kept_episodes FORCE INDEX (kept_episodes_pool_idx) WHERE pool_id IN (${ids}) AND version_id = ${versionId} FOR UPDATE`,
+  );
+  const kept = new Map<string, { id: number; line: string }>();
+  for (const r of rows) {
+    const line = [
+      r.metal,
+      instantOf(r.opened_at),
+      String(r.opened_by_test_id),
+      instantOf(r.closed_at),
+      r.closed_by_test_id === null ? null : String(r.closed_by_test_id),
+      instantOf(r.end_at),
+      Number(r.peak),
+      Number(r.test_count),
+      Number(r.chronic) === 1,
+      Number(r.recurrence) === 1,
+    ].join("|");
+    kept.set(episodeKey(r.pool_id, r.read_as, r.seq), { id: Number(r.id), line });
+  }
+  const changed: KeptEpisode[] = [];
+  for (const e of episodes) {
+    const key = episodeKey(e.poolId, e.readAs, e.seq);
+    const old = kept.get(key);
+    if (old && old.line === episodeLine(e)) kept.delete(key);
+    else changed.push(e);
+  }
+  // The kept episodes left over are gone or changed: removed, and the changed ones written again.
+  const stale = [...kept.values()].map((k) => k.id);
+  for (let from = 0; from < stale.length; from += 1000) {
+    await writer.execute(sql`DELETE FROM kept_episodes WHERE id IN (${idList(stale.slice(from, from + 1000))})`);
+  }
+  await insertEpisodes(writer, versionId, companyId, changed);
+}
+
 async function insertSpans(writer: Writer, versionId: number, companyId: number, spans: readonly KeptSpan[]) {
   for (let from = 0; from < spans.length; from += 1000) {
     const values = spans
@@ -230,12 +277,11 @@ async function replacePoolRows(
     const ids = idList(poolIds.slice(from, from + 1000));
     // Not push(...rows): a thousand pools hold over a hundred thousand month rows, more arguments than a call takes.
     for (const month of await monthsKept(writer, version.id, ids)) monthsBefore.push(month);
-    await writer.execute(sql`DELETE FROM kept_episodes WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
     await writer.execute(sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
   }
   const rows = keptRowsOf(tests, version.levels);
   const months = keptMonthsOf(tests, version.levels, version.timeZone);
-  await insertEpisodes(writer, version.id, companyId, rows.episodes);
+  await replaceChangedEpisodes(writer, version.id, companyId, idList(poolIds), rows.episodes);
   await insertSpans(writer, version.id, companyId, rows.spans);
   await replaceChangedMonths(writer, version.id, companyId, monthsBefore, months);
   await replaceKeptCourses(writer, companyId, version, poolIds, tests);
