@@ -50,9 +50,10 @@ export type MetalDataset = {
   versionId?: number;
 };
 
-export async function loadMetalDataset(scope: Scope, params: AnalyticsParams): Promise<MetalDataset> {
+/** `chosen`: the kept version (or null: none) the caller already chose for this request, so its other reads use the same one. */
+export async function loadMetalDataset(scope: Scope, params: AnalyticsParams, chosen?: number | null): Promise<MetalDataset> {
   const metals = params.metal ? [params.metal] : METALS;
-  const versionId = await keptVersionFor(scope.companyId, params);
+  const versionId = chosen !== undefined ? chosen : await keptVersionFor(scope.companyId, params);
   if (versionId !== null) {
     const tenant = { scope };
     const [history, book, spans] = await Promise.all([

@@ -5,7 +5,7 @@ import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { keptPoolSpans, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
-import type { AnswerSource } from "../kept/read-kept";
+import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
@@ -111,13 +111,16 @@ export async function routeBookSummary(
   params: AnalyticsParams & { balanceBand: BalanceBand },
   loaded?: MetalDataset,
 ): Promise<RouteBookSummary> {
-  const [poolFigures, dataset] = await Promise.all([
+  // With kept results, the balance tests are found through the kept spans while the rest is read.
+  const versionId = loaded ? (loaded.versionId ?? null) : await keptVersionFor(scope.companyId, params);
+  const [poolFigures, dataset, keptBalance] = await Promise.all([
     poolCounts(scope),
-    loaded ? Promise.resolve(loaded) : loadMetalDataset(scope, { ...params, metal: null }),
+    loaded ?? loadMetalDataset(scope, { ...params, metal: null }, versionId),
+    versionId === null ? null : keptBalanceTests(scope, versionId),
   ]);
   const perPool = dataset.source === "kept" ? keptTestFigures(dataset) : await poolTestFigures(scope, params.window);
   const latest = perPool.flatMap((p) => (p.latestBalanceAt ? [{ poolId: p.poolId, at: p.latestBalanceAt }] : []));
-  const balanceRows = dataset.versionId !== undefined ? await keptBalanceTests(scope, dataset.versionId) : await balanceTestsAt(scope, latest);
+  const balanceRows = keptBalance ?? (await balanceTestsAt(scope, latest));
   const figures = {
     ...poolFigures,
     tests: perPool.reduce((sum, p) => sum + p.tests, 0),
