@@ -115,8 +115,7 @@ export function monthValueChanges(before: readonly KeptPoolMonth[], after: reado
   const changes = new Map<string, MonthValueChange>();
   const count = (rows: readonly KeptPoolMonth[], sign: 1 | -1) => {
     for (const row of rows) {
-      for (const v of row.values)
-        addChange(changes, { metal: row.metal, month: row.month, value: v.value, belowDetection: v.belowDetection, n: sign * v.n });
+      for (const v of row.values) addChange(changes, row.metal, row.month, v.value, v.belowDetection, sign * v.n);
     }
   };
   count(before, -1);
@@ -130,15 +129,16 @@ export function monthValueChanges(before: readonly KeptPoolMonth[], after: reado
  */
 export function summedMonthValueChanges(parts: readonly (readonly MonthValueChange[])[]): MonthValueChange[] {
   const changes = new Map<string, MonthValueChange>();
-  for (const part of parts) for (const change of part) addChange(changes, change);
+  for (const part of parts) for (const c of part) addChange(changes, c.metal, c.month, c.value, c.belowDetection, c.n);
   return inLockOrder(changes);
 }
 
-function addChange(changes: Map<string, MonthValueChange>, change: MonthValueChange) {
-  const key = `${change.metal}/${change.month}/${change.value}/${change.belowDetection ? 1 : 0}`;
+/** Adds n readings of a value; takes the parts, not a change object, as it runs for every value of every kept month. */
+function addChange(changes: Map<string, MonthValueChange>, metal: Metal, month: string, value: number, belowDetection: boolean, n: number) {
+  const key = `${metal}/${month}/${value}/${belowDetection ? 1 : 0}`;
   const summed = changes.get(key);
-  if (summed) summed.n += change.n;
-  else changes.set(key, { ...change });
+  if (summed) summed.n += n;
+  else changes.set(key, { metal, month, value, belowDetection, n });
 }
 
 const inLockOrder = (changes: ReadonlyMap<string, MonthValueChange>) =>
