@@ -54,6 +54,23 @@ export function localDayOf(timeZone: string): (at: number) => string {
 
 const byValue = (a: KeptMonthValue, b: KeptMonthValue) => a.value - b.value || Number(a.belowDetection) - Number(b.belowDetection);
 
+/** Counts of each reading value, below-detection readings apart: keyed by the number itself, not a string per reading. */
+class ValueCounts<T extends { n: number }> {
+  private readonly measured = new Map<number, T>();
+  private readonly below = new Map<number, T>();
+
+  add(value: number, belowDetection: boolean, n: number, make: () => T): void {
+    const counts = belowDetection ? this.below : this.measured;
+    const counted = counts.get(value);
+    if (counted) counted.n += n;
+    else counts.set(value, make());
+  }
+
+  all(): T[] {
+    return [...this.measured.values(), ...this.below.values()];
+  }
+}
+
 /**
  * What is kept of some pools' metal tests per local month: one row per pool,
  * month and metal measured in it. `tests` are ordered by pool; the rows come
@@ -62,15 +79,20 @@ const byValue = (a: KeptMonthValue, b: KeptMonthValue) => a.value - b.value || N
 export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThresholds, timeZone: string): KeptPoolMonth[] {
   const dayOf = localDayOf(timeZone);
   const rows: KeptPoolMonth[] = [];
-  type Open = { row: KeptPoolMonth; days: Set<string>; values: Map<string, KeptMonthValue> };
+  type Open = { row: KeptPoolMonth; days: Set<string>; values: ValueCounts<KeptMonthValue> };
+  // A pool's open months, per metal in METALS order, by month.
+  let open: Array<Map<string, Open>> = METALS.map(() => new Map());
   let pool: string | null = null;
-  let open = new Map<string, Open>();
   const flush = () => {
-    const done = [...open.values()].sort(
-      (a, b) => METALS.indexOf(a.row.metal) - METALS.indexOf(b.row.metal) || (a.row.month < b.row.month ? -1 : a.row.month > b.row.month ? 1 : 0),
-    );
-    for (const o of done) rows.push({ ...o.row, days: o.days.size, values: [...o.values.values()].sort(byValue) });
-    open = new Map();
+    for (const byMonth of open) {
+      const months = [...byMonth.values()].sort((a, b) => (a.row.month < b.row.month ? -1 : a.row.month > b.row.month ? 1 : 0));
+      for (const o of months) {
+        o.row.days = o.days.size;
+        o.row.values = o.values.all().sort(byValue);
+        rows.push(o.row);
+      }
+    }
+    open = METALS.map(() => new Map());
   };
   for (const t of tests) {
     if (t.poolId !== pool) {
@@ -78,24 +100,25 @@ export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThres
       pool = t.poolId;
     }
     let day: string | null = null;
-    for (const metal of METALS) {
+    let month = "";
+    for (let m = 0; m < METALS.length; m++) {
+      const metal = METALS[m]!;
       const reading = t[metal];
       if (!reading) continue;
-      day ??= dayOf(t.takenAt);
-      const month = day.slice(0, 7);
-      const key = `${metal}/${month}`;
-      let o = open.get(key);
+      if (day === null) {
+        day = dayOf(t.takenAt);
+        month = day.slice(0, 7);
+      }
+      let o = open[m]!.get(month);
       if (!o) {
-        o = { row: { poolId: t.poolId, month, metal, readings: 0, elevated: 0, days: 0, values: [] }, days: new Set(), values: new Map() };
-        open.set(key, o);
+        o = { row: { poolId: t.poolId, month, metal, readings: 0, elevated: 0, days: 0, values: [] }, days: new Set(), values: new ValueCounts() };
+        open[m]!.set(month, o);
       }
       o.row.readings++;
       if (!reading.belowDetection && reading.value >= thresholds[metal].elevated) o.row.elevated++;
       o.days.add(day);
-      const valueKey = `${reading.value}/${reading.belowDetection ? 1 : 0}`;
-      const counted = o.values.get(valueKey);
-      if (counted) counted.n++;
-      else o.values.set(valueKey, { value: reading.value, belowDetection: reading.belowDetection, n: 1 });
+      const { value, belowDetection } = reading;
+      o.values.add(value, belowDetection, 1, () => ({ value, belowDetection, n: 1 }));
     }
   }
   flush();
@@ -112,15 +135,10 @@ export type MonthValueChange = KeptMonthValue & { metal: Metal; month: string };
  * (the order writes take their row locks in).
  */
 export function monthValueChanges(before: readonly KeptPoolMonth[], after: readonly KeptPoolMonth[]): MonthValueChange[] {
-  const changes = new Map<string, MonthValueChange>();
-  const count = (rows: readonly KeptPoolMonth[], sign: 1 | -1) => {
-    for (const row of rows) {
-      for (const v of row.values) addChange(changes, row.metal, row.month, v.value, v.belowDetection, sign * v.n);
-    }
-  };
-  count(before, -1);
-  count(after, 1);
-  return inLockOrder(changes);
+  const changes = new MonthChanges();
+  for (const row of before) for (const v of row.values) changes.add(row.metal, row.month, v.value, v.belowDetection, -v.n);
+  for (const row of after) for (const v of row.values) changes.add(row.metal, row.month, v.value, v.belowDetection, v.n);
+  return changes.inLockOrder();
 }
 
 /**
@@ -128,20 +146,27 @@ export function monthValueChanges(before: readonly KeptPoolMonth[], after: reado
  * keeps), so the histogram is written once, in the order writes take its locks.
  */
 export function summedMonthValueChanges(parts: readonly (readonly MonthValueChange[])[]): MonthValueChange[] {
-  const changes = new Map<string, MonthValueChange>();
-  for (const part of parts) for (const c of part) addChange(changes, c.metal, c.month, c.value, c.belowDetection, c.n);
-  return inLockOrder(changes);
+  const changes = new MonthChanges();
+  for (const part of parts) for (const c of part) changes.add(c.metal, c.month, c.value, c.belowDetection, c.n);
+  return changes.inLockOrder();
 }
 
-/** Adds n readings of a value; takes the parts, not a change object, as it runs for every value of every kept month. */
-function addChange(changes: Map<string, MonthValueChange>, metal: Metal, month: string, value: number, belowDetection: boolean, n: number) {
-  const key = `${metal}/${month}/${value}/${belowDetection ? 1 : 0}`;
-  const summed = changes.get(key);
-  if (summed) summed.n += n;
-  else changes.set(key, { metal, month, value, belowDetection, n });
-}
+/** Changes summed per metal and month, then per value: it runs for every value of every kept month. */
+class MonthChanges {
+  private readonly byMonth = new Map<string, ValueCounts<MonthValueChange>>();
 
-const inLockOrder = (changes: ReadonlyMap<string, MonthValueChange>) =>
-  [...changes.values()]
-    .filter((c) => c.n !== 0)
-    .sort((a, b) => METALS.indexOf(a.metal) - METALS.indexOf(b.metal) || (a.month < b.month ? -1 : a.month > b.month ? 1 : 0) || byValue(a, b));
+  add(metal: Metal, month: string, value: number, belowDetection: boolean, n: number): void {
+    const key = `${metal}/${month}`;
+    let values = this.byMonth.get(key);
+    if (!values) this.byMonth.set(key, (values = new ValueCounts()));
+    values.add(value, belowDetection, n, () => ({ metal, month, value, belowDetection, n }));
+  }
+
+  inLockOrder(): MonthValueChange[] {
+    const changes: MonthValueChange[] = [];
+    for (const values of this.byMonth.values()) for (const c of values.all()) if (c.n !== 0) changes.push(c);
+    return changes.sort(
+      (a, b) => METALS.indexOf(a.metal) - METALS.indexOf(b.metal) || (a.month < b.month ? -1 : a.month > b.month ? 1 : 0) || byValue(a, b),
+    );
+  }
+}
