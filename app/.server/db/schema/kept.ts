@@ -27,6 +27,13 @@ import { owningPool } from "./routebook";
 // of the company's levels; a change of levels builds a new version beside the
 // one in use and switches over when it is complete.
 
+/**
+ * The company a kept row belongs to, without a key of its own: the row goes
+ * with its version, and the version with its company. A key and index here
+ * would cost every kept row of an import a lookup and an index entry.
+ */
+const keptCompany = () => int("company_id").notNull();
+
 const KEPT_VERSION_STATES = ["building", "ready", "retired"] as const;
 
 /**
@@ -68,7 +75,7 @@ export const keptEpisodes = mysqlTable(
     versionId: int("version_id")
       .notNull()
       .references(() => keptVersions.id, { onDelete: "cascade" }),
-    companyId: owningCompany(),
+    companyId: keptCompany(),
     poolId: owningPool(),
     readAs: mysqlEnum("read_as", KEPT_READINGS).notNull(),
     seq: smallint("seq", { unsigned: true }).notNull(),
@@ -87,7 +94,6 @@ export const keptEpisodes = mysqlTable(
     unique("kept_episodes_order").on(t.versionId, t.readAs, t.poolId, t.seq),
     // A write replaces its pools' rows through this key, locking only theirs.
     index("kept_episodes_pool_idx").on(t.poolId, t.versionId),
-    index("kept_episodes_company_idx").on(t.companyId),
   ],
 );
 
@@ -105,18 +111,14 @@ export const keptPoolSpans = mysqlTable(
       .references(() => keptVersions.id, { onDelete: "cascade" }),
     poolId: owningPool(),
     readAs: mysqlEnum("read_as", KEPT_SPANS).notNull(),
-    companyId: owningCompany(),
+    companyId: keptCompany(),
     firstAt: instant("first_at").notNull(),
     lastAt: instant("last_at").notNull(),
     tests: int("tests").notNull(),
     /** "any" only: the latest test carrying the four inputs the saturation index needs. */
     latestBalanceAt: instant("latest_balance_at"),
   },
-  (t) => [
-    primaryKey({ columns: [t.versionId, t.readAs, t.poolId] }),
-    index("kept_pool_spans_pool_idx").on(t.poolId, t.versionId),
-    index("kept_pool_spans_company_idx").on(t.companyId),
-  ],
+  (t) => [primaryKey({ columns: [t.versionId, t.readAs, t.poolId] }), index("kept_pool_spans_pool_idx").on(t.poolId, t.versionId)],
 );
 
 const METAL_NAMES = ["copper", "iron", "manganese"] as const;
@@ -136,7 +138,7 @@ export const keptPoolMonths = mysqlTable(
     poolId: owningPool(),
     metal: mysqlEnum("metal", METAL_NAMES).notNull(),
     month: char("month", { length: 7 }).notNull(),
-    companyId: owningCompany(),
+    companyId: keptCompany(),
     readings: int("readings").notNull(),
     elevated: int("elevated").notNull(),
     days: smallint("days", { unsigned: true }).notNull(),
@@ -147,7 +149,6 @@ export const keptPoolMonths = mysqlTable(
     index("kept_pool_months_pool_idx").on(t.poolId, t.versionId),
     // Pools above the level in a month are few: the monthly count of them reads only those rows.
     index("kept_pool_months_elevated_idx").on(t.versionId, t.elevated),
-    index("kept_pool_months_company_idx").on(t.companyId),
   ],
 );
 
@@ -166,13 +167,10 @@ export const keptMonthValues = mysqlTable(
     month: char("month", { length: 7 }).notNull(),
     value: decimalNumber("value", 6, 3).notNull(),
     belowDetection: flag("below_detection", false),
-    companyId: owningCompany(),
+    companyId: keptCompany(),
     n: int("n").notNull(),
   },
-  (t) => [
-    primaryKey({ name: "kept_month_values_pk", columns: [t.versionId, t.metal, t.month, t.value, t.belowDetection] }),
-    index("kept_month_values_company_idx").on(t.companyId),
-  ],
+  (t) => [primaryKey({ name: "kept_month_values_pk", columns: [t.versionId, t.metal, t.month, t.value, t.belowDetection] })],
 );
 
 const METAL_STATUSES = ["elevated", "watch", "clear", "unknown"] as const;
@@ -198,7 +196,7 @@ export const keptTreatmentCourses = mysqlTable(
     poolId: owningPool(),
     /** The course's place among the pool's courses, by start. */
     seq: smallint("seq", { unsigned: true }).notNull(),
-    companyId: owningCompany(),
+    companyId: keptCompany(),
     startedAt: instant("started_at").notNull(),
     treatments: json("treatments").$type<KeptCourseTreatment[]>().notNull(),
     /** The arm keys: product ids, and categories, sorted and joined with " + ". */
@@ -224,9 +222,5 @@ export const keptTreatmentCourses = mysqlTable(
     clearedAt: instant("cleared_at"),
     recurrence: mysqlEnum("recurrence", RECURRENCE),
   },
-  (t) => [
-    primaryKey({ columns: [t.versionId, t.metal, t.poolId, t.seq] }),
-    index("kept_treatment_courses_pool_idx").on(t.poolId, t.versionId),
-    index("kept_treatment_courses_company_idx").on(t.companyId),
-  ],
+  (t) => [primaryKey({ columns: [t.versionId, t.metal, t.poolId, t.seq] }), index("kept_treatment_courses_pool_idx").on(t.poolId, t.versionId)],
 );
