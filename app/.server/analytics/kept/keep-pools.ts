@@ -139,18 +139,16 @@ const episodeLine = (e: KeptEpisode) =>
   [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join("|");
 const instantOf = (value: unknown) => (value === null ? null : utcDate(value)!.getTime());
 
-/**
- * Writes only the episodes that changed: a visit changes a pool's last
- * episode or adds one, and a pool can hold a hundred. The pools' kept
- * episodes are read with a locking read, so the write before this one is seen.
- */
-async function replaceChangedEpisodes(writer: Writer, versionId: number, companyId: number, ids: SQL, episodes: readonly KeptEpisode[]) {
+type KeptEpisodeLines = Map<string, { id: number; line: string }>;
+
+/** The pools' kept episodes as comparison lines by key: a locking read, so the write before this one is seen. */
+async function episodesKept(writer: Writer, versionId: number, ids: SQL): Promise<KeptEpisodeLines> {
   const rows = await rowsOf(
     writer,
     sql`SELECT id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
       FROM kept_episodes FORCE INDEX (kept_episodes_pool_idx) WHERE pool_id IN (${ids}) AND version_id = ${versionId} FOR UPDATE`,
   );
-  const kept = new Map<string, { id: number; line: string }>();
+  const kept: KeptEpisodeLines = new Map();
   for (const r of rows) {
     const line = [
       r.metal,
@@ -166,19 +164,24 @@ async function replaceChangedEpisodes(writer: Writer, versionId: number, company
     ].join("|");
     kept.set(episodeKey(r.pool_id, r.read_as, r.seq), { id: Number(r.id), line });
   }
+  return kept;
+}
+
+/**
+ * Only the episodes that changed are written: a visit changes a pool's last
+ * episode or adds one, and a pool can hold a hundred. Returns the kept rows
+ * to delete (gone or changed) and the episodes to insert (new or changed).
+ */
+function changedEpisodes(kept: KeptEpisodeLines, episodes: readonly KeptEpisode[]): { stale: number[]; changed: KeptEpisode[] } {
+  const left = new Map(kept);
   const changed: KeptEpisode[] = [];
   for (const e of episodes) {
     const key = episodeKey(e.poolId, e.readAs, e.seq);
-    const old = kept.get(key);
-    if (old && old.line === episodeLine(e)) kept.delete(key);
+    const old = left.get(key);
+    if (old && old.line === episodeLine(e)) left.delete(key);
     else changed.push(e);
   }
-  // The kept episodes left over are gone or changed: removed, and the changed ones written again.
-  const stale = [...kept.values()].map((k) => k.id);
-  for (let from = 0; from < stale.length; from += 1000) {
-    await writer.execute(sql`DELETE FROM kept_episodes WHERE id IN (${idList(stale.slice(from, from + 1000))})`);
-  }
-  await insertEpisodes(writer, versionId, companyId, changed);
+  return { stale: [...left.values()].map((k) => k.id), changed };
 }
 
 async function insertSpans(writer: Writer, versionId: number, companyId: number, spans: readonly KeptSpan[]) {
@@ -227,28 +230,19 @@ const sameMonth = (a: KeptPoolMonth, b: KeptPoolMonth) =>
   a.readings === b.readings && a.elevated === b.elevated && a.days === b.days && JSON.stringify(a.values) === JSON.stringify(b.values);
 
 /**
- * Writes only the month rows that changed: a visit touches one month of a
- * pool with years of them, so rewriting them all would cost the save time.
+ * Only the month rows that changed are written: a visit touches one month of
+ * a pool with years of them, so rewriting them all would cost the save time.
  */
-async function replaceChangedMonths(
-  writer: Writer,
-  versionId: number,
-  companyId: number,
-  before: readonly KeptPoolMonth[],
-  after: readonly KeptPoolMonth[],
-) {
+function changedMonths(before: readonly KeptPoolMonth[], after: readonly KeptPoolMonth[]): { gone: KeptPoolMonth[]; changed: KeptPoolMonth[] } {
   const now = new Map(after.map((m) => [monthKey(m), m]));
   const was = new Map(before.map((m) => [monthKey(m), m]));
-  const gone = before.filter((m) => !now.has(monthKey(m)));
-  for (let from = 0; from < gone.length; from += 500) {
-    const keys = gone.slice(from, from + 500).map((m) => [Number(m.poolId), m.metal, m.month]);
-    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (pool_id, metal, month) IN (${rowValues(keys)})`);
-  }
-  const changed = after.filter((m) => {
-    const old = was.get(monthKey(m));
-    return !old || !sameMonth(old, m);
-  });
-  await insertMonths(writer, versionId, companyId, changed);
+  return {
+    gone: before.filter((m) => !now.has(monthKey(m))),
+    changed: after.filter((m) => {
+      const old = was.get(monthKey(m));
+      return !old || !sameMonth(old, m);
+    }),
+  };
 }
 
 /** Adds the changes to the company's month histogram, in key order so two writes take the rows' locks in one order. */
@@ -258,6 +252,91 @@ async function changeMonthValues(writer: Writer, versionId: number, companyId: n
     await writer.execute(sql`INSERT INTO kept_month_values (version_id, metal, month, value, below_detection, company_id, n)
       VALUES ${rowValues(values)} ON DUPLICATE KEY UPDATE n = n + VALUES(n)`);
   }
+}
+
+/** One version's kept rows of some pools as they stand, read with locking reads before they are replaced. */
+type KeptBefore = { months: KeptPoolMonth[]; episodes: KeptEpisodeLines };
+
+async function keptBefore(writer: Writer, versionId: number, poolIds: readonly number[]): Promise<KeptBefore> {
+  const months: KeptPoolMonth[] = [];
+  for (let from = 0; from < poolIds.length; from += 1000) {
+    // Not push(...rows): a thousand pools hold over a hundred thousand month rows, more arguments than a call takes.
+    for (const month of await monthsKept(writer, versionId, idList(poolIds.slice(from, from + 1000)))) months.push(month);
+  }
+  return { months, episodes: await episodesKept(writer, versionId, idList(poolIds)) };
+}
+
+/** What replacing one version's kept rows of some pools writes, and what it does to the company's month histogram. */
+type KeptChanges = {
+  version: LiveVersion;
+  staleEpisodes: number[];
+  episodes: KeptEpisode[];
+  spans: KeptSpan[];
+  goneMonths: KeptPoolMonth[];
+  months: KeptPoolMonth[];
+  monthValues: MonthValueChange[];
+};
+
+/** Works out the pools' rows again from their tests (ordered by pool), a pool at a time, and compares them with the kept ones. */
+async function keptChanges(
+  version: LiveVersion,
+  tests: readonly KeptInputTest[],
+  before: KeptBefore,
+  yieldBetweenPools: boolean,
+): Promise<KeptChanges> {
+  const episodes: KeptEpisode[] = [];
+  const spans: KeptSpan[] = [];
+  const months: KeptPoolMonth[] = [];
+  for (let from = 0; from < tests.length;) {
+    let to = from + 1;
+    while (to < tests.length && tests[to]!.poolId === tests[from]!.poolId) to++;
+    const poolTests = tests.slice(from, to);
+    const rows = keptRowsOf(poolTests, version.levels);
+    for (const e of rows.episodes) episodes.push(e);
+    for (const span of rows.spans) spans.push(span);
+    for (const m of keptMonthsOf(poolTests, version.levels, version.timeZone)) months.push(m);
+    from = to;
+    // Lets the statements already sent for the slice before this one go on while this one is worked out.
+    if (yieldBetweenPools) await new Promise((resolve) => setImmediate(resolve));
+  }
+  const { stale, changed } = changedEpisodes(before.episodes, episodes);
+  const { gone, changed: changedMonthRows } = changedMonths(before.months, months);
+  return {
+    version,
+    staleEpisodes: stale,
+    episodes: changed,
+    spans,
+    goneMonths: gone,
+    months: changedMonthRows,
+    monthValues: monthValueChanges(before.months, months),
+  };
+}
+
+/** Writes one version's changes to the pools' kept rows, all but the company's month histogram, and keeps their treatment courses. */
+async function writeKeptChanges(
+  writer: Writer,
+  companyId: number,
+  poolIds: readonly number[],
+  tests: readonly KeptInputTest[],
+  changes: KeptChanges,
+) {
+  const versionId = changes.version.id;
+  for (let from = 0; from < changes.staleEpisodes.length; from += 1000) {
+    await writer.execute(sql`DELETE FROM kept_episodes WHERE id IN (${idList(changes.staleEpisodes.slice(from, from + 1000))})`);
+  }
+  await insertEpisodes(writer, versionId, companyId, changes.episodes);
+  for (let from = 0; from < poolIds.length; from += 1000) {
+    await writer.execute(
+      sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${idList(poolIds.slice(from, from + 1000))}) AND version_id = ${versionId}`,
+    );
+  }
+  await insertSpans(writer, versionId, companyId, changes.spans);
+  for (let from = 0; from < changes.goneMonths.length; from += 500) {
+    const keys = changes.goneMonths.slice(from, from + 500).map((m) => [Number(m.poolId), m.metal, m.month]);
+    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (pool_id, metal, month) IN (${rowValues(keys)})`);
+  }
+  await insertMonths(writer, versionId, companyId, changes.months);
+  await replaceKeptCourses(writer, companyId, changes.version, poolIds, tests);
 }
 
 /**
@@ -272,20 +351,9 @@ async function replacePoolRows(
   poolIds: readonly number[],
   tests: readonly KeptInputTest[],
 ): Promise<MonthValueChange[]> {
-  const monthsBefore: KeptPoolMonth[] = [];
-  for (let from = 0; from < poolIds.length; from += 1000) {
-    const ids = idList(poolIds.slice(from, from + 1000));
-    // Not push(...rows): a thousand pools hold over a hundred thousand month rows, more arguments than a call takes.
-    for (const month of await monthsKept(writer, version.id, ids)) monthsBefore.push(month);
-    await writer.execute(sql`DELETE FROM kept_pool_spans WHERE pool_id IN (${ids}) AND version_id = ${version.id}`);
-  }
-  const rows = keptRowsOf(tests, version.levels);
-  const months = keptMonthsOf(tests, version.levels, version.timeZone);
-  await replaceChangedEpisodes(writer, version.id, companyId, idList(poolIds), rows.episodes);
-  await insertSpans(writer, version.id, companyId, rows.spans);
-  await replaceChangedMonths(writer, version.id, companyId, monthsBefore, months);
-  await replaceKeptCourses(writer, companyId, version, poolIds, tests);
-  return monthValueChanges(monthsBefore, months);
+  const changes = await keptChanges(version, tests, await keptBefore(writer, version.id, poolIds), false);
+  await writeKeptChanges(writer, companyId, poolIds, tests, changes);
+  return changes.monthValues;
 }
 
 /** Replaces one version's kept rows of these pools with those worked out from their tests. */
@@ -305,12 +373,33 @@ export async function replaceKeptRows(
  */
 export const POOLS_PER_SLICE = 200;
 
+/** A slice of pools with their tests and, per live version, their kept rows as they stand. */
+type SliceRead = { poolIds: number[]; tests: KeptInputTest[]; before: KeptBefore[] };
+
+async function readSlice(
+  writer: Writer,
+  reader: Writer | RawReader,
+  companyId: number,
+  versions: readonly LiveVersion[],
+  poolIds: number[],
+): Promise<SliceRead> {
+  const tests = await poolTests(reader, companyId, poolIds);
+  const before: KeptBefore[] = [];
+  for (const version of versions) before.push(await keptBefore(writer, version.id, poolIds));
+  return { poolIds, tests, before };
+}
+
 /**
  * Keeps the results of the pools a write changed in step with their tests, in
  * the write's own transaction (after lockPoolsForKeeping): each pool is worked
  * out again from its own tests, for every live version of the levels. The
  * pools are kept a slice at a time; the company's month histogram is written
  * once at the end, in key order, so two writes take its locks in one order.
+ *
+ * Slices overlap: while one slice's rows are written, the next one's (already
+ * read) are worked out, so the database and this process work side by side.
+ * The connection runs one statement at a time, so the next slice is read
+ * before this one's writes are sent; the slices hold different pools.
  */
 export async function keepPoolsInStep(
   writer: Writer,
@@ -323,11 +412,24 @@ export async function keepPoolsInStep(
   if (ids.length === 0) return;
   const versions = await liveVersions(writer, companyId);
   if (versions.length === 0) return;
-  const changes = versions.map((): MonthValueChange[][] => []);
-  for (let from = 0; from < ids.length; from += poolsPerSlice) {
-    const slice = ids.slice(from, from + poolsPerSlice);
-    const tests = await poolTests(reader ?? writer, companyId, slice);
-    for (const [v, version] of versions.entries()) changes[v]!.push(await replacePoolRows(writer, companyId, version, slice, tests));
+  const slices: number[][] = [];
+  for (let from = 0; from < ids.length; from += poolsPerSlice) slices.push(ids.slice(from, from + poolsPerSlice));
+  const monthValues = versions.map((): MonthValueChange[][] => []);
+  let next = await readSlice(writer, reader ?? writer, companyId, versions, slices[0]!);
+  let writing: Promise<void> | null = null;
+  for (let s = 0; s < slices.length; s++) {
+    const slice = next;
+    const changes: KeptChanges[] = [];
+    for (const [v, version] of versions.entries()) changes.push(await keptChanges(version, slice.tests, slice.before[v]!, writing !== null));
+    if (writing) await writing;
+    if (s + 1 < slices.length) next = await readSlice(writer, reader ?? writer, companyId, versions, slices[s + 1]!);
+    changes.forEach((c, v) => monthValues[v]!.push(c.monthValues));
+    writing = (async () => {
+      for (const c of changes) await writeKeptChanges(writer, companyId, slice.poolIds, slice.tests, c);
+    })();
+    // Handled here so a failure while the next slice is worked out is not reported as unhandled; it is thrown when awaited.
+    writing.catch(() => undefined);
   }
-  for (const [v, version] of versions.entries()) await changeMonthValues(writer, version.id, companyId, summedMonthValueChanges(changes[v]!));
+  await writing;
+  for (const [v, version] of versions.entries()) await changeMonthValues(writer, version.id, companyId, summedMonthValueChanges(monthValues[v]!));
 }
