@@ -115,10 +115,24 @@ async function checkedAgain(round: number): Promise<string> {
   return id;
 }
 
+/**
+ * Waits (up to two minutes) until MariaDB has purged the rows the last undo
+ * deleted: purge runs in the background and would otherwise slow whichever
+ * commit comes next.
+ */
+async function purged() {
+  for (let waited = 0; waited < 600; waited++) {
+    const [[status]] = (await pool().query("SHOW GLOBAL STATUS LIKE 'Innodb_history_list_length'")) as unknown as [[{ Value: string }]];
+    if (Number(status.Value) < 1000) return;
+    await new Promise((resolve) => setTimeout(resolve, 200));
+  }
+}
+
 /** Commits an upload, with the company's kept analytics live (kept in step by the commit) or with none to keep. */
 async function timedCommit(id: string, kept: boolean, hooks: Parameters<typeof commitUpload>[2] = {}) {
   if (kept) await keepCompanyCurrent(companyId);
   else await db().delete(keptVersions).where(eq(keptVersions.companyId, companyId));
+  await purged();
   const started = performance.now();
   const result = await commitUpload(scope, id, hooks);
   const seconds = (performance.now() - started) / 1000;
