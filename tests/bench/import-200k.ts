@@ -48,20 +48,39 @@ const sample = () => {
 const sampler = setInterval(sample, 20);
 const mb = (bytes: number) => `${(bytes / 1024 / 1024).toFixed(0)} MB`;
 
-/** A messy spreadsheet export: °F, µg/L copper, "<0.1", "n/a", and one unreadable pH in every 1,000 rows. */
-function generateFile(rows: number): Uint8Array {
-  const random = seededRandom(20261201);
+/**
+ * A messy spreadsheet export: °F, µg/L copper, "<0.1", "n/a", and one unreadable pH in every 1,000 rows.
+ * Its metals are drawn afresh at each visit, so a pool crosses the levels every few visits: the
+ * hardest case for kept analytics (more kept episodes and pool-months than tests). `steady` keeps
+ * each pool's copper and iron high or low for weeks, switching about once in fifty visits, as pools do.
+ */
+function generateFile(rows: number, steady = false): Uint8Array {
+  const random = seededRandom(steady ? 20261203 : 20261201);
   const lines = ["Account,Sample Date,pH,Free Cl,TA,CH,CYA,Temp F,Cu (ug/L),Iron,Mn,Notes"];
   const start = Date.UTC(2016, 0, 4, 8);
+  const copperHigh = new Array<boolean>(POOLS).fill(false);
+  const ironHigh = new Array<boolean>(POOLS).fill(false);
   for (let i = 0; i < rows; i++) {
     const pool = i % POOLS;
     const visit = Math.floor(i / POOLS);
     const at = new Date(start + visit * 7 * 86_400_000 + pool * 60_000).toISOString().slice(0, 16).replace("T", " ");
     const ph = i % 1000 === 999 ? "abc" : (7 + random() * 0.8).toFixed(1);
-    const iron = random() < 0.3 ? "<0.1" : (random() * 0.4).toFixed(2);
+    if (steady && random() < 0.02) copperHigh[pool] = !copperHigh[pool];
+    if (steady && random() < 0.02) ironHigh[pool] = !ironHigh[pool];
+    // Drawn where the row needs it, so the first file's values stay those of earlier runs.
+    const copper = () => (steady ? (copperHigh[pool] ? 350 + random() * 300 : random() * 90) : random() * 500);
+    const iron = steady
+      ? ironHigh[pool]
+        ? (0.25 + random() * 0.3).toFixed(2)
+        : random() < 0.5
+          ? "<0.1"
+          : (random() * 0.09).toFixed(2)
+      : random() < 0.3
+        ? "<0.1"
+        : (random() * 0.4).toFixed(2);
     lines.push(
       [`B-${String(pool).padStart(4, "0")}`, at, ph, (1 + random() * 4).toFixed(1), Math.round(70 + random() * 60), Math.round(180 + random() * 200),
-        Math.round(30 + random() * 40), Math.round(70 + random() * 20), Math.round(random() * 500), iron, random() < 0.5 ? "n/a" : (random() * 0.05).toFixed(3),
+        Math.round(30 + random() * 40), Math.round(70 + random() * 20), Math.round(copper()), iron, random() < 0.5 ? "n/a" : (random() * 0.05).toFixed(3),
         random() < 0.05 ? '"checked, fine"' : ""].join(","),
     );
   }
@@ -108,8 +127,8 @@ stage("checked:");
 if (!checked.ok) throw new Error(checked.message);
 
 /** The file stored and checked again, ready for another commit (a batch undone cannot be committed twice). */
-async function checkedAgain(round: number): Promise<string> {
-  const id = await storeUpload(scope, `bench-200k-${round}.csv`, file);
+async function checkedAgain(round: number, contents = file): Promise<string> {
+  const id = await storeUpload(scope, `bench-200k-${round}.csv`, contents);
   const again = await checkUpload(scope, id, readImportOptions((await findUpload(scope, id))!.options)!);
   if (!again.ok) throw new Error(again.message);
   return id;
@@ -211,6 +230,18 @@ await undoBatch(scope, keptAgain.batchId);
 const plainCommitSeconds = (plain.seconds + plainAgain.seconds) / 2;
 const keptCommitSeconds = (commitSeconds + keptAgain.seconds) / 2;
 
+// The steady file, kept then plain: what keeping costs when pools stay high or low for weeks.
+const steadyFile = generateFile(ROWS, true);
+const steadyKept = await timedCommit(await checkedAgain(4, steadyFile), true);
+const [[steadyRows]] = (await pool().query(
+  `SELECT (SELECT COUNT(*) FROM kept_episodes e JOIN kept_versions v ON v.id = e.version_id WHERE v.company_id = ? AND v.state = 'ready') AS episodes,
+    (SELECT COUNT(*) FROM kept_pool_months m JOIN kept_versions v ON v.id = m.version_id WHERE v.company_id = ? AND v.state = 'ready') AS months`,
+  [companyId, companyId],
+)) as unknown as [[{ episodes: number; months: number }]];
+await undoBatch(scope, steadyKept.batchId);
+const steadyPlain = await timedCommit(await checkedAgain(5, steadyFile), false);
+await undoBatch(scope, steadyPlain.batchId);
+
 const [[{ tests_before: before }]] = (await connection.query("SELECT COUNT(*) AS tests_before FROM water_tests WHERE company_id = ?", [companyId])) as unknown as [[{ tests_before: number }]];
 t = performance.now();
 await connection.query({ sql: `LOAD DATA LOCAL INFILE ? INTO TABLE water_tests FIELDS TERMINATED BY '\\t' LINES TERMINATED BY '\\n' (${columns})`, values: [dumpPath] });
@@ -235,6 +266,9 @@ console.log(
 );
 console.log(
   `visit save (median of 100 pools with about 200 tests each): ${keptVisitMs.toFixed(1)} ms with kept analytics, ${plainVisitMs.toFixed(1)} ms without; keeping adds ${(keptVisitMs - plainVisitMs).toFixed(1)} ms`,
+);
+console.log(
+  `steady file (levels held for weeks; ${Number(steadyRows.episodes).toLocaleString("en")} kept episodes, ${Number(steadyRows.months).toLocaleString("en")} pool-months): commit with kept analytics ${steadyKept.seconds.toFixed(2)} s, without ${steadyPlain.seconds.toFixed(2)} s; keeping adds ${added(steadyKept.seconds, steadyPlain.seconds)}`,
 );
 console.log(`check + commit: ${(checkSeconds + commitSeconds).toFixed(2)} s (${rate(committed.testsAdded, checkSeconds + commitSeconds)})`);
 console.log(`peak memory (rss, sampled): ${mb(peakImport)}; running peak after each step: ${stages.join(", ")}`);
