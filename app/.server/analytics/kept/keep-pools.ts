@@ -55,11 +55,6 @@ export async function liveVersions(writer: Writer, companyId: number): Promise<L
   }));
 }
 
-/**
- * Every test of the pools (any analyte) with its metals, ordered by pool, time
- * and id: the order the analysis reads them in. A locking read, so it sees the
- * latest committed tests whatever the transaction's snapshot.
- */
 /** The driver's own connection (or pool), for the large reads: rows as arrays, dates and decimals parsed by the driver. */
 export type RawReader = Pick<PoolConnection, "query">;
 
@@ -77,6 +72,11 @@ type TestRow = [
   ph: number | string | null,
 ];
 
+/**
+ * Every test of the pools (any analyte) with its metals, ordered by pool, time
+ * and id: the order the analysis reads them in. A locking read, so it sees the
+ * latest committed tests whatever the transaction's snapshot.
+ */
 export async function poolTests(source: Writer | RawReader, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
   if (poolIds.length === 0) return [];
   const statement = `SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
