@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import type { MetalTest } from "./episodes";
-import { keptMonthsOf, localDayOf, monthValueChanges, summedMonthValueChanges, type KeptPoolMonth } from "./kept-months";
+import { keptMonthsOf, localDayOf, metalsOfMonth, monthValueChanges, summedMonthValueChanges, type KeptPoolMonth } from "./kept-months";
 import { DEFAULT_METAL_THRESHOLDS, METALS, type MetalReading } from "./reading";
 
 const T0 = Date.UTC(2023, 0, 1);
@@ -42,11 +42,11 @@ function asTests(
 function histogramOf(rows: readonly KeptPoolMonth[]): Map<string, number> {
   const counts = new Map<string, number>();
   for (const row of rows)
-    for (const v of row.values)
-      counts.set(
-        `${row.metal}/${row.month}/${v.value}/${v.belowDetection}`,
-        (counts.get(`${row.metal}/${row.month}/${v.value}/${v.belowDetection}`) ?? 0) + v.n,
-      );
+    for (const [metal, month] of metalsOfMonth(row))
+      for (const v of month.values) {
+        const key = `${metal}/${row.month}/${v.value}/${v.belowDetection}`;
+        counts.set(key, (counts.get(key) ?? 0) + v.n);
+      }
   return counts;
 }
 
@@ -71,7 +71,7 @@ describe("local days of a time zone", () => {
 });
 
 describe("kept pool months", () => {
-  it("count one pool's readings per local month, the elevated ones and the days", () => {
+  it("count one pool's readings per local month and metal, the elevated ones, and the days with a metal reading", () => {
     const at = (iso: string) => Date.parse(iso);
     const cu = (value: number, belowDetection = false) => ({ value, belowDetection });
     const tests: MetalTest[] = [
@@ -80,23 +80,35 @@ describe("kept pool months", () => {
       { id: "2", poolId: "7", takenAt: at("2024-03-05T15:00:00Z"), copper: cu(0.1) },
       { id: "3", poolId: "7", takenAt: at("2024-03-05T16:00:00Z"), copper: cu(0.1) },
       { id: "4", poolId: "7", takenAt: at("2024-03-20T15:00:00Z"), copper: cu(1, true) },
+      // No metal measured: not a day of any month row.
+      { id: "5", poolId: "7", takenAt: at("2024-03-21T15:00:00Z") },
     ];
     expect(keptMonthsOf(tests, DEFAULT_METAL_THRESHOLDS, "America/New_York")).toEqual([
-      { poolId: "7", metal: "copper", month: "2024-02", readings: 1, elevated: 1, days: 1, values: [{ value: 0.5, belowDetection: false, n: 1 }] },
       {
         poolId: "7",
-        metal: "copper",
-        month: "2024-03",
-        readings: 3,
-        // A "<1" reading is below detection, never at or above the level.
-        elevated: 0,
-        days: 2,
-        values: [
-          { value: 0.1, belowDetection: false, n: 2 },
-          { value: 1, belowDetection: true, n: 1 },
-        ],
+        month: "2024-02",
+        days: 1,
+        metals: {
+          copper: { readings: 1, elevated: 1, values: [{ value: 0.5, belowDetection: false, n: 1 }] },
+          iron: { readings: 1, elevated: 0, values: [{ value: 0.1, belowDetection: true, n: 1 }] },
+        },
       },
-      { poolId: "7", metal: "iron", month: "2024-02", readings: 1, elevated: 0, days: 1, values: [{ value: 0.1, belowDetection: true, n: 1 }] },
+      {
+        poolId: "7",
+        month: "2024-03",
+        days: 2,
+        metals: {
+          copper: {
+            readings: 3,
+            // A "<1" reading is below detection, never at or above the level.
+            elevated: 0,
+            values: [
+              { value: 0.1, belowDetection: false, n: 2 },
+              { value: 1, belowDetection: true, n: 1 },
+            ],
+          },
+        },
+      },
     ]);
   });
 
@@ -106,8 +118,12 @@ describe("kept pool months", () => {
         const before = asTests(first);
         const rows = keptMonthsOf(before, DEFAULT_METAL_THRESHOLDS, zone);
         const readingCount = before.reduce((sum, t) => sum + METALS.filter((m) => t[m]).length, 0);
-        expect(rows.reduce((sum, r) => sum + r.readings, 0)).toBe(readingCount);
-        expect(rows.every((r) => r.values.reduce((sum, v) => sum + v.n, 0) === r.readings && r.days >= 1 && r.days <= r.readings)).toBe(true);
+        const metalMonths = rows.flatMap(metalsOfMonth).map(([, month]) => month);
+        expect(metalMonths.reduce((sum, m) => sum + m.readings, 0)).toBe(readingCount);
+        expect(metalMonths.every((m) => m.values.reduce((sum, v) => sum + v.n, 0) === m.readings && m.elevated <= m.readings)).toBe(true);
+        // A month row has a day for each local day with a metal reading: at least one, never more than its readings.
+        expect(rows.every((r) => r.days >= 1 && r.days <= metalsOfMonth(r).reduce((sum, [, m]) => sum + m.readings, 0))).toBe(true);
+        expect(new Set(rows.map((r) => `${r.poolId}/${r.month}`)).size).toBe(rows.length);
 
         // Keep the histogram as writes do: pools added one at a time, then each pool's tests replaced by the second set's.
         const histogram = new Map<string, number>();
@@ -160,16 +176,13 @@ describe("kept pool months", () => {
   });
 
   it("list a histogram's changes in metal, month and value order", () => {
-    const row = (month: string, value: number): KeptPoolMonth => ({
+    const row = (month: string, value: number, metal: "copper" | "iron" = "iron"): KeptPoolMonth => ({
       poolId: "1",
-      metal: "iron",
       month,
-      readings: 1,
-      elevated: 0,
       days: 1,
-      values: [{ value, belowDetection: false, n: 1 }],
+      metals: { [metal]: { readings: 1, elevated: 0, values: [{ value, belowDetection: false, n: 1 }] } },
     });
-    const changes = monthValueChanges([row("2024-05", 0.3)], [row("2024-05", 0.1), row("2024-04", 0.2), { ...row("2024-01", 0.4), metal: "copper" }]);
+    const changes = monthValueChanges([row("2024-05", 0.3)], [row("2024-05", 0.1), row("2024-04", 0.2), row("2024-01", 0.4, "copper")]);
     expect(changes.map((c) => `${c.metal} ${c.month} ${c.value} ${c.n}`)).toEqual([
       "copper 2024-01 0.4 1",
       "iron 2024-04 0.2 1",

@@ -5,19 +5,22 @@ import { METALS, type Metal, type MetalThresholds } from "./reading";
 export type KeptMonthValue = { value: number; belowDetection: boolean; n: number };
 
 /**
- * One pool's month of one metal: how many readings, how many at or above the
- * elevated level (below-detection readings never are), on how many local
- * days, and the readings themselves as counts of each value.
+ * One metal's readings in a pool-month: how many, how many at or above the
+ * elevated level (below-detection readings never are), and the readings
+ * themselves as counts of each value.
+ */
+export type KeptMetalMonth = { readings: number; elevated: number; values: KeptMonthValue[] };
+
+/**
+ * One pool's local month: the days with a metal reading, and each metal
+ * measured in it (a metal not measured that month is absent).
  */
 export type KeptPoolMonth = {
   poolId: string;
   /** "YYYY-MM" in the company's time zone, at the instant of the test. */
   month: string;
-  metal: Metal;
-  readings: number;
-  elevated: number;
   days: number;
-  values: KeptMonthValue[];
+  metals: Partial<Record<Metal, KeptMetalMonth>>;
 };
 
 const dayFormats = new Map<string, (at: number) => string>();
@@ -72,57 +75,65 @@ class ValueCounts<T extends { n: number }> {
 }
 
 /**
- * What is kept of some pools' metal tests per local month: one row per pool,
- * month and metal measured in it. `tests` are ordered by pool; the rows come
- * ordered by pool, metal and month.
+ * What is kept of some pools' metal tests per local month: one row per pool
+ * and month with a metal reading. `tests` are ordered by pool; the rows come
+ * ordered by pool and month.
  */
 export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThresholds, timeZone: string): KeptPoolMonth[] {
   const dayOf = localDayOf(timeZone);
   const rows: KeptPoolMonth[] = [];
-  type Open = { row: KeptPoolMonth; days: Set<string>; values: ValueCounts<KeptMonthValue> };
-  // A pool's open months, per metal in METALS order, by month.
-  let open: Array<Map<string, Open>> = METALS.map(() => new Map());
+  type Open = { row: KeptPoolMonth; days: Set<string>; values: Array<ValueCounts<KeptMonthValue> | undefined> };
+  // The pool's months so far, by month.
+  let open = new Map<string, Open>();
   let pool: string | null = null;
   const flush = () => {
-    for (const byMonth of open) {
-      const months = [...byMonth.values()].sort((a, b) => (a.row.month < b.row.month ? -1 : a.row.month > b.row.month ? 1 : 0));
-      for (const o of months) {
-        o.row.days = o.days.size;
-        o.row.values = o.values.all().sort(byValue);
-        rows.push(o.row);
-      }
+    const months = [...open.values()].sort((a, b) => (a.row.month < b.row.month ? -1 : a.row.month > b.row.month ? 1 : 0));
+    for (const o of months) {
+      o.row.days = o.days.size;
+      METALS.forEach((metal, m) => {
+        const counted = o.values[m];
+        if (counted) o.row.metals[metal]!.values = counted.all().sort(byValue);
+      });
+      rows.push(o.row);
     }
-    open = METALS.map(() => new Map());
+    open = new Map();
   };
   for (const t of tests) {
     if (t.poolId !== pool) {
       flush();
       pool = t.poolId;
     }
-    let day: string | null = null;
-    let month = "";
+    let o: Open | undefined;
     for (let m = 0; m < METALS.length; m++) {
       const metal = METALS[m]!;
       const reading = t[metal];
       if (!reading) continue;
-      if (day === null) {
-        day = dayOf(t.takenAt);
-        month = day.slice(0, 7);
-      }
-      let o = open[m]!.get(month);
       if (!o) {
-        o = { row: { poolId: t.poolId, month, metal, readings: 0, elevated: 0, days: 0, values: [] }, days: new Set(), values: new ValueCounts() };
-        open[m]!.set(month, o);
+        const day = dayOf(t.takenAt);
+        const month = day.slice(0, 7);
+        o = open.get(month);
+        if (!o) open.set(month, (o = { row: { poolId: t.poolId, month, days: 0, metals: {} }, days: new Set(), values: [] }));
+        o.days.add(day);
       }
-      o.row.readings++;
-      if (!reading.belowDetection && reading.value >= thresholds[metal].elevated) o.row.elevated++;
-      o.days.add(day);
+      const counts = o.row.metals[metal] ?? (o.row.metals[metal] = { readings: 0, elevated: 0, values: [] });
+      counts.readings++;
+      if (!reading.belowDetection && reading.value >= thresholds[metal].elevated) counts.elevated++;
       const { value, belowDetection } = reading;
-      o.values.add(value, belowDetection, 1, () => ({ value, belowDetection, n: 1 }));
+      (o.values[m] ??= new ValueCounts()).add(value, belowDetection, 1, () => ({ value, belowDetection, n: 1 }));
     }
   }
   flush();
   return rows;
+}
+
+/** The metals measured in a pool-month, in METALS order, with their counts. */
+export function metalsOfMonth(row: KeptPoolMonth): Array<[Metal, KeptMetalMonth]> {
+  const measured: Array<[Metal, KeptMetalMonth]> = [];
+  for (const metal of METALS) {
+    const counts = row.metals[metal];
+    if (counts) measured.push([metal, counts]);
+  }
+  return measured;
 }
 
 /** A change to a company's month histogram: add n readings of a value (n may be negative). */
@@ -136,8 +147,10 @@ export type MonthValueChange = KeptMonthValue & { metal: Metal; month: string };
  */
 export function monthValueChanges(before: readonly KeptPoolMonth[], after: readonly KeptPoolMonth[]): MonthValueChange[] {
   const changes = new MonthChanges();
-  for (const row of before) for (const v of row.values) changes.add(row.metal, row.month, v.value, v.belowDetection, -v.n);
-  for (const row of after) for (const v of row.values) changes.add(row.metal, row.month, v.value, v.belowDetection, v.n);
+  for (const row of before)
+    for (const [metal, counts] of metalsOfMonth(row)) for (const v of counts.values) changes.add(metal, row.month, v.value, v.belowDetection, -v.n);
+  for (const row of after)
+    for (const [metal, counts] of metalsOfMonth(row)) for (const v of counts.values) changes.add(metal, row.month, v.value, v.belowDetection, v.n);
   return changes.inLockOrder();
 }
 

@@ -63,8 +63,8 @@ const KEPT_ROWS = (readAs: string): Array<[string, unknown[]]> => [
 const MONTH_ROWS: Array<[string, unknown[]]> = [
   [`SELECT m.metal, m.month, m.value, m.below_detection, m.n FROM kept_month_values m JOIN kept_versions v ON v.id = m.version_id
     WHERE v.company_id = ? AND v.state = 'ready' AND m.n > 0`, [company.id]],
-  [`SELECT m.metal, m.month, COUNT(*) FROM kept_pool_months m JOIN kept_versions v ON v.id = m.version_id
-    WHERE v.company_id = ? AND v.state = 'ready' AND m.elevated > 0 GROUP BY m.metal, m.month`, [company.id]],
+  [`SELECT m.elevated_metals, m.month, COUNT(*) FROM kept_pool_months m JOIN kept_versions v ON v.id = m.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND m.elevated_metals > 0 GROUP BY m.elevated_metals, m.month`, [company.id]],
 ];
 
 type Case = {

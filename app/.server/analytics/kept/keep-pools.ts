@@ -1,13 +1,6 @@
 import { sql, type SQL } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
-import {
-  keptMonthsOf,
-  monthValueChanges,
-  summedMonthValueChanges,
-  type KeptMonthValue,
-  type KeptPoolMonth,
-  type MonthValueChange,
-} from "@analysis/metals/kept-months";
+import { keptMonthsOf, monthValueChanges, summedMonthValueChanges, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { PoolConnection } from "mysql2/promise";
 import { idList } from "../../db/id-list";
@@ -15,6 +8,7 @@ import { rowValues } from "../../db/row-values";
 import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
 import { replaceKeptCourses } from "./keep-courses";
+import { KEPT_MONTH_COLUMNS, keptMonthOf, keptMonthRow } from "./kept-month-rows";
 import type { LiveVersion, Writer } from "./writer";
 
 export type { LiveVersion, Writer };
@@ -130,7 +124,10 @@ async function insertEpisodes(writer: Writer, versionId: number, companyId: numb
         e.recurrence,
       ]);
     await writer.execute(sql`INSERT INTO kept_episodes (version_id, company_id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id,
-      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence) VALUES ${rowValues(values)}`);
+      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence) VALUES ${rowValues(values)}
+      ON DUPLICATE KEY UPDATE metal = VALUES(metal), opened_at = VALUES(opened_at), opened_by_test_id = VALUES(opened_by_test_id),
+        closed_at = VALUES(closed_at), closed_by_test_id = VALUES(closed_by_test_id), end_at = VALUES(end_at), peak = VALUES(peak),
+        test_count = VALUES(test_count), chronic = VALUES(chronic), recurrence = VALUES(recurrence)`);
   }
 }
 
@@ -139,14 +136,18 @@ const episodeLine = (e: KeptEpisode) =>
   [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join("|");
 const instantOf = (value: unknown) => (value === null ? null : utcDate(value)!.getTime());
 
-type KeptEpisodeLines = Map<string, { id: number; line: string }>;
+type EpisodeKey = [readAs: KeptEpisode["readAs"], poolId: number, seq: number];
+type KeptEpisodeLines = Map<string, { key: EpisodeKey; line: string }>;
+
+/** Every way a pool's episodes are read: a write's locking read names them all, so it runs on the primary key. */
+const ALL_READINGS = sql.raw(`'all', 'copper', 'iron', 'manganese'`);
 
 /** The pools' kept episodes as comparison lines by key: a locking read, so the write before this one is seen. */
 async function episodesKept(writer: Writer, versionId: number, ids: SQL): Promise<KeptEpisodeLines> {
   const rows = await rowsOf(
     writer,
-    sql`SELECT id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
-      FROM kept_episodes FORCE INDEX (kept_episodes_pool_idx) WHERE pool_id IN (${ids}) AND version_id = ${versionId} FOR UPDATE`,
+    sql`SELECT pool_id, read_as, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
+      FROM kept_episodes WHERE version_id = ${versionId} AND read_as IN (${ALL_READINGS}) AND pool_id IN (${ids}) FOR UPDATE`,
   );
   const kept: KeptEpisodeLines = new Map();
   for (const r of rows) {
@@ -162,26 +163,27 @@ async function episodesKept(writer: Writer, versionId: number, ids: SQL): Promis
       Number(r.chronic) === 1,
       Number(r.recurrence) === 1,
     ].join("|");
-    kept.set(episodeKey(r.pool_id, r.read_as, r.seq), { id: Number(r.id), line });
+    const key: EpisodeKey = [r.read_as as KeptEpisode["readAs"], Number(r.pool_id), Number(r.seq)];
+    kept.set(episodeKey(r.pool_id, r.read_as, r.seq), { key, line });
   }
   return kept;
 }
 
 /**
  * Only the episodes that changed are written: a visit changes a pool's last
- * episode or adds one, and a pool can hold a hundred. Returns the kept rows
- * to delete (gone or changed) and the episodes to insert (new or changed).
+ * episode or adds one, and a pool can hold a hundred. Returns the keys of the
+ * kept rows that are gone and the episodes to write (new or changed).
  */
-function changedEpisodes(kept: KeptEpisodeLines, episodes: readonly KeptEpisode[]): { stale: number[]; changed: KeptEpisode[] } {
+function changedEpisodes(kept: KeptEpisodeLines, episodes: readonly KeptEpisode[]): { stale: EpisodeKey[]; changed: KeptEpisode[] } {
   const left = new Map(kept);
   const changed: KeptEpisode[] = [];
   for (const e of episodes) {
     const key = episodeKey(e.poolId, e.readAs, e.seq);
     const old = left.get(key);
-    if (old && old.line === episodeLine(e)) left.delete(key);
-    else changed.push(e);
+    if (!old || old.line !== episodeLine(e)) changed.push(e);
+    left.delete(key);
   }
-  return { stale: [...left.values()].map((k) => k.id), changed };
+  return { stale: [...left.values()].map((k) => k.key), changed };
 }
 
 async function insertSpans(writer: Writer, versionId: number, companyId: number, spans: readonly KeptSpan[]) {
@@ -195,39 +197,27 @@ async function insertSpans(writer: Writer, versionId: number, companyId: number,
   }
 }
 
-const parsedCounts = (value: unknown) => (typeof value === "string" ? JSON.parse(value) : value) as KeptMonthValue[];
-
 /** The pools' month rows as last kept: a locking read, so it sees what the write before this one kept. */
 async function monthsKept(writer: Writer, versionId: number, ids: SQL): Promise<KeptPoolMonth[]> {
   const rows = await rowsOf(
     writer,
-    sql`SELECT pool_id, metal, month, readings, elevated, days, reading_counts FROM kept_pool_months WHERE pool_id IN (${ids}) AND version_id = ${versionId} FOR UPDATE`,
+    sql`SELECT ${sql.raw(KEPT_MONTH_COLUMNS)} FROM kept_pool_months WHERE version_id = ${versionId} AND pool_id IN (${ids}) FOR UPDATE`,
   );
-  return rows.map((r) => ({
-    poolId: String(r.pool_id),
-    metal: r.metal as KeptPoolMonth["metal"],
-    month: String(r.month),
-    readings: Number(r.readings),
-    elevated: Number(r.elevated),
-    days: Number(r.days),
-    values: parsedCounts(r.reading_counts),
-  }));
+  return rows.map(keptMonthOf);
 }
 
 async function insertMonths(writer: Writer, versionId: number, companyId: number, months: readonly KeptPoolMonth[]) {
   for (let from = 0; from < months.length; from += 1000) {
-    const values = months
-      .slice(from, from + 1000)
-      .map((m) => [versionId, Number(m.poolId), m.metal, m.month, companyId, m.readings, m.elevated, m.days, JSON.stringify(m.values)]);
-    await writer.execute(sql`INSERT INTO kept_pool_months (version_id, pool_id, metal, month, company_id, readings, elevated, days, reading_counts)
-      VALUES ${rowValues(values)}
-      ON DUPLICATE KEY UPDATE readings = VALUES(readings), elevated = VALUES(elevated), days = VALUES(days), reading_counts = VALUES(reading_counts)`);
+    const values = months.slice(from, from + 1000).map((m) => keptMonthRow(versionId, companyId, m));
+    await writer.execute(sql`INSERT INTO kept_pool_months (version_id, ${sql.raw(KEPT_MONTH_COLUMNS)}) VALUES ${rowValues(values)}
+      ON DUPLICATE KEY UPDATE days = VALUES(days), copper_readings = VALUES(copper_readings), copper_elevated = VALUES(copper_elevated),
+        iron_readings = VALUES(iron_readings), iron_elevated = VALUES(iron_elevated), manganese_readings = VALUES(manganese_readings),
+        manganese_elevated = VALUES(manganese_elevated), elevated_metals = VALUES(elevated_metals), reading_counts = VALUES(reading_counts)`);
   }
 }
 
-const monthKey = (m: KeptPoolMonth) => `${m.poolId}/${m.metal}/${m.month}`;
-const sameMonth = (a: KeptPoolMonth, b: KeptPoolMonth) =>
-  a.readings === b.readings && a.elevated === b.elevated && a.days === b.days && JSON.stringify(a.values) === JSON.stringify(b.values);
+const monthKey = (m: KeptPoolMonth) => `${m.poolId}/${m.month}`;
+const sameMonth = (a: KeptPoolMonth, b: KeptPoolMonth) => a.days === b.days && JSON.stringify(a.metals) === JSON.stringify(b.metals);
 
 /**
  * Only the month rows that changed are written: a visit touches one month of
@@ -269,7 +259,7 @@ async function keptBefore(writer: Writer, versionId: number, poolIds: readonly n
 /** What replacing one version's kept rows of some pools writes, and what it does to the company's month histogram. */
 type KeptChanges = {
   version: LiveVersion;
-  staleEpisodes: number[];
+  staleEpisodes: EpisodeKey[];
   episodes: KeptEpisode[];
   spans: KeptSpan[];
   goneMonths: KeptPoolMonth[];
@@ -321,8 +311,11 @@ async function writeKeptChanges(
   changes: KeptChanges,
 ) {
   const versionId = changes.version.id;
-  for (let from = 0; from < changes.staleEpisodes.length; from += 1000) {
-    await writer.execute(sql`DELETE FROM kept_episodes WHERE id IN (${idList(changes.staleEpisodes.slice(from, from + 1000))})`);
+  for (let from = 0; from < changes.staleEpisodes.length; from += 500) {
+    const keys = changes.staleEpisodes.slice(from, from + 500);
+    // The ways and pools bound the primary key's range: MariaDB does not range-scan by the row list alone.
+    await writer.execute(sql`DELETE FROM kept_episodes WHERE version_id = ${versionId} AND read_as IN (${ALL_READINGS})
+      AND pool_id IN (${idList(keys.map(([, poolId]) => poolId))}) AND (read_as, pool_id, seq) IN (${rowValues(keys)})`);
   }
   await insertEpisodes(writer, versionId, companyId, changes.episodes);
   for (let from = 0; from < poolIds.length; from += 1000) {
@@ -332,8 +325,9 @@ async function writeKeptChanges(
   }
   await insertSpans(writer, versionId, companyId, changes.spans);
   for (let from = 0; from < changes.goneMonths.length; from += 500) {
-    const keys = changes.goneMonths.slice(from, from + 500).map((m) => [Number(m.poolId), m.metal, m.month]);
-    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (pool_id, metal, month) IN (${rowValues(keys)})`);
+    const keys = changes.goneMonths.slice(from, from + 500).map((m) => [Number(m.poolId), m.month] as const);
+    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId}
+      AND pool_id IN (${idList(keys.map(([poolId]) => poolId))}) AND (pool_id, month) IN (${rowValues(keys)})`);
   }
   await insertMonths(writer, versionId, companyId, changes.months);
   await replaceKeptCourses(writer, companyId, changes.version, poolIds, tests);

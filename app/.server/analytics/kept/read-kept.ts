@@ -10,6 +10,7 @@ import { serverEnv } from "../../env";
 import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
 import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
+import { elevatedBit } from "./kept-month-rows";
 import { readyVersionFor } from "./versions";
 
 /** Where an answer came from: the kept results, or the tests read and worked out for this request. */
@@ -173,12 +174,24 @@ export function keptMonthValueCounts(versionId: number, metals: readonly Metal[]
 }
 
 /** Per metal and local month, the pools with at least one reading at or above the elevated level. */
-export function keptPoolsElevatedByMonth(versionId: number, metals: readonly Metal[]) {
-  return db()
-    .select({ metal: keptPoolMonths.metal, month: keptPoolMonths.month, pools: count() })
+export async function keptPoolsElevatedByMonth(versionId: number, metals: readonly Metal[]): Promise<Array<{ metal: Metal; month: string; pools: number }>> {
+  // Read from the index of elevated months alone, counted per set of elevated metals, then split per metal.
+  const bySet = await db()
+    .select({ elevatedMetals: keptPoolMonths.elevatedMetals, month: keptPoolMonths.month, pools: count() })
     .from(keptPoolMonths)
-    .where(and(eq(keptPoolMonths.versionId, versionId), gt(keptPoolMonths.elevated, 0), inArray(keptPoolMonths.metal, [...metals])))
-    .groupBy(keptPoolMonths.metal, keptPoolMonths.month);
+    .where(and(eq(keptPoolMonths.versionId, versionId), gt(keptPoolMonths.elevatedMetals, 0)))
+    .groupBy(keptPoolMonths.elevatedMetals, keptPoolMonths.month);
+  const pools = new Map<string, { metal: Metal; month: string; pools: number }>();
+  for (const row of bySet) {
+    for (const metal of metals) {
+      if ((row.elevatedMetals & elevatedBit(metal)) === 0) continue;
+      const key = `${metal}/${row.month}`;
+      const counted = pools.get(key);
+      if (counted) counted.pools += row.pools;
+      else pools.set(key, { metal, month: row.month, pools: row.pools });
+    }
+  }
+  return [...pools.values()];
 }
 
 /**

@@ -1,12 +1,13 @@
 import { sql } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptSpan } from "@analysis/metals/kept-history";
-import { keptMonthsOf, type KeptMonthValue, type KeptPoolMonth } from "@analysis/metals/kept-months";
+import { keptMonthsOf, metalsOfMonth, type KeptPoolMonth } from "@analysis/metals/kept-months";
 import { keptCoursesOf } from "@analysis/outcomes/kept-courses";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import { db, pool } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { courseInputs, courseKey, courseLine, keptCourses } from "./keep-courses";
 import { poolTests } from "./keep-pools";
+import { KEPT_MONTH_COLUMNS, keptMonthRow } from "./kept-month-rows";
 
 export type KeptDifference = {
   table: "kept_episodes" | "kept_pool_spans" | "kept_pool_months" | "kept_month_values" | "kept_treatment_courses";
@@ -49,37 +50,31 @@ function compare(table: KeptDifference["table"], kept: Map<string, string>, reco
   for (const [key, line] of kept) if (!recomputed.has(key)) into.push({ table, key, kept: line, recomputed: null });
 }
 
-const valuesLine = (values: readonly KeptMonthValue[]) => values.map((v) => `${v.value}${v.belowDetection ? "<" : ""}x${v.n}`).join(",");
-const monthLine = (m: Pick<KeptPoolMonth, "readings" | "elevated" | "days" | "values">) =>
-  `${m.readings} ${m.elevated} ${m.days} ${valuesLine(m.values)}`;
+/** A pool-month row's stored values after its key, as one line: the counts, the elevated metals and the reading counts. */
+const monthLine = (values: readonly unknown[]) =>
+  values.map((v) => (typeof v === "string" ? JSON.stringify(JSON.parse(v)) : typeof v === "object" ? JSON.stringify(v) : String(v))).join(" ");
+const MONTH_VALUES = KEPT_MONTH_COLUMNS.split(", ").slice(3);
 
 /** The version's month rows and month histogram against those counted from the tests; returns how many month rows are kept. */
 async function compareMonths(versionId: number, expected: readonly KeptPoolMonth[], into: KeptDifference[]): Promise<number> {
   const [monthRows] = (await db().execute(
-    sql`SELECT pool_id, metal, month, readings, elevated, days, reading_counts FROM kept_pool_months WHERE version_id = ${versionId}`,
+    sql`SELECT ${sql.raw(KEPT_MONTH_COLUMNS)} FROM kept_pool_months WHERE version_id = ${versionId}`,
   )) as unknown as [Array<Record<string, unknown>>];
   const [valueRows] = (await db().execute(
     sql`SELECT metal, month, value, below_detection, n FROM kept_month_values WHERE version_id = ${versionId} AND n <> 0`,
   )) as unknown as [Array<Record<string, unknown>>];
-  const keptMonths = new Map(
-    monthRows.map((r) => [
-      `${String(r.pool_id)}/${String(r.metal)}/${String(r.month)}`,
-      monthLine({
-        readings: Number(r.readings),
-        elevated: Number(r.elevated),
-        days: Number(r.days),
-        values: (typeof r.reading_counts === "string" ? JSON.parse(r.reading_counts) : r.reading_counts) as KeptMonthValue[],
-      }),
-    ]),
-  );
-  compare("kept_pool_months", keptMonths, new Map(expected.map((m) => [`${m.poolId}/${m.metal}/${m.month}`, monthLine(m)])), into);
+  const keptMonths = new Map(monthRows.map((r) => [`${String(r.pool_id)}/${String(r.month)}`, monthLine(MONTH_VALUES.map((column) => r[column]))]));
+  // The row as a write would store it, less the version, pool, month and company.
+  const recomputed = new Map(expected.map((m) => [`${m.poolId}/${m.month}`, monthLine(keptMonthRow(versionId, 0, m).slice(4))]));
+  compare("kept_pool_months", keptMonths, recomputed, into);
   const valueKey = (metal: unknown, month: unknown, value: unknown, below: unknown) =>
     `${String(metal)}/${String(month)}/${Number(value)}${below ? "<" : ""}`;
   const keptValues = new Map(valueRows.map((r) => [valueKey(r.metal, r.month, r.value, Number(r.below_detection) === 1), String(r.n)]));
   const counted = new Map<string, number>();
   for (const m of expected)
-    for (const v of m.values) {
-      const key = valueKey(m.metal, m.month, v.value, v.belowDetection);
+    for (const [metal, counts] of metalsOfMonth(m))
+    for (const v of counts.values) {
+      const key = valueKey(metal, m.month, v.value, v.belowDetection);
       counted.set(key, (counted.get(key) ?? 0) + v.n);
     }
   compare("kept_month_values", keptValues, new Map([...counted].map(([key, n]) => [key, String(n)])), into);

@@ -15,9 +15,8 @@ import {
   varchar,
 } from "drizzle-orm/mysql-core";
 import type { MetalThresholds } from "../../../../analysis/metals/reading";
-import type { KeptMonthValue } from "../../../../analysis/metals/kept-months";
 import type { ProductCategory } from "../../../../analysis/outcomes/treatments";
-import { bigSerialId, decimalNumber, flag, instant, instantNow } from "./columns";
+import { decimalNumber, flag, instant, instantNow } from "./columns";
 import { owningCompany } from "./company";
 import { owningPool } from "./routebook";
 
@@ -67,18 +66,24 @@ export const keptVersions = mysqlTable(
   (t) => [index("kept_versions_company_idx").on(t.companyId, t.state), unique("kept_versions_one_build").on(t.companyId, t.buildingSlot)],
 );
 
-/** Each pool's metal episodes, read one way (see KEPT_READINGS), in the order the analysis found them. */
+/**
+ * Each pool's metal episodes, read one way (see KEPT_READINGS), in the order
+ * the analysis found them. The primary key is the only index: a write reads
+ * and replaces its pools' rows through it (version and pool known), and an
+ * import keeps a hundred thousand rows, each of which would pay for another.
+ * The pool has no foreign key for the same reason; a pool's rows go with its
+ * version, or with its company.
+ */
 export const keptEpisodes = mysqlTable(
   "kept_episodes",
   {
-    id: bigSerialId(),
     versionId: int("version_id")
       .notNull()
       .references(() => keptVersions.id, { onDelete: "cascade" }),
-    companyId: keptCompany(),
-    poolId: owningPool(),
     readAs: mysqlEnum("read_as", KEPT_READINGS).notNull(),
+    poolId: int("pool_id").notNull(),
     seq: smallint("seq", { unsigned: true }).notNull(),
+    companyId: keptCompany(),
     metal: mysqlEnum("metal", ["copper", "iron", "manganese"]).notNull(),
     openedAt: instant("opened_at").notNull(),
     openedByTestId: bigint("opened_by_test_id", { mode: "number", unsigned: true }).notNull(),
@@ -90,11 +95,7 @@ export const keptEpisodes = mysqlTable(
     chronic: flag("chronic", false),
     recurrence: flag("recurrence", false),
   },
-  (t) => [
-    unique("kept_episodes_order").on(t.versionId, t.readAs, t.poolId, t.seq),
-    // A write replaces its pools' rows through this key, locking only theirs.
-    index("kept_episodes_pool_idx").on(t.poolId, t.versionId),
-  ],
+  (t) => [primaryKey({ name: "kept_episodes_pk", columns: [t.versionId, t.readAs, t.poolId, t.seq] })],
 );
 
 /**
@@ -123,11 +124,17 @@ export const keptPoolSpans = mysqlTable(
 
 const METAL_NAMES = ["copper", "iron", "manganese"] as const;
 
+/** A pool-month's reading counts as stored: per metal measured, [value, n], or [value, n, 1] for below detection. */
+export type StoredReadingCounts = Partial<Record<(typeof METAL_NAMES)[number], Array<[number, number] | [number, number, 1]>>>;
+
 /**
- * Each pool's month of one metal (local months of the version's time zone):
- * readings, those at or above the elevated level, days with a reading, and
- * the readings as counts of each value, so a write can take a pool's old
- * readings out of the company's month histogram without reading its tests twice.
+ * Each pool's local month (of the version's time zone) with a metal reading:
+ * days with one, and per metal the readings, those at or above the elevated
+ * level, and the readings as counts of each value, so a write can take a
+ * pool's old readings out of the company's month histogram without reading
+ * its tests twice. One row holds all three metals: an import keeps a month
+ * for every pool it touches. Only the primary key and the small index of
+ * elevated months: the pool has no key of its own (see kept_episodes).
  */
 export const keptPoolMonths = mysqlTable(
   "kept_pool_months",
@@ -135,20 +142,24 @@ export const keptPoolMonths = mysqlTable(
     versionId: int("version_id")
       .notNull()
       .references(() => keptVersions.id, { onDelete: "cascade" }),
-    poolId: owningPool(),
-    metal: mysqlEnum("metal", METAL_NAMES).notNull(),
+    poolId: int("pool_id").notNull(),
     month: char("month", { length: 7 }).notNull(),
     companyId: keptCompany(),
-    readings: int("readings").notNull(),
-    elevated: int("elevated").notNull(),
     days: smallint("days", { unsigned: true }).notNull(),
-    values: json("reading_counts").$type<KeptMonthValue[]>().notNull(),
+    copperReadings: int("copper_readings").notNull(),
+    copperElevated: int("copper_elevated").notNull(),
+    ironReadings: int("iron_readings").notNull(),
+    ironElevated: int("iron_elevated").notNull(),
+    manganeseReadings: int("manganese_readings").notNull(),
+    manganeseElevated: int("manganese_elevated").notNull(),
+    /** The metals with a reading at or above the elevated level, one bit each in METALS order (copper 1, iron 2, manganese 4). */
+    elevatedMetals: tinyint("elevated_metals", { unsigned: true }).notNull(),
+    readingCounts: json("reading_counts").$type<StoredReadingCounts>().notNull(),
   },
   (t) => [
-    primaryKey({ name: "kept_pool_months_pk", columns: [t.versionId, t.poolId, t.metal, t.month] }),
-    index("kept_pool_months_pool_idx").on(t.poolId, t.versionId),
-    // Pools above the level in a month are few: the monthly count of them reads only those rows.
-    index("kept_pool_months_elevated_idx").on(t.versionId, t.elevated),
+    primaryKey({ name: "kept_pool_months_pk", columns: [t.versionId, t.poolId, t.month] }),
+    // Pools above the level in a month are few: the monthly count of them reads only this index.
+    index("kept_pool_months_elevated_idx").on(t.versionId, t.elevatedMetals, t.month),
   ],
 );
 
