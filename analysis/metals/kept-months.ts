@@ -58,18 +58,18 @@ export function localDayOf(timeZone: string): (at: number) => string {
 const byValue = (a: KeptMonthValue, b: KeptMonthValue) => a.value - b.value || Number(a.belowDetection) - Number(b.belowDetection);
 
 /** Counts of each reading value, below-detection readings apart: keyed by the number itself, not a string per reading. */
-class ValueCounts<T extends { n: number }> {
-  private readonly measured = new Map<number, T>();
-  private readonly below = new Map<number, T>();
+class ValueCounts {
+  private readonly measured = new Map<number, KeptMonthValue>();
+  private readonly below = new Map<number, KeptMonthValue>();
 
-  add(value: number, belowDetection: boolean, n: number, make: () => T): void {
+  add(value: number, belowDetection: boolean, n: number): void {
     const counts = belowDetection ? this.below : this.measured;
     const counted = counts.get(value);
     if (counted) counted.n += n;
-    else counts.set(value, make());
+    else counts.set(value, { value, belowDetection, n });
   }
 
-  all(): T[] {
+  all(): KeptMonthValue[] {
     return [...this.measured.values(), ...this.below.values()];
   }
 }
@@ -82,7 +82,7 @@ class ValueCounts<T extends { n: number }> {
 export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThresholds, timeZone: string): KeptPoolMonth[] {
   const dayOf = localDayOf(timeZone);
   const rows: KeptPoolMonth[] = [];
-  type Open = { row: KeptPoolMonth; days: Set<string>; values: Array<ValueCounts<KeptMonthValue> | undefined> };
+  type Open = { row: KeptPoolMonth; days: Set<string>; values: Array<ValueCounts | undefined> };
   // The pool's months so far, by month.
   let open = new Map<string, Open>();
   let pool: string | null = null;
@@ -119,7 +119,7 @@ export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThres
       counts.readings++;
       if (!reading.belowDetection && reading.value >= thresholds[metal].elevated) counts.elevated++;
       const { value, belowDetection } = reading;
-      (o.values[m] ??= new ValueCounts()).add(value, belowDetection, 1, () => ({ value, belowDetection, n: 1 }));
+      (o.values[m] ??= new ValueCounts()).add(value, belowDetection, 1);
     }
   }
   flush();
@@ -147,10 +147,8 @@ export type MonthValueChange = KeptMonthValue & { metal: Metal; month: string };
  */
 export function monthValueChanges(before: readonly KeptPoolMonth[], after: readonly KeptPoolMonth[]): MonthValueChange[] {
   const changes = new MonthChanges();
-  for (const row of before)
-    for (const [metal, counts] of metalsOfMonth(row)) for (const v of counts.values) changes.add(metal, row.month, v.value, v.belowDetection, -v.n);
-  for (const row of after)
-    for (const [metal, counts] of metalsOfMonth(row)) for (const v of counts.values) changes.add(metal, row.month, v.value, v.belowDetection, v.n);
+  for (const row of before) for (const [metal, counts] of metalsOfMonth(row)) changes.add(metal, row.month, counts.values, -1);
+  for (const row of after) for (const [metal, counts] of metalsOfMonth(row)) changes.add(metal, row.month, counts.values, 1);
   return changes.inLockOrder();
 }
 
@@ -160,26 +158,30 @@ export function monthValueChanges(before: readonly KeptPoolMonth[], after: reado
  */
 export function summedMonthValueChanges(parts: readonly (readonly MonthValueChange[])[]): MonthValueChange[] {
   const changes = new MonthChanges();
-  for (const part of parts) for (const c of part) changes.add(c.metal, c.month, c.value, c.belowDetection, c.n);
+  for (const part of parts) for (const c of part) changes.add(c.metal, c.month, [c], 1);
   return changes.inLockOrder();
 }
 
 /** Changes summed per metal and month, then per value: it runs for every value of every kept month. */
 class MonthChanges {
-  private readonly byMonth = new Map<string, ValueCounts<MonthValueChange>>();
+  /** Per metal (in METALS order), per month. */
+  private readonly byMetal = METALS.map(() => new Map<string, ValueCounts>());
 
-  add(metal: Metal, month: string, value: number, belowDetection: boolean, n: number): void {
-    const key = `${metal}/${month}`;
-    let values = this.byMonth.get(key);
-    if (!values) this.byMonth.set(key, (values = new ValueCounts()));
-    values.add(value, belowDetection, n, () => ({ metal, month, value, belowDetection, n }));
+  add(metal: Metal, month: string, values: readonly KeptMonthValue[], sign: 1 | -1): void {
+    const byMonth = this.byMetal[METALS.indexOf(metal)]!;
+    let counts = byMonth.get(month);
+    if (!counts) byMonth.set(month, (counts = new ValueCounts()));
+    for (const v of values) counts.add(v.value, v.belowDetection, sign * v.n);
   }
 
   inLockOrder(): MonthValueChange[] {
     const changes: MonthValueChange[] = [];
-    for (const values of this.byMonth.values()) for (const c of values.all()) if (c.n !== 0) changes.push(c);
-    return changes.sort(
-      (a, b) => METALS.indexOf(a.metal) - METALS.indexOf(b.metal) || (a.month < b.month ? -1 : a.month > b.month ? 1 : 0) || byValue(a, b),
-    );
+    METALS.forEach((metal, m) => {
+      const months = [...this.byMetal[m]!.entries()].sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0));
+      for (const [month, counts] of months) {
+        for (const c of counts.all().sort(byValue)) if (c.n !== 0) changes.push({ metal, month, ...c });
+      }
+    });
+    return changes;
   }
 }

@@ -12,6 +12,6 @@ ALTER TABLE `kept_pool_months` DROP FOREIGN KEY `kept_pool_months_pool_id_pools_
 ALTER TABLE `kept_pool_months` DROP INDEX `kept_pool_months_pool_idx`, DROP INDEX `kept_pool_months_elevated_idx`, DROP PRIMARY KEY,
   DROP COLUMN `metal`, DROP COLUMN `readings`, DROP COLUMN `elevated`,
   ADD `copper_readings` int NOT NULL, ADD `copper_elevated` int NOT NULL, ADD `iron_readings` int NOT NULL, ADD `iron_elevated` int NOT NULL,
-  ADD `manganese_readings` int NOT NULL, ADD `manganese_elevated` int NOT NULL, ADD `elevated_metals` tinyint unsigned NOT NULL,
+  ADD `manganese_readings` int NOT NULL, ADD `manganese_elevated` int NOT NULL, ADD `elevated_metals` tinyint unsigned NOT NULL, MODIFY `reading_counts` longtext NOT NULL,
   ADD CONSTRAINT `kept_pool_months_pk` PRIMARY KEY(`version_id`,`pool_id`,`month`),
   ADD INDEX `kept_pool_months_elevated_idx` (`version_id`,`elevated_metals`,`month`);
