@@ -2,6 +2,7 @@ import { sql, type SQL } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
 import { keptMonthsOf, monthValueChanges, summedMonthValueChanges, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
+import type { SqlValue } from "mysql2";
 import type { PoolConnection } from "mysql2/promise";
 import { idList } from "../../db/id-list";
 import { rowValues } from "../../db/row-values";
@@ -302,6 +303,37 @@ async function keptChanges(
   };
 }
 
+/**
+ * Rows of one version by their keys (after the version), as a condition
+ * MariaDB reads through the primary key: the keys grouped by all but their
+ * last part, each group a prefix and a list. A long list of whole keys
+ * (`(pool_id, month) IN (...)`) is not read by the key: it scanned far more
+ * of the version than it deleted, about 80 ms a statement when an import was undone.
+ */
+function keyCondition(prefix: readonly string[], last: string, keys: readonly (readonly SqlValue[])[]): SQL {
+  const groups = new Map<string, { head: readonly SqlValue[]; lasts: SqlValue[] }>();
+  for (const key of keys) {
+    const head = key.slice(0, -1);
+    const name = head.join("/");
+    let group = groups.get(name);
+    if (!group) groups.set(name, (group = { head, lasts: [] }));
+    group.lasts.push(key[key.length - 1]!);
+  }
+  return sql.join(
+    [...groups.values()].map(({ head, lasts }) => {
+      const prefixMatches = sql.join(
+        prefix.map((name, i) => sql`${sql.raw(name)} = ${head[i]}`),
+        sql` AND `,
+      );
+      return sql`(${prefixMatches} AND ${sql.raw(last)} IN (${sql.join(
+        lasts.map((value) => sql`${value}`),
+        sql`, `,
+      )}))`;
+    }),
+    sql` OR `,
+  );
+}
+
 /** Writes one version's changes to the pools' kept rows, all but the company's month histogram, and keeps their treatment courses. */
 async function writeKeptChanges(
   writer: Writer,
@@ -313,9 +345,7 @@ async function writeKeptChanges(
   const versionId = changes.version.id;
   for (let from = 0; from < changes.staleEpisodes.length; from += 500) {
     const keys = changes.staleEpisodes.slice(from, from + 500);
-    // The ways and pools bound the primary key's range: MariaDB does not range-scan by the row list alone.
-    await writer.execute(sql`DELETE FROM kept_episodes WHERE version_id = ${versionId} AND read_as IN (${ALL_READINGS})
-      AND pool_id IN (${idList(keys.map(([, poolId]) => poolId))}) AND (read_as, pool_id, seq) IN (${rowValues(keys)})`);
+    await writer.execute(sql`DELETE FROM kept_episodes WHERE version_id = ${versionId} AND (${keyCondition(["read_as", "pool_id"], "seq", keys)})`);
   }
   await insertEpisodes(writer, versionId, companyId, changes.episodes);
   for (let from = 0; from < poolIds.length; from += 1000) {
@@ -325,9 +355,8 @@ async function writeKeptChanges(
   }
   await insertSpans(writer, versionId, companyId, changes.spans);
   for (let from = 0; from < changes.goneMonths.length; from += 500) {
-    const keys = changes.goneMonths.slice(from, from + 500).map((m) => [Number(m.poolId), m.month] as const);
-    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId}
-      AND pool_id IN (${idList(keys.map(([poolId]) => poolId))}) AND (pool_id, month) IN (${rowValues(keys)})`);
+    const keys = changes.goneMonths.slice(from, from + 500).map((m) => [Number(m.poolId), m.month]);
+    await writer.execute(sql`DELETE FROM kept_pool_months WHERE version_id = ${versionId} AND (${keyCondition(["pool_id"], "month", keys)})`);
   }
   await insertMonths(writer, versionId, companyId, changes.months);
   await replaceKeptCourses(writer, companyId, changes.version, poolIds, tests);
