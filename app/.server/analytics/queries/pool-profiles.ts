@@ -1,16 +1,9 @@
 import { and, asc, eq, inArray } from "drizzle-orm";
-import type {
-  Equipment,
-  EquipmentKind,
-  ExchangerMetal,
-  FillSourceKind,
-  PoolProfile,
-  SanitiserSystem,
-} from "@analysis/metals/route-book";
+import type { Equipment, EquipmentKind, ExchangerMetal, FillSourceKind, PoolProfile, SanitiserSystem } from "@analysis/metals/route-book";
 import { db } from "../../db/client";
 import { inIdList } from "../../db/id-list";
-import { type EQUIPMENT_KINDS, equipment, fillSources, pools, routes, type SANITISERS, type SOURCE_KINDS } from "../../db/schema";
-import { dayToMs } from "../../db/values";
+import { arrayRows } from "../../db/array-rows";
+import { type EQUIPMENT_KINDS, equipment, fillSources, pools, routes, type SANITISERS, type SOURCE_KINDS, type SURFACES } from "../../db/schema";
 import { companyOf, tenantCondition, type Tenant } from "./tenant-and-window";
 
 // The stored enum values and the analysis core's names differ in spelling only.
@@ -55,16 +48,20 @@ export type PoolLabel = {
   active: boolean;
 };
 
-export type RouteBookProfiles = {
-  profiles: PoolProfile[];
-  labels: Map<number, PoolLabel>;
-};
+export type RouteBookProfiles = { profiles: PoolProfile[]; labels: Map<number, PoolLabel> };
 
 const onlyPools = (poolIds: readonly number[] | undefined) => (poolIds ? inIdList(pools.id, poolIds) : undefined);
 
-/** The one read of pools with their route and fill source: names for pages and mail, and what the profile needs. */
-async function poolRows(tenant: Tenant, poolIds: readonly number[] | undefined) {
-  return db()
+type PoolRow = PoolLabel & { surface: (typeof SURFACES)[number] | null; sanitiser: (typeof SANITISERS)[number] | null };
+
+/**
+ * The one read of pools with their route and fill source: names for pages and
+ * mail, and what the profile needs. Read as arrays: every route-book answer
+ * reads all of a company's pools, and the query builder's per-value mapping
+ * cost more than the read.
+ */
+async function poolRows(tenant: Tenant, poolIds: readonly number[] | undefined): Promise<PoolRow[]> {
+  const query = db()
     .select({
       poolId: pools.id,
       street: pools.street,
@@ -84,9 +81,52 @@ async function poolRows(tenant: Tenant, poolIds: readonly number[] | undefined) 
     .leftJoin(fillSources, eq(fillSources.id, pools.fillSourceId))
     .where(and(tenantCondition(tenant), onlyPools(poolIds)))
     .orderBy(asc(pools.id));
+  type Row = [
+    poolId: number,
+    street: string,
+    customerName: string,
+    routeId: number | null,
+    routeName: string | null,
+    fillSourceId: number | null,
+    fillSourceName: string | null,
+    fillSourceKind: PoolRow["fillSourceKind"],
+    neighbourhood: string | null,
+    active: number,
+    surface: PoolRow["surface"],
+    sanitiser: PoolRow["sanitiser"],
+  ];
+  return (await arrayRows<Row>(query)).map(
+    ([
+      poolId,
+      street,
+      customerName,
+      routeId,
+      routeName,
+      fillSourceId,
+      fillSourceName,
+      fillSourceKind,
+      neighbourhood,
+      active,
+      surface,
+      sanitiser,
+    ]) => ({
+      poolId,
+      street,
+      customerName,
+      routeId,
+      routeName,
+      fillSourceId,
+      fillSourceName,
+      fillSourceKind,
+      neighbourhood,
+      active: active === 1,
+      surface,
+      sanitiser,
+    }),
+  );
 }
 
-const labelOf = (r: Awaited<ReturnType<typeof poolRows>>[number]): PoolLabel => ({
+const labelOf = (r: PoolRow): PoolLabel => ({
   poolId: r.poolId,
   street: r.street,
   customerName: r.customerName,
@@ -107,7 +147,7 @@ export async function poolLabels(tenant: Tenant, options: { poolIds?: readonly n
 
 /** Heaters, heat pumps and ionisers of the pools, with install and removal dates and exchanger metal. */
 async function fittedEquipment(tenant: Tenant, poolIds: readonly number[] | undefined): Promise<Map<number, Equipment[]>> {
-  const fitted = await db()
+  const query = db()
     .select({
       id: equipment.id,
       poolId: equipment.poolId,
@@ -126,17 +166,26 @@ async function fittedEquipment(tenant: Tenant, poolIds: readonly number[] | unde
         onlyPools(poolIds),
       ),
     );
+  // As arrays, like the pools; a DATE comes from the driver as UTC midnight of that day.
+  type Row = [
+    id: number,
+    poolId: number,
+    kind: (typeof EQUIPMENT_KINDS)[number],
+    exchangerMetal: string | null,
+    installedOn: Date | null,
+    removedOn: Date | null,
+  ];
   const byPool = new Map<number, Equipment[]>();
-  for (const e of fitted) {
-    const list = byPool.get(e.poolId) ?? [];
+  for (const [id, poolId, kind, metal, installedOn, removedOn] of await arrayRows<Row>(query)) {
+    const list = byPool.get(poolId) ?? [];
     list.push({
-      id: String(e.id),
-      kind: EQUIPMENT_KIND[e.kind],
-      exchangerMetal: exchangerMetal(e.exchangerMetal),
-      installedAt: dayToMs(e.installedOn),
-      removedAt: dayToMs(e.removedOn),
+      id: String(id),
+      kind: EQUIPMENT_KIND[kind],
+      exchangerMetal: exchangerMetal(metal),
+      installedAt: installedOn ? installedOn.getTime() : null,
+      removedAt: removedOn ? removedOn.getTime() : null,
     });
-    byPool.set(e.poolId, list);
+    byPool.set(poolId, list);
   }
   return byPool;
 }
