@@ -292,6 +292,8 @@ export function riskyGroupFinder<M extends Metal | null>(
     const cellYears: number[] = [];
     const firstCell = new Int32Array(pools.length).fill(-1);
     const endCell = new Int32Array(pools.length);
+    // A fixed dimension's group of each observed pool: its episodes open there, whatever the moment.
+    const fixedGroupOf = new Int32Array(pools.length).fill(-1);
     for (const { poolId, instants } of observed) {
       const p = poolIndex.get(poolId);
       if (p === undefined || instants.length === 0 || firstCell[p] !== -1) continue;
@@ -307,6 +309,7 @@ export function riskyGroupFinder<M extends Metal | null>(
       // Time up to the next instant goes to the group at the earlier one; a lone instant gives a cell without years.
       const steps = times.length === 1 ? 1 : times.length - 1;
       const fixedGroup = changes ? -1 : groupAt(pool, times[0]!);
+      fixedGroupOf[p] = fixedGroup;
       for (let i = 0; i < steps; i++) {
         const group = changes ? groupAt(pool, times[i]!) : fixedGroup;
         let cell = first;
@@ -327,7 +330,7 @@ export function riskyGroupFinder<M extends Metal | null>(
     episodes.forEach((episode, e) => {
       const p = episodePool[e]!;
       if (p < 0) return;
-      const group = groupAt(pools[p]!, episode.openedAt);
+      const group = fixedGroupOf[p]! >= 0 ? fixedGroupOf[p]! : groupAt(pools[p]!, episode.openedAt);
       let cell = -1;
       for (let c = firstCell[p]!; c >= 0 && c < endCell[p]! && cell < 0; c++) if (cellGroup[c] === group) cell = c;
       if (cell < 0) {

@@ -1,6 +1,7 @@
 import type { Metal } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
 import {
+  CHANGES_OVER_TIME,
   compareGroups,
   GROUPING_KEYS,
   groupObservations,
@@ -90,12 +91,7 @@ export function computeGroupFigures(
   );
 }
 
-function figuresOf(
-  dataset: MetalDataset,
-  grouping: GroupingKey,
-  metal: Metal | null,
-  observations: readonly GroupObservation[],
-): GroupFigures {
+function figuresOf(dataset: MetalDataset, grouping: GroupingKey, metal: Metal | null, observations: readonly GroupObservation[]): GroupFigures {
   const stats = compareGroups(observations);
   const names = groupNames(dataset, grouping);
   const groups = stats.map((s) => figureOf(grouping, s, names));
@@ -138,10 +134,15 @@ export function computeRiskyGroups(dataset: MetalDataset): RiskyGroup[] {
   const risky: RiskyGroup[] = [];
   const riskyIn = riskyGroupFinder(dataset.book.profiles, dataset.history.episodes, dataset.metals);
   const profiles = new Map(dataset.book.profiles.map((p) => [p.poolId, p]));
+  // Dimensions fixed over time share one set of instants (each span's ends); the others split spans at their own dates.
+  let fixedInstants: ObservedInstants[] | undefined;
   for (const grouping of GROUPING_KEYS) {
     const names = groupNames(dataset, grouping);
+    const observed = CHANGES_OVER_TIME.has(grouping)
+      ? observedInstants(dataset, grouping, profiles)
+      : (fixedInstants ??= observedInstants(dataset, grouping, profiles));
     // The observed time does not depend on the metal: it is split into groups once per dimension.
-    const byMetal = riskyIn(grouping, observedInstants(dataset, grouping, profiles));
+    const byMetal = riskyIn(grouping, observed);
     for (const metal of dataset.metals) {
       for (const g of byMetal.get(metal)!) risky.push({ ...figureOf(grouping, g, names), grouping, metal });
     }
