@@ -8,8 +8,7 @@ import { analyzeTables, db, pool as connectionPool } from "../db/client";
 import { retryTransaction } from "../db/retry";
 import * as schema from "../db/schema";
 import { importBatches, importUploads, waterTests, treatments } from "../db/schema";
-import type { KeptInputTest } from "@analysis/metals/kept-history";
-import { KEPT_TEST_COLUMNS, keepPoolsInStep, keptInputTests, liveVersions, lockPoolsForKeeping, testOrder } from "../analytics/kept/keep-pools";
+import { keepPoolsInStep, lockPoolsForKeeping } from "../analytics/kept/keep-pools";
 import type { Scope } from "../scope";
 import { type ImportPlan, planImport, type PlanSummary } from "./plan";
 import { PlannedRows } from "./planned-rows";
@@ -69,29 +68,6 @@ function testValues(rows: PlannedRows, i: number, companyId: number, poolId: num
     rows.notes[i] ?? null,
     batchId,
   ];
-}
-
-/**
- * The pools of an import with no test stored before it: those it creates, and
- * those of the route book without one (a locking read, after the pools'
- * locks, so a test another write stored is seen).
- */
-async function poolsWithoutTests(
-  connection: PoolConnection,
-  companyId: number,
-  existing: readonly number[],
-  created: ReadonlyMap<string, number>,
-): Promise<Set<number>> {
-  const fresh = new Set([...existing, ...created.values()]);
-  for (let from = 0; from < existing.length; from += 1000) {
-    const ids = existing.slice(from, from + 1000);
-    const [tested] = await connection.query<RowDataPacket[]>(
-      `SELECT DISTINCT pool_id FROM water_tests WHERE company_id = ? AND pool_id IN (${ids.map(() => "?").join(", ")}) LOCK IN SHARE MODE`,
-      [companyId, ...ids],
-    );
-    for (const row of tested) fresh.delete(Number(row.pool_id));
-  }
-  return fresh;
 }
 
 /** Indexes of the rows that carry a flag, in file order. */
@@ -196,33 +172,13 @@ async function commitClaimed(
           return product > 0 ? product : newProducts.get(rows.newProductKeys[-product - 1]!)!;
         };
 
-        // With kept analytics live, the pools without a test before this import are kept from what the insert returns.
-        const fresh =
-          (await liveVersions(keeper, scope.companyId)).length > 0
-            ? await poolsWithoutTests(connection, scope.companyId, touchedPools, newPools)
-            : null;
-        const knownTests = new Map<number, KeptInputTest[]>();
         let stored = 0;
         const tests = rowsWith(rows, PlannedRows.TEST_IS_NEW);
         for (let from = 0; from < tests.length; from += INSERT_CHUNK) {
           const chunk = tests.subarray(from, from + INSERT_CHUNK);
-          const values = [Array.from(chunk, (i) => testValues(rows, i, scope.companyId, poolIdOf(i), batchId))];
-          const insert = `INSERT INTO water_tests (${TEST_COLUMNS.join(", ")}) VALUES ?`;
-          if (fresh && fresh.size > 0) {
-            const [returned] = await connection.query<RowDataPacket[]>(
-              { sql: `${insert} RETURNING ${KEPT_TEST_COLUMNS}`, rowsAsArray: true },
-              values,
-            );
-            for (const test of keptInputTests(returned as unknown as unknown[][])) {
-              const poolId = Number(test.poolId);
-              if (!fresh.has(poolId)) continue;
-              const list = knownTests.get(poolId);
-              if (list) list.push(test);
-              else knownTests.set(poolId, [test]);
-            }
-          } else {
-            await connection.query(insert, values);
-          }
+          await connection.query(`INSERT INTO water_tests (${TEST_COLUMNS.join(", ")}) VALUES ?`, [
+            Array.from(chunk, (i) => testValues(rows, i, scope.companyId, poolIdOf(i), batchId)),
+          ]);
           stored += chunk.length;
           await reportProgress(upload.id, { rowsDone: stored });
           await hooks.afterChunk?.({ table: "water_tests", stored, connectionId });
@@ -259,8 +215,7 @@ async function commitClaimed(
           await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
         }
 
-        for (const list of knownTests.values()) list.sort(testOrder);
-        await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], { reader: connection, knownTests });
+        await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], connection);
 
         // Fenced by the claim token: a commit taken over after going quiet rolls back here.
         const finish = finishClaimSql(claim);

@@ -68,38 +68,14 @@ type TestRow = [
 ];
 
 /**
- * What keeping reads of a test, in TestRow's order. An import's insert
- * returns the same (`RETURNING`), so the tests of pools it creates or first
- * fills need no read back.
- */
-export const KEPT_TEST_COLUMNS = `id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
-  (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete, ph`;
-
-/** Tests as read (or returned) in KEPT_TEST_COLUMNS' order, as the analysis takes them. */
-export function keptInputTests(rows: readonly unknown[][]): KeptInputTest[] {
-  return (rows as TestRow[]).map(([id, poolId, sampledAt, copper, copperBelow, iron, ironBelow, manganese, manganeseBelow, balanceComplete, ph]) => ({
-    id: String(id),
-    poolId: String(poolId),
-    takenAt: utcDate(sampledAt)!.getTime(),
-    copper: metalReading(copper === null ? null : Number(copper), Number(copperBelow) === 1),
-    iron: metalReading(iron === null ? null : Number(iron), Number(ironBelow) === 1),
-    manganese: metalReading(manganese === null ? null : Number(manganese), Number(manganeseBelow) === 1),
-    balanceComplete: Number(balanceComplete) === 1,
-    ph: ph === null ? null : Number(ph),
-  }));
-}
-
-/** The order the analysis reads a pool's tests in (poolTests' order within a pool): by time, then id. */
-export const testOrder = (a: KeptInputTest, b: KeptInputTest) => a.takenAt - b.takenAt || Number(a.id) - Number(b.id);
-
-/**
  * Every test of the pools (any analyte) with its metals, ordered by pool, time
  * and id: the order the analysis reads them in. A locking read, so it sees the
  * latest committed tests whatever the transaction's snapshot.
  */
 export async function poolTests(source: Writer | RawReader, companyId: number, poolIds: readonly number[], lock = true): Promise<KeptInputTest[]> {
   if (poolIds.length === 0) return [];
-  const statement = `SELECT ${KEPT_TEST_COLUMNS}
+  const statement = `SELECT id, pool_id, sampled_at, copper, copper_below_detection, iron, iron_below_detection, manganese, manganese_below_detection,
+      (ph IS NOT NULL AND temperature_c IS NOT NULL AND calcium_hardness IS NOT NULL AND total_alkalinity IS NOT NULL) AS balance_complete, ph
     FROM water_tests WHERE company_id = ? AND pool_id IN (${poolIds.map(() => "?").join(", ")})
     ORDER BY pool_id, sampled_at, id${lock ? " LOCK IN SHARE MODE" : ""}`;
   const params = [companyId, ...poolIds];
@@ -113,7 +89,16 @@ export async function poolTests(source: Writer | RawReader, companyId: number, p
     ];
     rows = objects.map((r) => Object.values(r) as TestRow);
   }
-  return keptInputTests(rows);
+  return rows.map(([id, poolId, sampledAt, copper, copperBelow, iron, ironBelow, manganese, manganeseBelow, balanceComplete, ph]) => ({
+    id: String(id),
+    poolId: String(poolId),
+    takenAt: utcDate(sampledAt)!.getTime(),
+    copper: metalReading(copper === null ? null : Number(copper), Number(copperBelow) === 1),
+    iron: metalReading(iron === null ? null : Number(iron), Number(ironBelow) === 1),
+    manganese: metalReading(manganese === null ? null : Number(manganese), Number(manganeseBelow) === 1),
+    balanceComplete: Number(balanceComplete) === 1,
+    ph: ph === null ? null : Number(ph),
+  }));
 }
 
 const at = (ms: number | null) => (ms === null ? null : new Date(ms));
@@ -414,31 +399,14 @@ export const POOLS_PER_SLICE = 200;
 /** A slice of pools with their tests and, per live version, their kept rows as they stand. */
 type SliceRead = { poolIds: number[]; tests: KeptInputTest[]; before: KeptBefore[] };
 
-/** How a write's pools are kept: `knownTests` holds every test of some pools (in testOrder), so those are not read again. */
-export type KeepOptions = { reader?: RawReader; poolsPerSlice?: number; knownTests?: ReadonlyMap<number, readonly KeptInputTest[]> };
-
 async function readSlice(
   writer: Writer,
+  reader: Writer | RawReader,
   companyId: number,
   versions: readonly LiveVersion[],
   poolIds: number[],
-  options: KeepOptions,
 ): Promise<SliceRead> {
-  const known = options.knownTests;
-  const unknown = known ? poolIds.filter((id) => !known.has(id)) : poolIds;
-  const read = await poolTests(options.reader ?? writer, companyId, unknown);
-  let tests = read;
-  if (unknown.length < poolIds.length) {
-    // Pools in id order, each pool's tests in its own order, as poolTests gives them.
-    const readByPool = new Map<number, KeptInputTest[]>();
-    for (const t of read) {
-      const list = readByPool.get(Number(t.poolId));
-      if (list) list.push(t);
-      else readByPool.set(Number(t.poolId), [t]);
-    }
-    tests = [];
-    for (const id of poolIds) for (const t of known!.get(id) ?? readByPool.get(id) ?? []) tests.push(t);
-  }
+  const tests = await poolTests(reader, companyId, poolIds);
   const before: KeptBefore[] = [];
   for (const version of versions) before.push(await keptBefore(writer, version.id, poolIds));
   return { poolIds, tests, before };
@@ -456,23 +424,28 @@ async function readSlice(
  * The connection runs one statement at a time, so the next slice is read
  * before this one's writes are sent; the slices hold different pools.
  */
-export async function keepPoolsInStep(writer: Writer, companyId: number, poolIds: readonly number[], options: KeepOptions = {}): Promise<void> {
+export async function keepPoolsInStep(
+  writer: Writer,
+  companyId: number,
+  poolIds: readonly number[],
+  reader?: RawReader,
+  poolsPerSlice = POOLS_PER_SLICE,
+): Promise<void> {
   const ids = [...new Set(poolIds)].sort((a, b) => a - b);
   if (ids.length === 0) return;
   const versions = await liveVersions(writer, companyId);
   if (versions.length === 0) return;
-  const poolsPerSlice = options.poolsPerSlice ?? POOLS_PER_SLICE;
   const slices: number[][] = [];
   for (let from = 0; from < ids.length; from += poolsPerSlice) slices.push(ids.slice(from, from + poolsPerSlice));
   const monthValues = versions.map((): MonthValueChange[][] => []);
-  let next = await readSlice(writer, companyId, versions, slices[0]!, options);
+  let next = await readSlice(writer, reader ?? writer, companyId, versions, slices[0]!);
   let writing: Promise<void> | null = null;
   for (let s = 0; s < slices.length; s++) {
     const slice = next;
     const changes: KeptChanges[] = [];
     for (const [v, version] of versions.entries()) changes.push(await keptChanges(version, slice.tests, slice.before[v]!, writing !== null));
     if (writing) await writing;
-    if (s + 1 < slices.length) next = await readSlice(writer, companyId, versions, slices[s + 1]!, options);
+    if (s + 1 < slices.length) next = await readSlice(writer, reader ?? writer, companyId, versions, slices[s + 1]!);
     changes.forEach((c, v) => monthValues[v]!.push(c.monthValues));
     writing = (async () => {
       for (const c of changes) await writeKeptChanges(writer, companyId, slice.poolIds, slice.tests, c);
