@@ -15,7 +15,7 @@ import { logVisit } from "~/.server/visits/commands/save-visit";
 import type { Scope } from "~/.server/scope";
 import type { ProductInput } from "~/lib/forms/routebook";
 import * as outcomesApi from "~/routes/api.analytics.outcomes";
-import { createMember, createRoute, requestAs, type FixtureMember } from "../fixtures/company";
+import { createMember, createPool, createRoute, requestAs, type FixtureMember } from "../fixtures/company";
 import { callRoute } from "../fixtures/route-call";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
 import { keptReady } from "../fixtures/kept";
@@ -217,6 +217,28 @@ describe("treatment outcomes from kept courses", () => {
     expect((await undoBatch(owner, first)).ok).toBe(true);
     expect(await copperCourses()).toBe(before);
     await keptEqualsRecomputed(owner);
+    await noDifferences();
+  });
+
+  it("keep a pool an import fills first, in its tests' time order whatever the file's, beside a pool with tests of its own", async () => {
+    const fresh = await createPool(owner.companyId, { routeId: null, accountCode: "KO-9" });
+    // The fresh pool's rows are out of time order in the file: kept in time order all the same.
+    const batch = await importRows("KO-c.csv", [
+      `KO-9,${instantText(T0 + 210 * DAY)},7.2,0.8,0.4,,,`,
+      `KO-9,${instantText(T0 + 200 * DAY)},7.5,0.1,,,,`,
+      `KO-0,${instantText(T0 + 205 * DAY)},7.4,0.6,,,,`,
+      `KO-9,${instantText(T0 + 220 * DAY)},,0.05,0.1,,,`,
+    ]);
+    const [episodes] = (await db().execute(
+      `SELECT read_as, metal, opened_at FROM kept_episodes WHERE pool_id = ${fresh} AND read_as = 'all' ORDER BY seq`,
+    )) as unknown as [Array<{ read_as: string; metal: string; opened_at: Date }>];
+    expect(episodes.map((e) => [e.metal, new Date(e.opened_at).getTime()])).toEqual([
+      ["copper", Date.parse(`${instantText(T0 + 210 * DAY).replace(" ", "T")}:00Z`)],
+      ["iron", Date.parse(`${instantText(T0 + 210 * DAY).replace(" ", "T")}:00Z`)],
+    ]);
+    await noDifferences();
+    await keptEqualsRecomputed(owner);
+    expect((await undoBatch(owner, batch)).ok).toBe(true);
     await noDifferences();
   });
 
