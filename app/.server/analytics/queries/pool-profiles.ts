@@ -95,35 +95,20 @@ async function poolRows(tenant: Tenant, poolIds: readonly number[] | undefined):
     surface: PoolRow["surface"],
     sanitiser: PoolRow["sanitiser"],
   ];
-  return (await arrayRows<Row>(query)).map(
-    ([
-      poolId,
-      street,
-      customerName,
-      routeId,
-      routeName,
-      fillSourceId,
-      fillSourceName,
-      fillSourceKind,
-      neighbourhood,
-      active,
-      surface,
-      sanitiser,
-    ]) => ({
-      poolId,
-      street,
-      customerName,
-      routeId,
-      routeName,
-      fillSourceId,
-      fillSourceName,
-      fillSourceKind,
-      neighbourhood,
-      active: active === 1,
-      surface,
-      sanitiser,
-    }),
-  );
+  return (await arrayRows<Row>(query)).map((r) => ({
+    poolId: r[0],
+    street: r[1],
+    customerName: r[2],
+    routeId: r[3],
+    routeName: r[4],
+    fillSourceId: r[5],
+    fillSourceName: r[6],
+    fillSourceKind: r[7],
+    neighbourhood: r[8],
+    active: r[9] === 1,
+    surface: r[10],
+    sanitiser: r[11],
+  }));
 }
 
 const labelOf = (r: PoolRow): PoolLabel => ({
