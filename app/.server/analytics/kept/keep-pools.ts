@@ -1,6 +1,13 @@
 import { sql, type SQL } from "drizzle-orm";
 import { keptRowsOf, type KeptEpisode, type KeptInputTest, type KeptSpan } from "@analysis/metals/kept-history";
-import { keptMonthsOf, monthValueChanges, summedMonthValueChanges, type KeptPoolMonth, type MonthValueChange } from "@analysis/metals/kept-months";
+import {
+  keptMonthsOf,
+  metalsOfMonth,
+  monthValueChanges,
+  summedMonthValueChanges,
+  type KeptPoolMonth,
+  type MonthValueChange,
+} from "@analysis/metals/kept-months";
 import type { MetalThresholds } from "@analysis/metals/reading";
 import type { SqlValue } from "mysql2";
 import type { PoolConnection } from "mysql2/promise";
@@ -218,7 +225,8 @@ async function insertMonths(writer: Writer, versionId: number, companyId: number
 }
 
 const monthKey = (m: KeptPoolMonth) => `${m.poolId}/${m.month}`;
-const sameMonth = (a: KeptPoolMonth, b: KeptPoolMonth) => a.days === b.days && JSON.stringify(a.metals) === JSON.stringify(b.metals);
+// Metals compared in METALS order: a month worked out from tests lists them in the order they were first read.
+const sameMonth = (a: KeptPoolMonth, b: KeptPoolMonth) => a.days === b.days && JSON.stringify(metalsOfMonth(a)) === JSON.stringify(metalsOfMonth(b));
 
 /**
  * Only the month rows that changed are written: a visit touches one month of
