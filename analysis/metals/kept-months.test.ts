@@ -124,6 +124,7 @@ describe("kept pool months", () => {
         // A month row has a day for each local day with a metal reading: at least one, never more than its readings.
         expect(rows.every((r) => r.days >= 1 && r.days <= metalsOfMonth(r).reduce((sum, [, m]) => sum + m.readings, 0))).toBe(true);
         expect(new Set(rows.map((r) => `${r.poolId}/${r.month}`)).size).toBe(rows.length);
+        expect(rows.every((r) => JSON.stringify(Object.keys(r.metals)) === JSON.stringify(metalsOfMonth(r).map(([metal]) => metal)))).toBe(true);
 
         // Keep the histogram as writes do: pools added one at a time, then each pool's tests replaced by the second set's.
         const histogram = new Map<string, number>();

@@ -90,10 +90,15 @@ export function keptMonthsOf(tests: readonly MetalTest[], thresholds: MetalThres
     const months = [...open.values()].sort((a, b) => (a.row.month < b.row.month ? -1 : a.row.month > b.row.month ? 1 : 0));
     for (const o of months) {
       o.row.days = o.days.size;
+      // Listed in METALS order, whichever metal the month's first test had.
+      const metals: KeptPoolMonth["metals"] = {};
       METALS.forEach((metal, m) => {
-        const counted = o.values[m];
-        if (counted) o.row.metals[metal]!.values = counted.all().sort(byValue);
+        const counts = o.row.metals[metal];
+        if (!counts) return;
+        counts.values = o.values[m]!.all().sort(byValue);
+        metals[metal] = counts;
       });
+      o.row.metals = metals;
       rows.push(o.row);
     }
     open = new Map();
