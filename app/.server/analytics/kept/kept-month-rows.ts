@@ -1,7 +1,9 @@
 import { METALS, type Metal } from "@analysis/metals/reading";
 import type { KeptMetalMonth, KeptPoolMonth } from "@analysis/metals/kept-months";
 import type { SqlValue } from "mysql2";
-import type { StoredReadingCounts } from "../../db/schema/kept";
+
+/** A pool-month's reading counts as stored: per metal measured, [value, n], or [value, n, 1] for below detection. */
+type StoredReadingCounts = Partial<Record<Metal, Array<[number, number] | [number, number, 1]>>>;
 
 /** The columns of a kept pool-month after the version, in the order `keptMonthRow` lists its values. */
 export const KEPT_MONTH_COLUMNS =
@@ -27,7 +29,7 @@ export function keptMonthRow(versionId: number, companyId: number, m: KeptPoolMo
 
 /** A kept pool-month read back from its row (the columns of KEPT_MONTH_COLUMNS, by name). */
 export function keptMonthOf(row: Record<string, unknown>): KeptPoolMonth {
-  const stored = (typeof row.reading_counts === "string" ? JSON.parse(row.reading_counts) : row.reading_counts) as StoredReadingCounts;
+  const stored = JSON.parse(String(row.reading_counts)) as StoredReadingCounts;
   const metals: Partial<Record<Metal, KeptMetalMonth>> = {};
   for (const metal of METALS) {
     const values = stored[metal];

@@ -42,7 +42,6 @@ function episodeLine(
 const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">) =>
   [s.firstTestAt, s.lastTestAt, s.tests, s.latestBalanceAt ?? null].join(" ");
 
-
 function compare(table: KeptDifference["table"], kept: Map<string, string>, recomputed: Map<string, string>, into: KeptDifference[]) {
   for (const [key, line] of recomputed) {
     if (kept.get(key) !== line) into.push({ table, key, kept: kept.get(key) ?? null, recomputed: line });
@@ -51,8 +50,7 @@ function compare(table: KeptDifference["table"], kept: Map<string, string>, reco
 }
 
 /** A pool-month row's stored values after its key, as one line: the counts, the elevated metals and the reading counts. */
-const monthLine = (values: readonly unknown[]) =>
-  values.map((v) => (typeof v === "string" ? JSON.stringify(JSON.parse(v)) : typeof v === "object" ? JSON.stringify(v) : String(v))).join(" ");
+const monthLine = (values: readonly unknown[]) => values.map((v) => (typeof v === "string" ? JSON.stringify(JSON.parse(v)) : String(v))).join(" ");
 const MONTH_VALUES = KEPT_MONTH_COLUMNS.split(", ").slice(3);
 
 /** The version's month rows and month histogram against those counted from the tests; returns how many month rows are kept. */
@@ -73,10 +71,10 @@ async function compareMonths(versionId: number, expected: readonly KeptPoolMonth
   const counted = new Map<string, number>();
   for (const m of expected)
     for (const [metal, counts] of metalsOfMonth(m))
-    for (const v of counts.values) {
-      const key = valueKey(metal, m.month, v.value, v.belowDetection);
-      counted.set(key, (counted.get(key) ?? 0) + v.n);
-    }
+      for (const v of counts.values) {
+        const key = valueKey(metal, m.month, v.value, v.belowDetection);
+        counted.set(key, (counted.get(key) ?? 0) + v.n);
+      }
   compare("kept_month_values", keptValues, new Map([...counted].map(([key, n]) => [key, String(n)])), into);
   return keptMonths.size;
 }

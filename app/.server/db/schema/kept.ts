@@ -125,9 +125,6 @@ export const keptPoolSpans = mysqlTable(
 
 const METAL_NAMES = ["copper", "iron", "manganese"] as const;
 
-/** A pool-month's reading counts as stored: per metal measured, [value, n], or [value, n, 1] for below detection. */
-export type StoredReadingCounts = Partial<Record<(typeof METAL_NAMES)[number], Array<[number, number] | [number, number, 1]>>>;
-
 /**
  * Each pool's local month (of the version's time zone) with a metal reading:
  * days with one, and per metal the readings, those at or above the elevated
@@ -155,7 +152,7 @@ export const keptPoolMonths = mysqlTable(
     manganeseElevated: int("manganese_elevated").notNull(),
     /** The metals with a reading at or above the elevated level, one bit each in METALS order (copper 1, iron 2, manganese 4). */
     elevatedMetals: tinyint("elevated_metals", { unsigned: true }).notNull(),
-    /** StoredReadingCounts as JSON text: written and read only by Patina, so MariaDB is not asked to check each row's JSON. */
+    /** JSON as text (see kept-month-rows.ts): written and read only by Patina, so MariaDB is not asked to check each row's JSON. */
     readingCounts: longtext("reading_counts").notNull(),
   },
   (t) => [
