@@ -5,14 +5,13 @@ import {
   courseOf,
   courseOutcomes,
   DEFAULT_OUTCOME_RULES,
+  percentFall,
   type CensoringCause,
   type CourseOutcome,
   type Ineligible,
   type OutcomeTest,
   type PhStratum,
-  type ProductCategory,
   type RecurrenceOutcome,
-  type TreatmentCourse,
   type TreatmentRecord,
 } from "./treatments";
 
@@ -151,33 +150,12 @@ export function keptCourseOf(outcome: CourseOutcome, seq: number): KeptCourse {
   };
 }
 
-/**
- * A kept course read without its treatments: enough for every arm but
- * "product", which needs each treatment's category.
- */
-export type KeptCourseKeys = Omit<KeptCourse, "treatments">;
-
-function courseOfKeys(row: KeptCourseKeys): TreatmentCourse {
-  return {
-    poolId: row.poolId,
-    startAt: row.startAt,
-    treatments: [],
-    productIds: row.combination.split(" + "),
-    categories: row.categoryCombination.split(" + ") as ProductCategory[],
-    combination: row.combination,
-    categoryCombination: row.categoryCombination,
-    cost: row.cost,
-    costComplete: row.costComplete,
-  };
-}
-
 /** The course outcome a kept row stands for, with the derived quantities worked out as courseOutcomes does. */
-export function outcomeOfKept(row: KeptCourse | KeptCourseKeys): CourseOutcome {
+export function outcomeOfKept(row: KeptCourse): CourseOutcome {
   const { baseline, firstFollowUp, ineligible } = row;
-  const percentReduction =
-    ineligible === null && baseline && firstFollowUp && baseline.value > 0 ? ((baseline.value - firstFollowUp.value) / baseline.value) * 100 : null;
+  const percentReduction = percentFall(ineligible, baseline?.value ?? null, firstFollowUp?.value ?? null);
   return {
-    course: "treatments" in row ? courseOf(row.treatments) : courseOfKeys(row),
+    course: courseOf(row.treatments),
     metal: row.metal,
     baseline,
     ineligible,

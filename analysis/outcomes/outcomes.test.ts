@@ -2,7 +2,7 @@ import { describe, expect, it } from "vitest";
 import { DAY_MS } from "../metals/episodes";
 import type { MetalReading } from "../metals/reading";
 import { kaplanMeier } from "../stats/survival";
-import { compareArms, escalationDue, summariseOutcomes } from "./summary";
+import { armCourseOf, compareArms, escalationDue, summariseOutcomes } from "./summary";
 import { buildCourses, courseOutcomes, type OutcomeTest, type TreatmentRecord } from "./treatments";
 
 const T0 = Date.UTC(2024, 5, 3, 9);
@@ -159,7 +159,7 @@ describe("comparing two arms", () => {
       rx.push(treat("x", day(k * 40), "S1", "sequestrant"));
     }
     t.push(test("x", day(200), cu(0.5)));
-    const hints = escalationDue(courseOutcomes(buildCourses(rx), t, "copper"));
+    const hints = escalationDue(courseOutcomes(buildCourses(rx), t, "copper").map((o) => armCourseOf(o, "product")));
     expect(hints).toEqual([{ poolId: "x", coursesWithoutClearing: 3, since: day(0) }]);
   });
 });

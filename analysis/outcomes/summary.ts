@@ -2,7 +2,15 @@ import { mean, median } from "d3-array";
 import { wilsonInterval, type Interval } from "../stats/intervals";
 import { mannWhitney, type RankTestResult } from "../stats/rank-tests";
 import { kaplanMeier, logRankTest, type KaplanMeierCurve, type LogRankResult, type SurvivalObservation } from "../stats/survival";
-import { DEFAULT_OUTCOME_RULES, type CourseOutcome, type PhStratum } from "./treatments";
+import {
+  DEFAULT_OUTCOME_RULES,
+  type CensoringCause,
+  type CourseOutcome,
+  type Ineligible,
+  type PhStratum,
+  type ProductCategory,
+  type RecurrenceOutcome,
+} from "./treatments";
 
 /**
  * How courses are put into arms. "product" and "category" count a course
@@ -14,17 +22,63 @@ import { DEFAULT_OUTCOME_RULES, type CourseOutcome, type PhStratum } from "./tre
 export type ArmDimension = "product" | "category" | "combination" | "category-combination";
 
 export function armsOf(outcome: CourseOutcome, dimension: ArmDimension): string[] {
+  if (dimension === "product" && outcome.course.treatments.length === 0) throw new Error("a course read without its treatments has no product arms");
+  return courseArms(dimension, outcome.course);
+}
+
+/** A course's arms on a dimension, from its arm keys (and, for "product", its treatments). */
+export function courseArms(
+  dimension: ArmDimension,
+  course: { combination: string; categoryCombination: string; treatments?: ReadonlyArray<{ productId: string; category: ProductCategory }> },
+): string[] {
   switch (dimension) {
     case "product":
-      if (outcome.course.treatments.length === 0) throw new Error("a course read without its treatments has no product arms");
-      return [...new Set(outcome.course.treatments.filter((t) => t.category !== "ph-decreaser").map((t) => t.productId))].sort();
+      return [...new Set((course.treatments ?? []).filter((t) => t.category !== "ph-decreaser").map((t) => t.productId))].sort();
     case "category":
-      return outcome.course.categories.filter((c) => c !== "ph-decreaser");
+      return course.categoryCombination.split(" + ").filter((c) => c !== "ph-decreaser");
     case "combination":
-      return [outcome.course.combination];
+      return [course.combination];
     case "category-combination":
-      return [outcome.course.categoryCombination];
+      return [course.categoryCombination];
   }
+}
+
+/**
+ * What the arm summaries and escalation hints read of one course followed on
+ * one metal, flat: the answer from the kept results builds these straight
+ * from its rows, tens of thousands of them on a large company.
+ */
+export interface ArmCourse {
+  poolId: string;
+  startAt: number;
+  /** The arms it counts under on the dimension summarised (none when ineligible). */
+  arms: readonly string[];
+  ineligible: Ineligible | null;
+  phStratum: PhStratum;
+  percentReduction: number | null;
+  daysToClear: number;
+  cleared: boolean;
+  censoredBy: CensoringCause | null;
+  recurrence: RecurrenceOutcome | null;
+  cost: number;
+  costComplete: boolean;
+}
+
+export function armCourseOf(outcome: CourseOutcome, dimension: ArmDimension): ArmCourse {
+  return {
+    poolId: outcome.course.poolId,
+    startAt: outcome.course.startAt,
+    arms: outcome.ineligible === null ? armsOf(outcome, dimension) : [],
+    ineligible: outcome.ineligible,
+    phStratum: outcome.phStratum,
+    percentReduction: outcome.percentReduction,
+    daysToClear: outcome.timeToClear.days,
+    cleared: outcome.timeToClear.cleared,
+    censoredBy: outcome.timeToClear.censoredBy,
+    recurrence: outcome.recurrence,
+    cost: outcome.course.cost,
+    costComplete: outcome.course.costComplete,
+  };
 }
 
 export interface ArmResult {
@@ -51,26 +105,41 @@ export function timeToClearObservations(outcomes: readonly CourseOutcome[]): Sur
   return outcomes.map((o) => ({ time: o.timeToClear.days, event: o.timeToClear.cleared }));
 }
 
-/** Summary of one set of eligible course outcomes. */
-export function summariseArm(outcomes: readonly CourseOutcome[], minPoolsToCompare = DEFAULT_OUTCOME_RULES.minPoolsToCompare): ArmResult {
-  const pools = new Set(outcomes.map((o) => o.course.poolId));
-  const reductions = outcomes.map((o) => o.percentReduction).filter((v): v is number => v !== null);
-  const cleared = outcomes.filter((o) => o.timeToClear.cleared);
-  const clearedPools = new Set(cleared.map((o) => o.course.poolId));
-  const recurred = outcomes.filter((o) => o.recurrence === "recurred").length;
-  const followed = recurred + outcomes.filter((o) => o.recurrence === "stayed-clear").length;
-  const totalCost = outcomes.reduce((sum, o) => sum + o.course.cost, 0);
+/** Summary of one set of eligible courses. */
+export function summariseArm(courses: readonly ArmCourse[], minPoolsToCompare = DEFAULT_OUTCOME_RULES.minPoolsToCompare): ArmResult {
+  const pools = new Set<string>();
+  const clearedPools = new Set<string>();
+  const reductions: number[] = [];
+  const observations: SurvivalObservation[] = [];
+  let cleared = 0;
+  let recurred = 0;
+  let followed = 0;
+  let totalCost = 0;
+  let costComplete = true;
+  for (const c of courses) {
+    pools.add(c.poolId);
+    if (c.percentReduction !== null) reductions.push(c.percentReduction);
+    observations.push({ time: c.daysToClear, event: c.cleared });
+    if (c.cleared) {
+      cleared++;
+      clearedPools.add(c.poolId);
+    }
+    if (c.recurrence === "recurred") recurred++;
+    if (c.recurrence === "recurred" || c.recurrence === "stayed-clear") followed++;
+    totalCost += c.cost;
+    costComplete &&= c.costComplete;
+  }
   return {
-    courses: outcomes.length,
+    courses: courses.length,
     pools: pools.size,
     tooFewToCompare: pools.size < minPoolsToCompare,
     reduction: { count: reductions.length, median: median(reductions) ?? null, mean: mean(reductions) ?? null },
-    timeToClear: kaplanMeier(timeToClearObservations(outcomes)),
-    clearedCourses: cleared.length,
+    timeToClear: kaplanMeier(observations),
+    clearedCourses: cleared,
     clearedPools: clearedPools.size,
     recurrence: { recurred, followed, share: followed > 0 ? wilsonInterval(recurred, followed) : null },
     totalCost,
-    costComplete: outcomes.every((o) => o.course.costComplete),
+    costComplete,
     costPerClearedPool: clearedPools.size > 0 ? totalCost / clearedPools.size : null,
   };
 }
@@ -85,26 +154,38 @@ export function summariseOutcomes(
   dimension: ArmDimension,
   minPoolsToCompare = DEFAULT_OUTCOME_RULES.minPoolsToCompare,
 ): ArmSummary[] {
-  const arms = new Map<string, CourseOutcome[]>();
-  for (const o of outcomes) {
-    if (o.ineligible !== null) continue;
-    for (const arm of armsOf(o, dimension)) {
+  return summariseArmCourses(
+    outcomes.map((o) => armCourseOf(o, dimension)),
+    minPoolsToCompare,
+  );
+}
+
+/** The same from courses already put into arms. */
+export function summariseArmCourses(courses: readonly ArmCourse[], minPoolsToCompare = DEFAULT_OUTCOME_RULES.minPoolsToCompare): ArmSummary[] {
+  const arms = new Map<string, ArmCourse[]>();
+  for (const c of courses) {
+    if (c.ineligible !== null) continue;
+    for (const arm of c.arms) {
       const list = arms.get(arm);
-      if (list) list.push(o);
-      else arms.set(arm, [o]);
+      if (list) list.push(c);
+      else arms.set(arm, [c]);
     }
   }
   return [...arms.entries()]
     .sort(([a], [b]) => (a < b ? -1 : a > b ? 1 : 0))
-    .map(([arm, list]) => ({
-      arm,
-      ...summariseArm(list, minPoolsToCompare),
-      byPh: {
-        inside: summariseArm(list.filter((o) => o.phStratum === "inside"), minPoolsToCompare),
-        outside: summariseArm(list.filter((o) => o.phStratum === "outside"), minPoolsToCompare),
-        unknown: summariseArm(list.filter((o) => o.phStratum === "unknown"), minPoolsToCompare),
-      },
-    }));
+    .map(([arm, list]) => {
+      const byPh: Record<PhStratum, ArmCourse[]> = { inside: [], outside: [], unknown: [] };
+      for (const c of list) byPh[c.phStratum].push(c);
+      return {
+        arm,
+        ...summariseArm(list, minPoolsToCompare),
+        byPh: {
+          inside: summariseArm(byPh.inside, minPoolsToCompare),
+          outside: summariseArm(byPh.outside, minPoolsToCompare),
+          unknown: summariseArm(byPh.unknown, minPoolsToCompare),
+        },
+      };
+    });
 }
 
 export interface ArmComparison {
@@ -143,22 +224,22 @@ export interface EscalationHint {
  * Pools where the last few courses in a row did not clear the metal: more
  * product is unlikely to help, and the cause or the surface needs attention.
  */
-export function escalationDue(outcomes: readonly CourseOutcome[], minCoursesWithoutClearing = 3): EscalationHint[] {
-  const byPool = new Map<string, CourseOutcome[]>();
-  for (const o of outcomes) {
+export function escalationDue(courses: readonly ArmCourse[], minCoursesWithoutClearing = 3): EscalationHint[] {
+  const byPool = new Map<string, ArmCourse[]>();
+  for (const c of courses) {
     // A course still inside its follow-up at the end of the data has not failed yet.
-    if (o.ineligible !== null || o.timeToClear.censoredBy === "end-of-data") continue;
-    const list = byPool.get(o.course.poolId);
-    if (list) list.push(o);
-    else byPool.set(o.course.poolId, [o]);
+    if (c.ineligible !== null || c.censoredBy === "end-of-data") continue;
+    const list = byPool.get(c.poolId);
+    if (list) list.push(c);
+    else byPool.set(c.poolId, [c]);
   }
   const hints: EscalationHint[] = [];
   for (const [poolId, list] of byPool) {
-    list.sort((x, y) => x.course.startAt - y.course.startAt);
+    list.sort((x, y) => x.startAt - y.startAt);
     let streak = 0;
-    for (let i = list.length - 1; i >= 0 && !list[i]!.timeToClear.cleared; i--) streak++;
+    for (let i = list.length - 1; i >= 0 && !list[i]!.cleared; i--) streak++;
     if (streak >= minCoursesWithoutClearing) {
-      hints.push({ poolId, coursesWithoutClearing: streak, since: list[list.length - streak]!.course.startAt });
+      hints.push({ poolId, coursesWithoutClearing: streak, since: list[list.length - streak]!.startAt });
     }
   }
   return hints;

@@ -138,6 +138,11 @@ export interface CourseOutcome {
   recurrence: RecurrenceOutcome | null;
 }
 
+/** Percent fall from the baseline at the first follow-up; null for an ineligible course, a missing reading or a zero baseline. */
+export function percentFall(ineligible: Ineligible | null, baseline: number | null, firstFollowUp: number | null): number | null {
+  return ineligible === null && baseline !== null && firstFollowUp !== null && baseline > 0 ? ((baseline - firstFollowUp) / baseline) * 100 : null;
+}
+
 const byTime = bisector((t: OutcomeTest) => t.takenAt);
 
 function phStratum(ph: number | null, band: OutcomeRules["phBand"]): PhStratum {
@@ -210,9 +215,7 @@ export function courseOutcomes(
     const firstFollowUp = first && firstReading
       ? { testId: first.id, takenAt: first.takenAt, daysAfter: daysAfter(first), value: firstReading.value, belowDetection: firstReading.belowDetection }
       : null;
-    const percentReduction = ineligible === null && baseline && firstFollowUp && baseline.value > 0
-      ? ((baseline.value - firstFollowUp.value) / baseline.value) * 100
-      : null;
+    const percentReduction = percentFall(ineligible, baseline?.value ?? null, firstFollowUp?.value ?? null);
 
     const clearing = followUps.find((t) => metalStatus(t[metal]!, levels) === "clear");
     let timeToClear: CourseOutcome["timeToClear"];

@@ -2,6 +2,7 @@ import { afterAll, beforeAll, describe, expect, it } from "vitest";
 import { desc, eq } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS, METALS, type Metal } from "@analysis/metals/reading";
 import type { ArmDimension } from "@analysis/outcomes/summary";
+import { keptArmCourses } from "~/.server/analytics/kept/keep-courses";
 import { keepCompanyCurrent } from "~/.server/analytics/kept/versions";
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { treatmentOutcomes, type TreatmentOutcomes } from "~/.server/analytics/queries/treatment-outcomes";
@@ -169,6 +170,10 @@ describe("treatment outcomes from kept courses", () => {
     expect(binder.totalCost).toBe(41);
     const check = await noDifferences();
     expect(check.courses).toBe(copper.courses * METALS.length);
+    // Read in the recomputation's order (pool id as text, then start), so every sum adds alike to the last bit.
+    const read = (await keptArmCourses(owner, check.versionId!, "copper", "combination")).map((c) => [c.poolId, c.startAt] as const);
+    expect(new Set(read.map(([poolId]) => poolId)).size).toBe(4);
+    expect(read).toEqual([...read].sort(([p, a], [q, b]) => (p < q ? -1 : p > q ? 1 : a - b)));
 
     // The endpoint says where the answer came from, and it is the same answer.
     const api = await callRoute(outcomesApi.loader, requestAs(manager, "/api/analytics/outcomes?metal=copper&arm=product"));

@@ -1,8 +1,10 @@
 import { and, asc, eq, sql, type SQL } from "drizzle-orm";
-import { keptCoursesOf, type KeptCourse, type KeptCourseKeys } from "@analysis/outcomes/kept-courses";
+import { DAY_MS } from "@analysis/metals/episodes";
+import { keptCoursesOf, type KeptCourse } from "@analysis/outcomes/kept-courses";
+import { courseArms, type ArmCourse, type ArmDimension } from "@analysis/outcomes/summary";
 import type { KeptInputTest } from "@analysis/metals/kept-history";
 import type { Metal } from "@analysis/metals/reading";
-import type { OutcomeTest, TreatmentRecord } from "@analysis/outcomes/treatments";
+import { percentFall, type CensoringCause, type Ineligible, type OutcomeTest, type PhStratum, type RecurrenceOutcome, type TreatmentRecord } from "@analysis/outcomes/treatments";
 import { arrayRows, exactArrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { idList } from "../../db/id-list";
@@ -110,7 +112,7 @@ function keptCourseOfRaw(r: Row): KeptCourse {
     poolId: Number(r.pool_id),
     seq: Number(r.seq),
     startedAt: utcDate(r.started_at)!,
-    treatments: (typeof r.treatments === "string" ? JSON.parse(r.treatments) : r.treatments) as KeptCourseTreatment[],
+    treatments: treatmentsOfColumn(r.treatments),
     combination: String(r.combination),
     categoryCombination: String(r.category_combination),
     costComplete: Number(r.cost_complete) === 1,
@@ -218,7 +220,7 @@ export async function replaceKeptCourses(
   }
 }
 
-/** What every course read takes, in this order; the treatments (or the cost) come last. */
+/** What the full course read takes, in this order; the treatments come last. */
 const COURSE_KEYS = {
   metal: keptTreatmentCourses.metal,
   poolId: keptTreatmentCourses.poolId,
@@ -280,7 +282,7 @@ function courseFacts(r: CourseKeysRow): CourseFacts {
 
 function keptCourseOfRow(r: CourseRow): KeptCourse {
   const facts = courseFacts(r);
-  const stored = typeof r.treatments === "string" ? (JSON.parse(r.treatments) as KeptCourseTreatment[]) : r.treatments;
+  const stored = treatmentsOfColumn(r.treatments);
   return {
     ...facts,
     treatments: stored.map((t) => ({ ...t, poolId: facts.poolId })),
@@ -291,6 +293,9 @@ function keptCourseOfRow(r: CourseRow): KeptCourse {
 }
 
 const flag = (value: unknown) => value === 1 || value === true;
+
+/** A course's treatments as read: the driver gives the JSON column as text. */
+const treatmentsOfColumn = (value: unknown) => (typeof value === "string" ? JSON.parse(value) : value) as KeptCourseTreatment[];
 
 /** A course row read as an array in COURSE_KEYS' order (flags as 0 or 1). */
 function courseKeysOfArray(v: readonly unknown[]): CourseKeysRow {
@@ -321,9 +326,9 @@ function courseKeysOfArray(v: readonly unknown[]): CourseKeysRow {
   };
 }
 
-function coursesOfTenant(last: typeof keptTreatmentCourses.treatments | typeof keptTreatmentCourses.cost, tenant: Tenant, versionId: number, metal?: Metal) {
+function coursesOfTenant(tenant: Tenant, versionId: number, metal?: Metal) {
   return db()
-    .select({ ...COURSE_KEYS, last })
+    .select({ ...COURSE_KEYS, treatments: keptTreatmentCourses.treatments })
     .from(keptTreatmentCourses)
     .innerJoin(pools, eq(pools.id, keptTreatmentCourses.poolId))
     .where(and(eq(keptTreatmentCourses.versionId, versionId), metal ? eq(keptTreatmentCourses.metal, metal) : undefined, tenantCondition(tenant)))
@@ -336,16 +341,61 @@ function coursesOfTenant(last: typeof keptTreatmentCourses.treatments | typeof k
  * by pool and course. Read as arrays: tens of thousands of rows on a large company.
  */
 export async function keptCourses(tenant: Tenant, versionId: number, metal?: Metal): Promise<KeptCourse[]> {
-  const rows = await arrayRows<unknown[]>(coursesOfTenant(keptTreatmentCourses.treatments, tenant, versionId, metal));
+  const rows = await arrayRows<unknown[]>(coursesOfTenant(tenant, versionId, metal));
   return rows.map((v) => keptCourseOfRow({ ...courseKeysOfArray(v), treatments: v[LAST] as CourseRow["treatments"] }));
 }
 
+const ARM_COURSE = {
+  poolId: keptTreatmentCourses.poolId,
+  // Whole milliseconds from the epoch and to the clock's stop: DATETIME(3) differences, exact, and no Date per row.
+  startAt: sql<number>`TIMESTAMPDIFF(MICROSECOND, '1970-01-01', ${keptTreatmentCourses.startedAt}) DIV 1000`,
+  msToClear: sql<number>`TIMESTAMPDIFF(MICROSECOND, ${keptTreatmentCourses.startedAt}, ${keptTreatmentCourses.clockStoppedAt}) DIV 1000`,
+  combination: keptTreatmentCourses.combination,
+  categoryCombination: keptTreatmentCourses.categoryCombination,
+  cost: keptTreatmentCourses.cost,
+  costComplete: keptTreatmentCourses.costComplete,
+  ineligible: keptTreatmentCourses.ineligible,
+  phStratum: keptTreatmentCourses.phStratum,
+  baselineValue: keptTreatmentCourses.baselineValue,
+  followUpValue: keptTreatmentCourses.followUpValue,
+  cleared: keptTreatmentCourses.cleared,
+  censoredBy: keptTreatmentCourses.censoredBy,
+  recurrence: keptTreatmentCourses.recurrence,
+};
+
 /**
- * The same courses without their treatments, for answers that need only the
- * arm keys and the cost: the treatments are most of the bytes read. The cost
- * comes through the binary protocol, so it is the kept sum to the last bit.
+ * The kept courses of the tenant's pools on one metal, put into arms on one
+ * dimension: one flat object per row, in the order buildCourses makes them
+ * (pool id as text, then start), so every sum adds as a recomputation does.
+ * Only product arms read the treatments, most of a row's bytes. Read through
+ * the binary protocol: every DOUBLE (cost, baseline, follow-up) to the last bit.
  */
-export async function keptCourseKeys(tenant: Tenant, versionId: number, metal?: Metal): Promise<KeptCourseKeys[]> {
-  const rows = await exactArrayRows<unknown[]>(coursesOfTenant(keptTreatmentCourses.cost, tenant, versionId, metal));
-  return rows.map((v) => ({ ...courseFacts(courseKeysOfArray(v)), cost: v[LAST] as number }));
+export async function keptArmCourses(tenant: Tenant, versionId: number, metal: Metal, dimension: ArmDimension): Promise<ArmCourse[]> {
+  const treatments = dimension === "product" ? keptTreatmentCourses.treatments : sql<null>`NULL`;
+  const rows = await exactArrayRows<unknown[]>(
+    db()
+      .select({ ...ARM_COURSE, treatments })
+      .from(keptTreatmentCourses)
+      .innerJoin(pools, eq(pools.id, keptTreatmentCourses.poolId))
+      .where(and(eq(keptTreatmentCourses.versionId, versionId), eq(keptTreatmentCourses.metal, metal), tenantCondition(tenant)))
+      .orderBy(sql`CAST(${keptTreatmentCourses.poolId} AS BINARY)`, asc(keptTreatmentCourses.seq)),
+  );
+  return rows.map((v) => {
+    const ineligible = v[7] as Ineligible | null;
+    const keys = { combination: v[3] as string, categoryCombination: v[4] as string, treatments: ineligible === null && v[14] !== null ? treatmentsOfColumn(v[14]) : undefined };
+    return {
+      poolId: String(v[0]),
+      startAt: Number(v[1]),
+      arms: ineligible === null ? courseArms(dimension, keys) : [],
+      ineligible,
+      phStratum: v[8] as PhStratum,
+      percentReduction: percentFall(ineligible, v[9] as number | null, v[10] as number | null),
+      daysToClear: Number(v[2]) / DAY_MS,
+      cleared: flag(v[11]),
+      censoredBy: v[12] as CensoringCause | null,
+      recurrence: v[13] as RecurrenceOutcome | null,
+      cost: v[5] as number,
+      costComplete: flag(v[6]),
+    };
+  });
 }

@@ -1,14 +1,14 @@
 import { and, eq, inArray, isNotNull, or } from "drizzle-orm";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
-import { summariseOutcomes, escalationDue, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
-import { courseOrder, outcomeOfKept, testsNearTreatments } from "@analysis/outcomes/kept-courses";
-import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES, type CourseOutcome } from "@analysis/outcomes/treatments";
+import { armCourseOf, escalationDue, summariseArmCourses, type ArmCourse, type ArmDimension, type ArmResult } from "@analysis/outcomes/summary";
+import { testsNearTreatments } from "@analysis/outcomes/kept-courses";
+import { buildCourses, courseOutcomes, DEFAULT_OUTCOME_RULES } from "@analysis/outcomes/treatments";
 import { CATEGORY_WORDS } from "~/lib/analytics/labels";
 import { isoInstant, jsonInterval, type JsonInterval } from "@analysis/json-shapes";
 import { db } from "../../db/client";
 import { pools, products, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { keptCourseKeys, keptCourses } from "../kept/keep-courses";
+import { keptArmCourses } from "../kept/keep-courses";
 import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { anyMetalMeasured, treatmentRows, waterTestReadings } from "./metal-readings";
 import { tenantCondition, isWithin, type TimeWindow } from "./tenant-and-window";
@@ -92,18 +92,8 @@ const COURSE_CATEGORIES = ["sequestrant", "collector_pad", "ph_decreaser"] as co
 export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Promise<TreatmentOutcomes> {
   const versionId = await keptVersionFor(scope.companyId, params);
   if (versionId !== null) {
-    // Ordered as buildCourses orders them, so every sum adds in the same order as a recomputation.
-    // Only product arms need each treatment's category; the other arms read the courses' keys.
-    const kept = params.arm === "product" ? await keptCourses({ scope }, versionId, params.metal) : await keptCourseKeys({ scope }, versionId, params.metal);
-    const outcomes = kept.sort(courseOrder).map(outcomeOfKept);
-    const productIds = [...new Set(outcomes.flatMap((o) => o.course.productIds.map(Number)))];
-    const named = productIds.length
-      ? await db()
-          .select({ id: products.id, name: products.name })
-          .from(products)
-          .where(and(eq(products.companyId, scope.companyId), inArray(products.id, productIds)))
-      : [];
-    return outcomesAnswer(scope, params, outcomes, new Map(named.map((p) => [String(p.id), p.name])), "kept");
+    const courses = await keptArmCourses({ scope }, versionId, params.metal, params.arm);
+    return outcomesAnswer(scope, params, courses, await productNamesOf(scope, params.arm, courses), "kept");
   }
   // Every metal treatment bounds the tests kept; only those in the window form courses.
   const everyApplied = await treatmentRows({ scope }, { categories: COURSE_CATEGORIES });
@@ -112,18 +102,32 @@ export async function treatmentOutcomes(scope: Scope, params: OutcomeParams): Pr
   const treatedPools = [...new Set(courses.map((c) => Number(c.poolId)))];
   const read = await waterTestReadings({ scope }, { poolIds: treatedPools, with: { ph: true }, where: or(anyMetalMeasured(), isNotNull(waterTests.ph)) });
   const tests = testsNearTreatments(read, everyApplied);
-  const outcomes = courseOutcomes(courses, tests, params.metal, { thresholds: params.thresholds });
+  const outcomes = courseOutcomes(courses, tests, params.metal, { thresholds: params.thresholds }).map((o) => armCourseOf(o, params.arm));
   return outcomesAnswer(scope, params, outcomes, new Map(applied.map((t) => [t.productId, t.productName])), "recomputed");
+}
+
+/** The names of the products that product and combination arms are made of. */
+async function productNamesOf(scope: Scope, arm: ArmDimension, courses: readonly ArmCourse[]): Promise<Map<string, string>> {
+  if (arm !== "product" && arm !== "combination") return new Map();
+  const keys = new Set<string>();
+  for (const c of courses) for (const key of c.arms) keys.add(key);
+  const ids = new Set([...keys].flatMap((key) => key.split(" + ").map(Number)));
+  if (ids.size === 0) return new Map();
+  const named = await db()
+    .select({ id: products.id, name: products.name })
+    .from(products)
+    .where(and(eq(products.companyId, scope.companyId), inArray(products.id, [...ids])));
+  return new Map(named.map((p) => [String(p.id), p.name]));
 }
 
 async function outcomesAnswer(
   scope: Scope,
   params: OutcomeParams,
-  outcomes: CourseOutcome[],
+  courses: ArmCourse[],
   productNames: ReadonlyMap<string, string>,
   source: AnswerSource,
 ): Promise<TreatmentOutcomes> {
-  const summaries = summariseOutcomes(outcomes, params.arm);
+  const summaries = summariseArmCourses(courses);
 
   // Parts of a combination are named in alphabetical order, whatever their ids.
   const joinNames = (names: string[]) => names.sort((a, b) => a.localeCompare(b)).join(" + ");
@@ -135,9 +139,9 @@ async function outcomesAnswer(
   };
 
   const ineligible: Record<string, number> = {};
-  for (const o of outcomes) if (o.ineligible) ineligible[o.ineligible] = (ineligible[o.ineligible] ?? 0) + 1;
+  for (const c of courses) if (c.ineligible) ineligible[c.ineligible] = (ineligible[c.ineligible] ?? 0) + 1;
 
-  const hints = escalationDue(outcomes);
+  const hints = escalationDue(courses);
   const streets = hints.length
     ? new Map(
         (await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inArray(pools.id, hints.map((h) => Number(h.poolId)))))).map(
@@ -155,8 +159,8 @@ async function outcomesAnswer(
       followUpDays: DEFAULT_OUTCOME_RULES.followUpDays,
       recurrenceAfterClearDays: DEFAULT_OUTCOME_RULES.recurrenceAfterClearDays,
     },
-    courses: outcomes.length,
-    eligibleCourses: outcomes.filter((o) => o.ineligible === null).length,
+    courses: courses.length,
+    eligibleCourses: courses.filter((c) => c.ineligible === null).length,
     ineligible,
     arms: summaries.map((s) => ({
       arm: s.arm,
