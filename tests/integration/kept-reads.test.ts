@@ -1,8 +1,8 @@
 import { randomUUID } from "node:crypto";
 import { afterAll, beforeAll, describe, expect, it } from "vitest";
-import { eq } from "drizzle-orm";
+import { eq, inArray } from "drizzle-orm";
 import { DEFAULT_METAL_THRESHOLDS, type MetalReading } from "@analysis/metals/reading";
-import { keptVersionAsOf } from "~/.server/analytics/kept/read-kept";
+import { keptEpisodeList, keptMetalStates, keptSpans, keptVersionAsOf, keptVersionFor } from "~/.server/analytics/kept/read-kept";
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { poolEvidence, poolMetalPanel } from "~/.server/analytics/queries/pool-evidence";
 import { poolSeries } from "~/.server/analytics/queries/pool-series";
@@ -23,7 +23,7 @@ import type { SeriesAnalyte } from "~/lib/analytics/params";
 import * as evidenceApi from "~/routes/api.analytics.pools.$poolId.evidence";
 import * as seriesApi from "~/routes/api.analytics.pools.$poolId.series";
 import * as sourcesApi from "~/routes/api.analytics.sources";
-import { createFillSource, requestAs, type FixtureMember } from "../fixtures/company";
+import { createFillSource, createRoute, requestAs, type FixtureMember } from "../fixtures/company";
 import { keptReady } from "../fixtures/kept";
 import { callRoute } from "../fixtures/route-call";
 import { analystWithPools, postCheckForm, upload } from "./imports-helpers";
@@ -292,5 +292,29 @@ describe("mail from kept rows", () => {
     expect(keptEvents.map((e) => e.kind)).toContain("shared_source");
     expect(await eventsOf()).toEqual(keptEvents);
     expect(fromTests.map((r) => r.dedupeKey).sort()).toEqual(kept.map((r) => r.dedupeKey).sort());
+  });
+});
+
+describe("kept rows read for a technician", () => {
+  it("hold only their routes' pools, and those pools' rows in full", async () => {
+    const routeId = await createRoute(scope.companyId, "Thursday");
+    await db().update(pools).set({ routeId }).where(inArray(pools.id, [poolIds[0]!, poolIds[2]!]));
+    const technician: Scope = { ...scope, role: "technician", routeIds: [routeId] };
+    const versionId = (await keptVersionFor(scope.companyId, params))!;
+    const theirs = new Set([String(poolIds[0]), String(poolIds[2])]);
+    const poolsOf = (rows: ReadonlyArray<{ poolId: string | number }>) => [...new Set(rows.map((r) => String(r.poolId)))].sort();
+
+    const episodes = await keptEpisodeList({ scope: technician }, versionId, "all");
+    const everyEpisode = await keptEpisodeList({ scope: owner }, versionId, "all");
+    expect(poolsOf(everyEpisode).length).toBeGreaterThan(2);
+    expect(poolsOf(episodes)).toEqual([...theirs].sort());
+    expect(episodes).toEqual(everyEpisode.filter((e) => theirs.has(e.poolId)));
+
+    const spans = await keptSpans({ scope: technician }, versionId, "any");
+    expect(poolsOf(spans)).toEqual([...theirs].sort());
+    expect(spans).toEqual((await keptSpans({ scope: owner }, versionId, "any")).filter((s) => theirs.has(String(s.poolId))));
+
+    const states = await keptMetalStates({ scope: technician }, versionId);
+    expect([...states.keys()].sort()).toEqual([...theirs].sort());
   });
 });

@@ -9,10 +9,11 @@ import { arrayRows, exactArrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { idList } from "../../db/id-list";
 import { rowValues } from "../../db/row-values";
-import { keptTreatmentCourses, pools, type KeptCourseTreatment } from "../../db/schema";
+import { keptTreatmentCourses, type KeptCourseTreatment } from "../../db/schema";
 import { utcDate } from "../../db/values";
 import { PRODUCT_CATEGORY } from "../queries/metal-readings";
-import { tenantCondition, type Tenant } from "../queries/tenant-and-window";
+import type { Tenant } from "../queries/tenant-and-window";
+import { keptRowsOfTenant } from "./tenant-rows";
 import type { LiveVersion, Writer } from "./writer";
 
 type Row = Record<string, unknown>;
@@ -330,8 +331,7 @@ function coursesOfTenant(tenant: Tenant, versionId: number, metal?: Metal) {
   return db()
     .select({ ...COURSE_KEYS, treatments: keptTreatmentCourses.treatments })
     .from(keptTreatmentCourses)
-    .innerJoin(pools, eq(pools.id, keptTreatmentCourses.poolId))
-    .where(and(eq(keptTreatmentCourses.versionId, versionId), metal ? eq(keptTreatmentCourses.metal, metal) : undefined, tenantCondition(tenant)))
+    .where(and(eq(keptTreatmentCourses.versionId, versionId), metal ? eq(keptTreatmentCourses.metal, metal) : undefined, keptRowsOfTenant(tenant, keptTreatmentCourses)))
     .orderBy(asc(keptTreatmentCourses.metal), asc(keptTreatmentCourses.poolId), asc(keptTreatmentCourses.seq));
 }
 
@@ -376,8 +376,7 @@ export async function keptArmCourses(tenant: Tenant, versionId: number, metal: M
     db()
       .select({ ...ARM_COURSE, treatments })
       .from(keptTreatmentCourses)
-      .innerJoin(pools, eq(pools.id, keptTreatmentCourses.poolId))
-      .where(and(eq(keptTreatmentCourses.versionId, versionId), eq(keptTreatmentCourses.metal, metal), tenantCondition(tenant)))
+      .where(and(eq(keptTreatmentCourses.versionId, versionId), eq(keptTreatmentCourses.metal, metal), keptRowsOfTenant(tenant, keptTreatmentCourses)))
       .orderBy(sql`CAST(${keptTreatmentCourses.poolId} AS BINARY)`, asc(keptTreatmentCourses.seq)),
   );
   return rows.map((v) => {

@@ -7,10 +7,11 @@ import { arrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { inIdList } from "../../db/id-list";
 import { serverEnv } from "../../env";
-import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, pools, waterTests } from "../../db/schema";
+import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
-import { tenantCondition, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
+import type { Tenant, TimeWindow } from "../queries/tenant-and-window";
 import { elevatedBit } from "./kept-month-rows";
+import { keptRowsOfTenant } from "./tenant-rows";
 import { readyVersionFor } from "./versions";
 
 /** Where an answer came from: the kept results, or the tests read and worked out for this request. */
@@ -44,15 +45,6 @@ export async function keptVersionAsOf(companyId: number, thresholds: MetalThresh
   return later.length === 0 ? versionId : null;
 }
 
-/** Tenant rows of a kept table: the company and, for a member's Scope, their pools (joined). */
-function keptRowsOfTenant(
-  tenant: Tenant,
-  poolIds: readonly number[] | undefined,
-  poolColumn: typeof keptEpisodes.poolId | typeof keptPoolSpans.poolId,
-) {
-  return and(tenantCondition(tenant), poolIds ? inIdList(poolColumn, poolIds) : undefined);
-}
-
 export type KeptPoolSpan = PoolObservation & { latestBalanceAt: number | null };
 
 /** Each pool's observed span, read one way ("any": every test), ordered by pool. */
@@ -68,8 +60,7 @@ export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadA
         latestBalanceAt: keptPoolSpans.latestBalanceAt,
       })
       .from(keptPoolSpans)
-      .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
-      .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId)))
+      .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, keptPoolSpans, poolIds)))
       .orderBy(asc(keptPoolSpans.poolId)),
   );
   return rows.map(([poolId, firstAt, lastAt, tests, latestBalanceAt]) => ({
@@ -113,8 +104,7 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
         recurrence: keptEpisodes.recurrence,
       })
       .from(keptEpisodes)
-      .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
-      .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId)))
+      .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, keptEpisodes, poolIds)))
       .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq)),
   );
   return rows.map(([poolId, metal, openedAtDate, openedByTestId, closedAtDate, closedByTestId, endAtDate, peak, testCount, chronic, recurrence]) => {
@@ -207,20 +197,18 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
       db()
         .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: keptPoolSpans.lastAt })
         .from(keptPoolSpans)
-        .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
-        .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, poolIds, keptPoolSpans.poolId))),
+        .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, keptPoolSpans, poolIds))),
     ),
     db()
       // Read as one metal alone, every episode is of that metal.
       .selectDistinct({ poolId: keptEpisodes.poolId, metal: keptEpisodes.readAs })
       .from(keptEpisodes)
-      .innerJoin(pools, eq(pools.id, keptEpisodes.poolId))
       .where(
         and(
           eq(keptEpisodes.versionId, versionId),
           inArray(keptEpisodes.readAs, [...METALS]),
           isNull(keptEpisodes.closedAt),
-          keptRowsOfTenant(tenant, poolIds, keptEpisodes.poolId),
+          keptRowsOfTenant(tenant, keptEpisodes, poolIds),
         ),
       ),
   ]);
