@@ -1,3 +1,4 @@
+import { sql, type AnyColumn, type SQL } from "drizzle-orm";
 import type { Metal, MetalReading } from "@analysis/metals/reading";
 
 /**
@@ -9,6 +10,15 @@ export function utcDate(value: unknown): Date | null {
   if (value instanceof Date) return value;
   const text = String(value);
   return new Date(text.includes("T") ? text : `${text.replace(" ", "T")}Z`);
+}
+
+/**
+ * A stored instant (DATETIME(3), UTC) read as epoch milliseconds, worked out
+ * by the server as a whole number: exact, and no Date made and parsed per row
+ * on reads of tens of thousands of rows. NULL stays NULL.
+ */
+export function epochMs(column: AnyColumn): SQL<number> {
+  return sql<number>`(TIMESTAMPDIFF(MICROSECOND, '1970-01-01', ${column}) DIV 1000)`;
 }
 
 /** A stored calendar date ("YYYY-MM-DD") as the epoch milliseconds of its UTC midnight. */

@@ -10,7 +10,7 @@ import { db } from "../../db/client";
 import { idList } from "../../db/id-list";
 import { rowValues } from "../../db/row-values";
 import { keptTreatmentCourses, type KeptCourseTreatment } from "../../db/schema";
-import { utcDate } from "../../db/values";
+import { epochMs, utcDate } from "../../db/values";
 import { PRODUCT_CATEGORY } from "../queries/metal-readings";
 import type { Tenant } from "../queries/tenant-and-window";
 import { keptRowsOfTenant } from "./tenant-rows";
@@ -347,9 +347,9 @@ export async function keptCourses(tenant: Tenant, versionId: number, metal?: Met
 
 const ARM_COURSE = {
   poolId: keptTreatmentCourses.poolId,
-  // Whole milliseconds from the epoch and to the clock's stop: DATETIME(3) differences, exact, and no Date per row.
-  startAt: sql<number>`TIMESTAMPDIFF(MICROSECOND, '1970-01-01', ${keptTreatmentCourses.startedAt}) DIV 1000`,
-  msToClear: sql<number>`TIMESTAMPDIFF(MICROSECOND, ${keptTreatmentCourses.startedAt}, ${keptTreatmentCourses.clockStoppedAt}) DIV 1000`,
+  startAt: epochMs(keptTreatmentCourses.startedAt),
+  // Whole milliseconds to the clock's stop, as the recomputation subtracts the two instants.
+  msToClear: sql<number>`(TIMESTAMPDIFF(MICROSECOND, ${keptTreatmentCourses.startedAt}, ${keptTreatmentCourses.clockStoppedAt}) DIV 1000)`,
   combination: keptTreatmentCourses.combination,
   categoryCombination: keptTreatmentCourses.categoryCombination,
   cost: keptTreatmentCourses.cost,

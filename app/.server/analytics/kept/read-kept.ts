@@ -6,6 +6,7 @@ import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/readi
 import { arrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { inIdList } from "../../db/id-list";
+import { epochMs } from "../../db/values";
 import { serverEnv } from "../../env";
 import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
@@ -50,14 +51,14 @@ export type KeptPoolSpan = PoolObservation & { latestBalanceAt: number | null };
 /** Each pool's observed span, read one way ("any": every test), ordered by pool. */
 export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadAs | "any", poolIds?: readonly number[]): Promise<KeptPoolSpan[]> {
   if (poolIds && poolIds.length === 0) return [];
-  const rows = await arrayRows<[poolId: number, firstAt: Date, lastAt: Date, tests: number, latestBalanceAt: Date | null]>(
+  const rows = await arrayRows<[poolId: number, firstAt: number, lastAt: number, tests: number, latestBalanceAt: number | null]>(
     db()
       .select({
         poolId: keptPoolSpans.poolId,
-        firstAt: keptPoolSpans.firstAt,
-        lastAt: keptPoolSpans.lastAt,
+        firstAt: epochMs(keptPoolSpans.firstAt),
+        lastAt: epochMs(keptPoolSpans.lastAt),
         tests: keptPoolSpans.tests,
-        latestBalanceAt: keptPoolSpans.latestBalanceAt,
+        latestBalanceAt: epochMs(keptPoolSpans.latestBalanceAt),
       })
       .from(keptPoolSpans)
       .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, keptPoolSpans, poolIds)))
@@ -65,10 +66,10 @@ export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadA
   );
   return rows.map(([poolId, firstAt, lastAt, tests, latestBalanceAt]) => ({
     poolId: String(poolId),
-    firstTestAt: firstAt.getTime(),
-    lastTestAt: lastAt.getTime(),
+    firstTestAt: Number(firstAt),
+    lastTestAt: Number(lastAt),
     tests,
-    latestBalanceAt: latestBalanceAt ? latestBalanceAt.getTime() : null,
+    latestBalanceAt: latestBalanceAt === null ? null : Number(latestBalanceAt),
   }));
 }
 
@@ -78,11 +79,11 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
   type EpisodeRow = [
     poolId: number,
     metal: Metal,
-    openedAt: Date,
+    openedAt: number,
     openedByTestId: number | string,
-    closedAt: Date | null,
+    closedAt: number | null,
     closedByTestId: number | string | null,
-    endAt: Date,
+    endAt: number,
     peak: number,
     testCount: number,
     chronic: number,
@@ -93,11 +94,11 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
       .select({
         poolId: keptEpisodes.poolId,
         metal: keptEpisodes.metal,
-        openedAt: keptEpisodes.openedAt,
+        openedAt: epochMs(keptEpisodes.openedAt),
         openedByTestId: keptEpisodes.openedByTestId,
-        closedAt: keptEpisodes.closedAt,
+        closedAt: epochMs(keptEpisodes.closedAt),
         closedByTestId: keptEpisodes.closedByTestId,
-        endAt: keptEpisodes.endAt,
+        endAt: epochMs(keptEpisodes.endAt),
         peak: keptEpisodes.peak,
         testCount: keptEpisodes.testCount,
         chronic: keptEpisodes.chronic,
@@ -107,10 +108,10 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
       .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, keptEpisodes, poolIds)))
       .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq)),
   );
-  return rows.map(([poolId, metal, openedAtDate, openedByTestId, closedAtDate, closedByTestId, endAtDate, peak, testCount, chronic, recurrence]) => {
-    const openedAt = openedAtDate.getTime();
-    const endAt = endAtDate.getTime();
-    const closedAt = closedAtDate ? closedAtDate.getTime() : null;
+  return rows.map(([poolId, metal, openedAtMs, openedByTestId, closedAtMs, closedByTestId, endAtMs, peak, testCount, chronic, recurrence]) => {
+    const openedAt = Number(openedAtMs);
+    const endAt = Number(endAtMs);
+    const closedAt = closedAtMs === null ? null : Number(closedAtMs);
     return {
       poolId: String(poolId),
       metal,
@@ -193,9 +194,9 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
   const states = new Map<string, MetalStateOfPool>();
   if (poolIds && poolIds.length === 0) return states;
   const [spans, open] = await Promise.all([
-    arrayRows<[poolId: number, readAs: Metal, lastAt: Date]>(
+    arrayRows<[poolId: number, readAs: Metal, lastAt: number]>(
       db()
-        .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: keptPoolSpans.lastAt })
+        .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: epochMs(keptPoolSpans.lastAt) })
         .from(keptPoolSpans)
         .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, keptPoolSpans, poolIds))),
     ),
@@ -217,7 +218,7 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
     const poolId = String(id);
     let state = states.get(poolId);
     if (!state) states.set(poolId, (state = notTested()));
-    state[metal] = { state: openSet.has(`${poolId}:${metal}`) ? "open" : "clear", lastTestedAt: lastAt.getTime() };
+    state[metal] = { state: openSet.has(`${poolId}:${metal}`) ? "open" : "clear", lastTestedAt: Number(lastAt) };
   }
   return states;
 }

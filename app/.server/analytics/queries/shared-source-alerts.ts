@@ -1,12 +1,11 @@
-import { and, count, eq, inArray, isNotNull } from "drizzle-orm";
+import { and, eq, inArray, isNotNull, sql } from "drizzle-orm";
 import { analyseMetalHistory, type Episode, type MetalTest } from "@analysis/metals/episodes";
 import { METALS, type Metal } from "@analysis/metals/reading";
 import { sharedSourceAlerts, type SharedSourceAlert } from "@analysis/metals/shared-source";
 import { isoInstant } from "@analysis/json-shapes";
 import { db } from "../../db/client";
-import { inIdList } from "../../db/id-list";
 import { fillSources, pools } from "../../db/schema";
-import type { Scope } from "../../scope";
+import { poolsInScope, type Scope } from "../../scope";
 import { keptEpisodeList, keptVersionFor, type AnswerSource } from "../kept/read-kept";
 import { metalReadings } from "./metal-readings";
 import { tenantCondition, type AnalyticsParams } from "./tenant-and-window";
@@ -88,7 +87,8 @@ async function sourceAlertsFrom(
   params: AnalyticsParams & { sourceIds?: readonly number[] },
   episodesOf: (poolIds: number[]) => Promise<Episode[]>,
 ): Promise<SharedSourceAlerts> {
-  const visibleSources = await db()
+  // The sources of the member's pools, as a subquery: the reads below need not wait for their ids.
+  const visibleSources = db()
     .selectDistinct({ id: pools.fillSourceId })
     .from(pools)
     .where(
@@ -98,38 +98,35 @@ async function sourceAlertsFrom(
         params.sourceIds ? inArray(pools.fillSourceId, [...params.sourceIds]) : undefined,
       ),
     );
-  const sourceIds = visibleSources.map((s) => s.id!).filter((id) => id !== null);
-  if (sourceIds.length === 0) return { alerts: [], sourcesWatched: 0 };
-
   const companyWide = { companyId: scope.companyId };
-  const [sourcePools, sources, active] = await Promise.all([
+  const [sourcePools, sources] = await Promise.all([
     db()
-      .select({ id: pools.id, fillSourceId: pools.fillSourceId })
+      .select({
+        id: pools.id,
+        fillSourceId: pools.fillSourceId,
+        active: pools.active,
+        street: pools.street,
+        // 1 when the member may see the pool (NULL, not 0, for a pool on no route).
+        inScope: sql<number | null>`${poolsInScope(scope)}`,
+      })
       .from(pools)
-      .where(and(tenantCondition(companyWide), inArray(pools.fillSourceId, sourceIds))),
+      .where(and(tenantCondition(companyWide), inArray(pools.fillSourceId, visibleSources))),
     db()
       .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
       .from(fillSources)
-      .where(and(eq(fillSources.companyId, scope.companyId), inArray(fillSources.id, sourceIds))),
-    db()
-      .select({ sourceId: pools.fillSourceId, n: count() })
-      .from(pools)
-      .where(and(tenantCondition(companyWide), eq(pools.active, true), inArray(pools.fillSourceId, sourceIds)))
-      .groupBy(pools.fillSourceId),
+      .where(and(eq(fillSources.companyId, scope.companyId), inArray(fillSources.id, visibleSources))),
   ]);
+  if (sources.length === 0) return { alerts: [], sourcesWatched: 0 };
+
   const episodes = await episodesOf(sourcePools.map((p) => p.id));
-  const activePools = new Map(active.map((a) => [String(a.sourceId), a.n]));
+  const activePools = new Map<string, number>();
+  for (const p of sourcePools) if (p.active) activePools.set(String(p.fillSourceId), (activePools.get(String(p.fillSourceId)) ?? 0) + 1);
   const onSources = sourcePools.map((p) => ({ poolId: String(p.id), fillSourceId: String(p.fillSourceId) }));
   const found = sharedSourceAlerts(episodes, onSources, { activePools });
-  // Streets only of the pools the alerts name, and only those in the member's scope.
-  const named = [...new Set(found.flatMap((a) => a.poolIds.map(Number)))];
-  const visible = named.length
-    ? await db().select({ id: pools.id, street: pools.street }).from(pools).where(and(tenantCondition({ scope }), inIdList(pools.id, named)))
-    : [];
-  // Lookups by id, built once: a large route book has hundreds of sources.
+  // Streets only of the pools in the member's scope: the alerts name no other.
+  const streets = new Map(sourcePools.filter((p) => Number(p.inScope) === 1).map((p) => [String(p.id), p.street]));
   const sourceById = new Map(sources.map((s) => [String(s.id), s]));
-  const streets = new Map(visible.map((p) => [String(p.id), p.street]));
-  return { alerts: found.map((a) => describe(a, sourceById, streets)).reverse(), sourcesWatched: sourceIds.length };
+  return { alerts: found.map((a) => describe(a, sourceById, streets)).reverse(), sourcesWatched: sources.length };
 }
 
 function describe(

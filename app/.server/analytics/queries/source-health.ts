@@ -1,5 +1,5 @@
 import { group } from "d3-array";
-import { and, asc, count, eq, inArray, sql } from "drizzle-orm";
+import { and, asc, count, eq, inArray } from "drizzle-orm";
 import { notTested, poolMetalStates, type MetalStateOfPool, type PoolMetalState } from "@analysis/metals/metal-state";
 import { METALS, type Metal, type MetalReading } from "@analysis/metals/reading";
 import { isoInstant } from "@analysis/json-shapes";
@@ -63,29 +63,32 @@ async function alertsAndStates(scope: Scope, params: AnalyticsParams, versionId:
  * tests and its shared-source alerts.
  */
 export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promise<SourceHealthReport> {
-  const scopedPools = await db()
-    .select({ id: pools.id, street: pools.street, fillSourceId: pools.fillSourceId, routeId: pools.routeId })
-    .from(pools)
-    .where(and(tenantCondition({ scope }), eq(pools.active, true)))
-    .orderBy(asc(pools.street));
+  const activeInScope = and(tenantCondition({ scope }), eq(pools.active, true));
   const technician = scope.routeIds !== null;
-  const ownSourceIds = [...new Set(scopedPools.map((p) => p.fillSourceId).filter((id): id is number => id !== null))];
-  const sources = await db()
-    .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
-    .from(fillSources)
-    .where(
-      and(
-        eq(fillSources.companyId, scope.companyId),
-        technician ? (ownSourceIds.length ? inArray(fillSources.id, ownSourceIds) : sql`false`) : undefined,
-      ),
-    )
-    .orderBy(asc(fillSources.name));
+  const [scopedPools, sources, versionId, routeNames] = await Promise.all([
+    db()
+      .select({ id: pools.id, street: pools.street, fillSourceId: pools.fillSourceId, routeId: pools.routeId })
+      .from(pools)
+      .where(activeInScope)
+      .orderBy(asc(pools.street)),
+    db()
+      .select({ id: fillSources.id, name: fillSources.name, kind: fillSources.kind })
+      .from(fillSources)
+      .where(
+        and(
+          eq(fillSources.companyId, scope.companyId),
+          technician ? inArray(fillSources.id, db().selectDistinct({ id: pools.fillSourceId }).from(pools).where(activeInScope)) : undefined,
+        ),
+      )
+      .orderBy(asc(fillSources.name)),
+    keptVersionFor(scope.companyId, params),
+    db().select({ id: routes.id, name: routes.name }).from(routes).where(eq(routes.companyId, scope.companyId)),
+  ]);
   const sourceIds = sources.map((s) => s.id);
-  const versionId = await keptVersionFor(scope.companyId, params);
   if (sourceIds.length === 0) return { sources: [], flaggedPoolsInScope: 0, source: versionId === null ? "recomputed" : "kept" };
 
   const onSources = scopedPools.filter((p) => p.fillSourceId !== null);
-  const [active, tests, found, routeNames] = await Promise.all([
+  const [active, tests, found] = await Promise.all([
     db()
       .select({ sourceId: pools.fillSourceId, n: count() })
       .from(pools)
@@ -93,7 +96,6 @@ export async function sourceHealth(scope: Scope, params: AnalyticsParams): Promi
       .groupBy(pools.fillSourceId),
     sourceTestRows(scope.companyId, sourceIds),
     alertsAndStates(scope, params, versionId, onSources.map((p) => p.id)),
-    db().select({ id: routes.id, name: routes.name }).from(routes).where(eq(routes.companyId, scope.companyId)),
   ]);
   const routeName = new Map(routeNames.map((r) => [r.id, r.name]));
   const activeBySource = new Map(active.map((a) => [a.sourceId, a.n]));
