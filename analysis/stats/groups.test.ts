@@ -9,6 +9,7 @@ import {
   groupComparison,
   groupObservations,
   riskyGroups,
+  riskyGroupFinder,
   riskyGroupsByMetal,
   type GroupObservation,
   type GroupingKey,
@@ -228,9 +229,16 @@ describe("risky groups worked out cell by cell without observation objects", () 
         const tests = observed.flatMap((o) => o.instants.map((takenAt) => ({ poolId: o.poolId, takenAt })));
         const metals = [null, "copper", "iron"] as const;
         const fast = riskyGroupsByMetal(pools, observed, episodes, w.key, metals, { minPools: w.minPools });
+        // One finder asked for every dimension in turn, as the summary asks it: fixed dimensions share their cells.
+        const finder = riskyGroupFinder(pools, episodes, metals, { minPools: w.minPools });
+        const everyKey = (["fill-source", "heater-age", "route", "exchanger-metal", "surface"] as const).map((key) => [key, finder(key, observed)] as const);
         for (const metal of metals) {
           const observations = groupObservations(pools, tests, episodes, w.key, { metal: metal ?? undefined, rules: { minPools: w.minPools } });
           expect(fast.get(metal)).toEqual(riskyGroups(observations, { minPools: w.minPools }));
+          for (const [key, found] of everyKey) {
+            const ofKey = groupObservations(pools, tests, episodes, key, { metal: metal ?? undefined, rules: { minPools: w.minPools } });
+            expect(found.get(metal)).toEqual(riskyGroups(ofKey, { minPools: w.minPools }));
+          }
         }
       }),
       { numRuns: 1000 },

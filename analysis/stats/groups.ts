@@ -277,6 +277,78 @@ export function riskyGroupFinder<M extends Metal | null>(
   // Bit m set: the episode counts as an opening for metals[m].
   const episodeMetals = Int32Array.from(episodes, (e) => metals.reduce((bits, metal, m) => (metal === null || metal === e.metal ? bits | (1 << m) : bits), 0));
 
+  const timesOf = (instants: readonly number[]) => {
+    for (let i = 1; i < instants.length; i++) if (instants[i]! < instants[i - 1]!) return [...instants].sort((x, y) => x - y);
+    return instants;
+  };
+
+  /** Each metal's flagged groups from cells: a cell is one pool's time (years) and openings in one group. */
+  const judgeCells = (
+    groupNames: readonly string[],
+    cellGroup: ArrayLike<number>,
+    cellYears: ArrayLike<number>,
+    observedCells: number,
+    openedOf: (m: number) => ArrayLike<number>,
+  ) => {
+    const byMetal = new Map<M, GroupStatistics[]>();
+    metals.forEach((metal, m) => {
+      const opened = openedOf(m);
+      const groups: GroupTotals[] = groupNames.map((group) => ({ group, pools: 0, poolsWithEpisode: 0, years: 0, openings: 0 }));
+      const totals = { years: 0, openings: 0 };
+      for (let c = 0; c < cellGroup.length; c++) {
+        if (c >= observedCells && opened[c] === 0) continue;
+        const g = groups[cellGroup[c]!]!;
+        totals.years += cellYears[c]!;
+        totals.openings += opened[c]!;
+        g.pools++;
+        if (opened[c]! > 0) g.poolsWithEpisode++;
+        g.years += cellYears[c]!;
+        g.openings += opened[c]!;
+      }
+      const present = groups.filter((g) => g.pools > 0);
+      byMetal.set(metal, judgeGroups(present, totals, rules, true).filter((g) => g.risky));
+    });
+    return byMetal;
+  };
+
+  // A dimension fixed over time puts each pool in one cell whatever the moment, so the pools' years and
+  // openings are summed once (per list of instants) and each such dimension only puts the cells in groups.
+  let fixedCells: { observed: readonly ObservedInstants[]; pool: number[]; at: number[]; years: number[]; observedCells: number; opened: Int32Array[] } | undefined;
+  const cellsOfFixedDimension = (observed: readonly ObservedInstants[]) => {
+    if (fixedCells?.observed === observed) return fixedCells;
+    const cellOfPool = new Int32Array(pools.length).fill(-1);
+    const pool: number[] = [];
+    const at: number[] = [];
+    const years: number[] = [];
+    for (const { poolId, instants } of observed) {
+      const p = poolIndex.get(poolId);
+      if (p === undefined || instants.length === 0 || cellOfPool[p] !== -1) continue;
+      const times = timesOf(instants);
+      let spent = 0;
+      for (let i = 0; i + 1 < times.length; i++) spent += (times[i + 1]! - times[i]!) / MS_PER_YEAR;
+      cellOfPool[p] = pool.push(p) - 1;
+      at.push(times[0]!);
+      years.push(spent);
+    }
+    const observedCells = pool.length;
+    const episodeCell = new Int32Array(episodes.length);
+    episodes.forEach((episode, e) => {
+      const p = episodePool[e]!;
+      if (p >= 0 && cellOfPool[p] === -1) {
+        cellOfPool[p] = pool.push(p) - 1;
+        at.push(episode.openedAt);
+        years.push(0);
+      }
+      episodeCell[e] = p >= 0 ? cellOfPool[p]! : -1;
+    });
+    const opened = metals.map((_, m) => {
+      const counts = new Int32Array(pool.length);
+      for (let e = 0; e < episodes.length; e++) if (episodeCell[e]! >= 0 && episodeMetals[e]! & (1 << m)) counts[episodeCell[e]!]!++;
+      return counts;
+    });
+    return (fixedCells = { observed, pool, at, years, observedCells, opened });
+  };
+
   return (key, observed) => {
     const changes = CHANGES_OVER_TIME.has(key);
     const groupIndex = new Map<string, number>();
@@ -287,31 +359,26 @@ export function riskyGroupFinder<M extends Metal | null>(
       if (index === undefined) groupIndex.set(group, (index = groupNames.push(group) - 1));
       return index;
     };
+    if (!changes) {
+      const cells = cellsOfFixedDimension(observed);
+      const cellGroup = cells.pool.map((p, c) => groupAt(pools[p]!, cells.at[c]!));
+      return judgeCells(groupNames, cellGroup, cells.years, cells.observedCells, (m) => cells.opened[m]!);
+    }
     // A cell is one pool's time in one group. A pool's observed cells are consecutive: [first, end).
     const cellGroup: number[] = [];
     const cellYears: number[] = [];
     const firstCell = new Int32Array(pools.length).fill(-1);
     const endCell = new Int32Array(pools.length);
-    // A fixed dimension's group of each observed pool: its episodes open there, whatever the moment.
-    const fixedGroupOf = new Int32Array(pools.length).fill(-1);
     for (const { poolId, instants } of observed) {
       const p = poolIndex.get(poolId);
       if (p === undefined || instants.length === 0 || firstCell[p] !== -1) continue;
       const pool = pools[p]!;
-      let times = instants;
-      for (let i = 1; i < instants.length; i++) {
-        if (instants[i]! < instants[i - 1]!) {
-          times = [...instants].sort((x, y) => x - y);
-          break;
-        }
-      }
+      const times = timesOf(instants);
       const first = cellGroup.length;
       // Time up to the next instant goes to the group at the earlier one; a lone instant gives a cell without years.
       const steps = times.length === 1 ? 1 : times.length - 1;
-      const fixedGroup = changes ? -1 : groupAt(pool, times[0]!);
-      fixedGroupOf[p] = fixedGroup;
       for (let i = 0; i < steps; i++) {
-        const group = changes ? groupAt(pool, times[i]!) : fixedGroup;
+        const group = groupAt(pool, times[i]!);
         let cell = first;
         while (cell < cellGroup.length && cellGroup[cell] !== group) cell++;
         if (cell === cellGroup.length) {
@@ -330,7 +397,7 @@ export function riskyGroupFinder<M extends Metal | null>(
     episodes.forEach((episode, e) => {
       const p = episodePool[e]!;
       if (p < 0) return;
-      const group = fixedGroupOf[p]! >= 0 ? fixedGroupOf[p]! : groupAt(pools[p]!, episode.openedAt);
+      const group = groupAt(pools[p]!, episode.openedAt);
       let cell = -1;
       for (let c = firstCell[p]!; c >= 0 && c < endCell[p]! && cell < 0; c++) if (cellGroup[c] === group) cell = c;
       if (cell < 0) {
@@ -343,26 +410,11 @@ export function riskyGroupFinder<M extends Metal | null>(
       }
       episodeCell[e] = cell;
     });
-    const byMetal = new Map<M, GroupStatistics[]>();
-    metals.forEach((metal, m) => {
+    return judgeCells(groupNames, cellGroup, cellYears, observedCells, (m) => {
       const opened = new Int32Array(cellGroup.length);
       for (let e = 0; e < episodes.length; e++) if (episodeCell[e]! >= 0 && episodeMetals[e]! & (1 << m)) opened[episodeCell[e]!]!++;
-      const groups: GroupTotals[] = groupNames.map((group) => ({ group, pools: 0, poolsWithEpisode: 0, years: 0, openings: 0 }));
-      const totals = { years: 0, openings: 0 };
-      for (let c = 0; c < cellGroup.length; c++) {
-        if (c >= observedCells && opened[c] === 0) continue;
-        const g = groups[cellGroup[c]!]!;
-        totals.years += cellYears[c]!;
-        totals.openings += opened[c]!;
-        g.pools++;
-        if (opened[c]! > 0) g.poolsWithEpisode++;
-        g.years += cellYears[c]!;
-        g.openings += opened[c]!;
-      }
-      const present = groups.filter((g) => g.pools > 0);
-      byMetal.set(metal, judgeGroups(present, totals, rules, true).filter((g) => g.risky));
+      return opened;
     });
-    return byMetal;
   };
 }
 

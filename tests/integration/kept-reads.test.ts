@@ -6,6 +6,7 @@ import { keptEpisodeList, keptMetalStates, keptSpans, keptVersionAsOf, keptVersi
 import { verifyKeptResults } from "~/.server/analytics/kept/verify";
 import { poolEvidence, poolMetalPanel } from "~/.server/analytics/queries/pool-evidence";
 import { poolSeries } from "~/.server/analytics/queries/pool-series";
+import { routeBookSummary } from "~/.server/analytics/queries/route-book-summary";
 import { sharedSourceAlertList } from "~/.server/analytics/queries/shared-source-alerts";
 import { sourceHealth } from "~/.server/analytics/queries/source-health";
 import { ALL_TIME } from "~/.server/analytics/queries/tenant-and-window";
@@ -316,5 +317,15 @@ describe("kept rows read for a technician", () => {
 
     const states = await keptMetalStates({ scope: technician }, versionId);
     expect([...states.keys()].sort()).toEqual([...theirs].sort());
+  });
+
+  it("give their summary, balance tests included, as worked out from their pools' tests", async () => {
+    // The route of the test above: pools 0 and 2.
+    const [pool] = await db().select({ routeId: pools.routeId }).from(pools).where(eq(pools.id, poolIds[0]!));
+    const technician: Scope = { ...scope, role: "technician", routeIds: [pool!.routeId!] };
+    const summary = await routeBookSummary(technician, params);
+    expect(summary.source).toBe("kept");
+    expect(summary.counts.poolsTested).toBe(2);
+    expect(withoutSource(summary)).toEqual(withoutSource(await recomputed(() => routeBookSummary(technician, params))));
   });
 });

@@ -6,6 +6,7 @@ import { utcDate } from "../../db/values";
 import { keptPoolSpans, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
 import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
+import { keptRowsOfTenant } from "../kept/tenant-rows";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
@@ -76,23 +77,22 @@ async function poolCounts(scope: Scope) {
   return { activePools: row?.active ?? 0, routes: row?.routes ?? 0, fillSources: row?.sources ?? 0 };
 }
 
-/**
- * The balance inputs of each pool's latest complete test, read by the
- * (pool, time) key the grouped pass found: one indexed lookup per pool.
- */
-/** The same tests found through the kept spans: one index lookup per pool on (company, pool, time). */
+/** The balance inputs of each pool's latest complete test, found through the kept spans: one index lookup per pool on (company, pool, time). */
 function keptBalanceTests(scope: Scope, versionId: number) {
   return db()
     .select(BALANCE_COLUMNS)
     .from(keptPoolSpans)
-    .innerJoin(pools, eq(pools.id, keptPoolSpans.poolId))
     .innerJoin(
       waterTests,
       and(eq(waterTests.companyId, keptPoolSpans.companyId), eq(waterTests.poolId, keptPoolSpans.poolId), eq(waterTests.sampledAt, keptPoolSpans.latestBalanceAt)),
     )
-    .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, "any"), tenantCondition({ scope })));
+    .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, "any"), keptRowsOfTenant({ scope }, keptPoolSpans)));
 }
 
+/**
+ * The balance inputs of each pool's latest complete test, read by the
+ * (pool, time) key the grouped pass found: one indexed lookup per pool.
+ */
 async function balanceTestsAt(scope: Scope, latest: ReadonlyArray<{ poolId: number; at: Date }>) {
   if (latest.length === 0) return [];
   return db()
@@ -162,4 +162,3 @@ export async function routeBookSummary(
     },
   };
 }
-
