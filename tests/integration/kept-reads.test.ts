@@ -15,7 +15,7 @@ import { keepPoolsInStep, lockPoolsForKeeping } from "~/.server/analytics/kept/k
 import { alertEvents, companies, importBatches, mailOutbox, pools, products, treatments } from "~/.server/db/schema";
 import { serverEnv } from "~/.server/env";
 import { undoBatch } from "~/.server/imports/commit";
-import { recordAlertsForPool } from "~/.server/mail/alerts";
+import { afterWaterTestsSaved, recordAlertsForPool } from "~/.server/mail/alerts";
 import { weeklyDigestFor } from "~/.server/mail/digest";
 import { logVisit } from "~/.server/visits/commands/save-visit";
 import type { Scope } from "~/.server/scope";
@@ -293,6 +293,26 @@ describe("mail from kept rows", () => {
     expect(keptEvents.map((e) => e.kind)).toContain("shared_source");
     expect(await eventsOf()).toEqual(keptEvents);
     expect(fromTests.map((r) => r.dedupeKey).sort()).toEqual(kept.map((r) => r.dedupeKey).sort());
+  });
+
+  it("the check after saving tests on several pools records the same events from kept rows as from the tests", async () => {
+    const eventsOf = async () =>
+      (await db().select().from(alertEvents).where(eq(alertEvents.companyId, scope.companyId)))
+        .map((e) => ({ kind: e.kind, dedupeKey: e.dedupeKey, poolId: e.poolId, details: e.details, occurredAt: e.occurredAt.getTime() }))
+        .sort((a, b) => a.dedupeKey.localeCompare(b.dedupeKey));
+    const forget = async () => {
+      await db().delete(mailOutbox).where(eq(mailOutbox.companyId, scope.companyId));
+      await db().delete(alertEvents).where(eq(alertEvents.companyId, scope.companyId));
+    };
+    await forget();
+    await afterWaterTestsSaved(scope.companyId, poolIds, { now: DIGEST_AT });
+    const keptEvents = await eventsOf();
+    await forget();
+    await recomputed(() => afterWaterTestsSaved(scope.companyId, poolIds, { now: DIGEST_AT }));
+    // Iron opened on pools 0, 2 and 3 within the look-back, and their shared well.
+    expect(new Set(keptEvents.filter((e) => e.kind === "episode_opened").map((e) => e.poolId))).toEqual(new Set([poolIds[0], poolIds[2], poolIds[3]]));
+    expect(keptEvents.map((e) => e.kind)).toContain("shared_source");
+    expect(await eventsOf()).toEqual(keptEvents);
   });
 });
 

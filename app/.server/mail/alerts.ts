@@ -1,13 +1,15 @@
 import { randomUUID } from "node:crypto";
 import { and, count, eq, inArray } from "drizzle-orm";
 import { z } from "zod";
-import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode } from "@analysis/metals/episodes";
-import type { Metal, MetalThresholds } from "@analysis/metals/reading";
+import { group } from "d3-array";
+import { analyseMetalHistory, DAY_MS, DEFAULT_EPISODE_RULES, type Episode, type MetalTest } from "@analysis/metals/episodes";
+import { METALS, type Metal, type MetalThresholds } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
 import { DEFAULT_SHARED_SOURCE_RULES, sharedSourceAlerts } from "@analysis/metals/shared-source";
 import { companySettings } from "../settings/queries/company-settings";
 import { db } from "../db/client";
-import { alertEvents, type ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user } from "../db/schema";
+import { inIdList } from "../db/id-list";
+import { alertEvents, type ALERT_KINDS, fillSources, mailPreferences, memberships, pools, user, waterTests } from "../db/schema";
 import { serverEnv } from "../env";
 import { claimJob, type JobClaim, runClaimed } from "../jobs/claims";
 import { keptEpisodeList, keptVersionAsOf } from "../analytics/kept/read-kept";
@@ -141,20 +143,51 @@ function poolEvents(company: Company, label: PoolLabel, episodes: readonly Episo
   return events;
 }
 
-async function poolAlerts(company: Company, poolId: number, now: number): Promise<AlertEvent[]> {
-  const labels = await poolLabels({ companyId: company.id }, { poolIds: [poolId] });
-  const label = labels.get(poolId);
-  if (!label) return [];
-  const tests = await waterTestReadings({ companyId: company.id }, { poolIds: [poolId], window: { from: null, to: new Date(now) } });
-  const history = analyseMetalHistory(tests, { thresholds: company.thresholds });
+/**
+ * The episodes (every metal) of some pools up to `now`, and the reading that
+ * opened each one since `since`: from their kept rows when those answer as
+ * of `now`, else worked out from the pools' tests.
+ */
+async function poolEpisodesAndOpenings(company: Company, poolIds: readonly number[], now: number, since: number) {
+  const tenant = { companyId: company.id };
+  const versionId = await keptVersionAsOf(company.id, company.thresholds, new Date(now), poolIds);
+  if (versionId !== null) {
+    const episodes = await keptEpisodeList(tenant, versionId, "all", poolIds);
+    const openedBy = [...new Set(episodes.filter((e) => e.openedAt >= since).map((e) => Number(e.openedByTestId)))];
+    const opening = openedBy.length ? await waterTestReadings(tenant, { poolIds, where: inIdList(waterTests.id, openedBy) }) : [];
+    return { episodes, valueAt: readingValues(opening) };
+  }
+  const tests = await waterTestReadings(tenant, { poolIds, window: { from: null, to: new Date(now) } });
+  return { episodes: analyseMetalHistory(tests, { thresholds: company.thresholds }).episodes, valueAt: readingValues(tests) };
+}
+
+/** Each test's metal readings by "test id:metal". */
+function readingValues(tests: readonly MetalTest[]): Map<string, number> {
   const valueAt = new Map<string, number>();
   for (const t of tests) {
-    for (const metal of ["copper", "iron", "manganese"] as const) {
+    for (const metal of METALS) {
       const r = t[metal];
       if (r) valueAt.set(`${t.id}:${metal}`, r.value);
     }
   }
-  return poolEvents(company, label, history.episodes, valueAt, now - ALERT_LOOKBACK_DAYS * DAY_MS);
+  return valueAt;
+}
+
+/** How many pools' episodes an alert check holds at once: an import can touch thousands. */
+const POOLS_PER_CHECK = 250;
+
+async function poolAlerts(company: Company, poolIds: readonly number[], now: number): Promise<AlertEvent[]> {
+  const labels = await poolLabels({ companyId: company.id }, { poolIds });
+  const since = now - ALERT_LOOKBACK_DAYS * DAY_MS;
+  const events: AlertEvent[] = [];
+  for (let from = 0; from < poolIds.length; from += POOLS_PER_CHECK) {
+    const slice = poolIds.slice(from, from + POOLS_PER_CHECK).filter((id) => labels.has(id));
+    if (slice.length === 0) continue;
+    const { episodes, valueAt } = await poolEpisodesAndOpenings(company, slice, now, since);
+    const byPool = group(episodes, (e) => Number(e.poolId));
+    for (const poolId of slice) events.push(...poolEvents(company, labels.get(poolId)!, byPool.get(poolId) ?? [], valueAt, since));
+  }
+  return events;
 }
 
 /**
@@ -239,8 +272,7 @@ async function recordAlertsForPools(companyId: number, poolIds: readonly number[
   if (!company) return [];
   const now = (options.now ?? new Date()).getTime();
   const unique = [...new Set(poolIds)];
-  const events: AlertEvent[] = [];
-  for (const poolId of unique) events.push(...(await poolAlerts(company, poolId, now)));
+  const events = await poolAlerts(company, unique, now);
   const labels = await poolLabels({ companyId }, { poolIds: unique });
   const sources = new Set([...labels.values()].map((p) => p.fillSourceId).filter((id): id is number => id !== null));
   for (const sourceId of sources) events.push(...(await sourceAlerts(company, sourceId, now)));
