@@ -277,7 +277,7 @@ describe("treatment outcomes from kept courses", () => {
           .values({ companyId: owner.companyId, poolId, productId: productIds["Binder A"]!, appliedAt: at(401), amount: 10, unit: "fl oz", cost: 5 });
         await tx.insert(waterTests).values({ companyId: owner.companyId, poolId, sampledAt: at(410), copper: 0.05 });
       }
-      await keepPoolsInStep(tx, owner.companyId, poolIds, undefined, 1);
+      await keepPoolsInStep(tx, owner.companyId, poolIds, { poolsPerSlice: 1 });
     });
     const [[row]] = (await db().execute(
       `SELECT m.n FROM kept_month_values m JOIN kept_versions v ON v.id = m.version_id

@@ -215,7 +215,8 @@ async function commitClaimed(
           await hooks.afterChunk?.({ table: "treatments", stored, connectionId });
         }
 
-        await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], connection);
+        // The pools were locked first thing in this transaction, before any consistent read.
+        await keepPoolsInStep(keeper, scope.companyId, [...touchedPools, ...newPools.values()], { reader: connection, poolsLockedBeforeFirstRead: true });
 
         // Fenced by the claim token: a commit taken over after going quiet rolls back here.
         const finish = finishClaimSql(claim);

@@ -404,6 +404,21 @@ export async function replaceKeptRows(
  */
 export const POOLS_PER_SLICE = 200;
 
+export type KeepOptions = {
+  /** The connection the pools' tests are read on (as arrays); the writer by default. */
+  reader?: RawReader;
+  /**
+   * The caller locked the pools (lockPoolsForKeeping) before its transaction's
+   * first consistent read. Every writer of a pool's tests holds that lock until
+   * it commits, so the transaction's snapshot, taken after the lock, already
+   * holds every committed test of the pools and a plain read is enough. An
+   * import reads back hundreds of thousands of its own rows; locking them
+   * again nearly doubled that read.
+   */
+  poolsLockedBeforeFirstRead?: boolean;
+  poolsPerSlice?: number;
+};
+
 /** A slice of pools with their tests and, per live version, their kept rows as they stand. */
 type SliceRead = { poolIds: number[]; tests: KeptInputTest[]; before: KeptBefore[] };
 
@@ -413,8 +428,9 @@ async function readSlice(
   companyId: number,
   versions: readonly LiveVersion[],
   poolIds: number[],
+  lockingRead: boolean,
 ): Promise<SliceRead> {
-  const tests = await poolTests(reader, companyId, poolIds);
+  const tests = await poolTests(reader, companyId, poolIds, lockingRead);
   const before: KeptBefore[] = [];
   for (const version of versions) before.push(await keptBefore(writer, version.id, poolIds));
   return { poolIds, tests, before };
@@ -432,13 +448,9 @@ async function readSlice(
  * The connection runs one statement at a time, so the next slice is read
  * before this one's writes are sent; the slices hold different pools.
  */
-export async function keepPoolsInStep(
-  writer: Writer,
-  companyId: number,
-  poolIds: readonly number[],
-  reader?: RawReader,
-  poolsPerSlice = POOLS_PER_SLICE,
-): Promise<void> {
+export async function keepPoolsInStep(writer: Writer, companyId: number, poolIds: readonly number[], options: KeepOptions = {}): Promise<void> {
+  const { reader, poolsPerSlice = POOLS_PER_SLICE } = options;
+  const lockingRead = !options.poolsLockedBeforeFirstRead;
   const ids = [...new Set(poolIds)].sort((a, b) => a - b);
   if (ids.length === 0) return;
   const versions = await liveVersions(writer, companyId);
@@ -446,14 +458,14 @@ export async function keepPoolsInStep(
   const slices: number[][] = [];
   for (let from = 0; from < ids.length; from += poolsPerSlice) slices.push(ids.slice(from, from + poolsPerSlice));
   const monthValues = versions.map((): MonthValueChange[][] => []);
-  let next = await readSlice(writer, reader ?? writer, companyId, versions, slices[0]!);
+  let next = await readSlice(writer, reader ?? writer, companyId, versions, slices[0]!, lockingRead);
   let writing: Promise<void> | null = null;
   for (let s = 0; s < slices.length; s++) {
     const slice = next;
     const changes: KeptChanges[] = [];
     for (const [v, version] of versions.entries()) changes.push(await keptChanges(version, slice.tests, slice.before[v]!, writing !== null));
     if (writing) await writing;
-    if (s + 1 < slices.length) next = await readSlice(writer, reader ?? writer, companyId, versions, slices[s + 1]!);
+    if (s + 1 < slices.length) next = await readSlice(writer, reader ?? writer, companyId, versions, slices[s + 1]!, lockingRead);
     changes.forEach((c, v) => monthValues[v]!.push(c.monthValues));
     writing = (async () => {
       for (const c of changes) await writeKeptChanges(writer, companyId, slice.poolIds, slice.tests, c);
