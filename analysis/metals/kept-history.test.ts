@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { DAY_MS, analyseMetalHistory, type MetalTest } from "./episodes";
-import { READ_AS, historyFromKept, type KeptInputTest, keptRowsOf, metalsReadAs, testsReadAs } from "./kept-history";
+import { READ_AS, episodesReadAs, historyFromKept, type KeptInputTest, keptRowsOf, metalsReadAs, testsReadAs } from "./kept-history";
 import { DEFAULT_METAL_THRESHOLDS, type MetalReading } from "./reading";
 
 const T0 = Date.UTC(2023, 0, 1);
@@ -31,13 +31,31 @@ describe("kept rows rebuild the metal history", () => {
         for (const readAs of READ_AS) {
           const metals = metalsReadAs(readAs);
           const expected = analyseMetalHistory(testsReadAs(tests, readAs), { thresholds: DEFAULT_METAL_THRESHOLDS, metals });
-          const episodes = kept.episodes.filter((e) => e.readAs === readAs).map(({ readAs: _r, seq: _s, ...e }) => e);
+          const episodes = episodesReadAs(kept.episodes, readAs);
           const spans = kept.spans.filter((s) => s.readAs === readAs).map(({ readAs: _r, ...s }) => s);
           expect(historyFromKept(episodes, spans, metals)).toEqual({ ...expected, suspicions: [] });
         }
       }),
       { numRuns: 300 },
     );
+  });
+
+  it("keeps a metal's own rows only where reading it alone finds other episodes than the all-metals reading", () => {
+    // Pool 1 reads copper and iron at every test: copper alone finds the same episode, kept once.
+    // Pool 2 reads iron at one test in two: the iron episode read alone counts fewer tests, so it is kept apart.
+    const tests: KeptInputTest[] = [
+      { id: "1", poolId: "1", takenAt: T0, copper: { value: 0.6, belowDetection: false }, iron: { value: 0.05, belowDetection: false } },
+      { id: "2", poolId: "1", takenAt: T0 + DAY_MS, copper: { value: 0.05, belowDetection: false }, iron: { value: 0.05, belowDetection: false } },
+      { id: "3", poolId: "2", takenAt: T0, copper: { value: 0.05, belowDetection: false }, iron: { value: 0.5, belowDetection: false } },
+      { id: "4", poolId: "2", takenAt: T0 + DAY_MS, copper: { value: 0.05, belowDetection: false } },
+      { id: "5", poolId: "2", takenAt: T0 + 2 * DAY_MS, copper: { value: 0.05, belowDetection: false }, iron: { value: 0.05, belowDetection: false } },
+    ];
+    const kept = keptRowsOf(tests, DEFAULT_METAL_THRESHOLDS).episodes.map((e) => [e.readAs, e.poolId, e.metal, e.alone, e.testCount]);
+    expect(kept).toEqual([
+      ["all", "1", "copper", true, 2],
+      ["all", "2", "iron", false, 3],
+      ["iron", "2", "iron", false, 2],
+    ]);
   });
 
   it("keeps each pool's span of every test, metal or not", () => {

@@ -17,7 +17,14 @@ import { METALS, type Metal, type MetalThresholds } from "./reading";
 export type ReadAs = "all" | Metal;
 export const READ_AS: readonly ReadAs[] = ["all", ...METALS];
 
-export type KeptEpisode = Episode & { readAs: ReadAs; seq: number };
+/**
+ * A kept episode. Read one metal alone, a pool's episodes of that metal are
+ * most often exactly those of the all-metals reading (when every test reads
+ * every metal), so they are kept once: on the "all" rows, marked `alone`, and
+ * that metal's own reading keeps no rows for the pool. It halves the rows a
+ * large import writes.
+ */
+export type KeptEpisode = Episode & { readAs: ReadAs; seq: number; alone: boolean };
 export type KeptSpan = PoolObservation & { readAs: ReadAs | "any"; latestBalanceAt?: number | null };
 
 /** A test as kept results read it: its metals and pH, and whether it carries the saturation index's four inputs. */
@@ -56,18 +63,62 @@ export function keptRowsOf(tests: readonly KeptInputTest[], thresholds: MetalThr
     current.tests++;
     if (t.balanceComplete) current.latestBalanceAt = t.takenAt;
   }
+  // A pool's all-metals episodes of each metal, to compare with the metal read alone.
+  const ofPoolAndMetal = new Map<string, KeptEpisode[]>();
   for (const readAs of READ_AS) {
     const history = analyseMetalHistory(testsReadAs(tests, readAs), { thresholds, metals: metalsReadAs(readAs) });
-    let seq = 0;
-    let pool: string | null = null;
-    for (const e of history.episodes) {
-      seq = e.poolId === pool ? seq + 1 : 0;
-      pool = e.poolId;
-      episodes.push({ ...e, readAs, seq });
+    const read = numbered(history.episodes, readAs);
+    if (readAs === "all") {
+      for (const e of read) {
+        episodes.push(e);
+        const key = `${e.poolId}/${e.metal}`;
+        const list = ofPoolAndMetal.get(key);
+        if (list) list.push(e);
+        else ofPoolAndMetal.set(key, [e]);
+      }
+    } else {
+      for (let from = 0; from < read.length; ) {
+        let to = from + 1;
+        while (to < read.length && read[to]!.poolId === read[from]!.poolId) to++;
+        const alone = read.slice(from, to);
+        const together = ofPoolAndMetal.get(`${alone[0]!.poolId}/${readAs}`) ?? [];
+        if (sameEpisodes(alone, together)) for (const e of together) e.alone = true;
+        else for (const e of alone) episodes.push(e);
+        from = to;
+      }
     }
     for (const p of history.pools) spans.push({ ...p, readAs });
   }
   return { episodes, spans };
+}
+
+/** Episodes of one reading numbered pool by pool, in the order the analysis found them. */
+function numbered(found: readonly Episode[], readAs: ReadAs): KeptEpisode[] {
+  let seq = 0;
+  let pool: string | null = null;
+  return found.map((e) => {
+    seq = e.poolId === pool ? seq + 1 : 0;
+    pool = e.poolId;
+    return { ...e, readAs, seq, alone: false };
+  });
+}
+
+const EPISODE_FACTS = ["metal", "openedAt", "openedByTestId", "closedAt", "closedByTestId", "censored", "endAt", "durationDays", "peak", "testCount", "chronic", "recurrence"] as const;
+
+function sameEpisodes(a: readonly Episode[], b: readonly Episode[]): boolean {
+  return a.length === b.length && a.every((e, i) => EPISODE_FACTS.every((fact) => e[fact] === b[i]![fact]));
+}
+
+/**
+ * One reading's episodes from kept rows, as the kept read gives them: a
+ * metal's own rows, and the all-metals rows of that metal marked `alone`;
+ * ordered by pool (as a number) and seq.
+ */
+export function episodesReadAs(kept: readonly KeptEpisode[], readAs: ReadAs): Episode[] {
+  return kept
+    .filter((e) => e.readAs === readAs || (readAs !== "all" && e.readAs === "all" && e.alone && e.metal === readAs))
+    .sort((a, b) => Number(a.poolId) - Number(b.poolId) || a.seq - b.seq)
+    .map(({ readAs: _readAs, seq: _seq, alone: _alone, ...e }) => e);
 }
 
 /**

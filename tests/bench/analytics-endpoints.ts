@@ -51,12 +51,14 @@ const METAL_ROWS = `SELECT t.id, t.pool_id, t.sampled_at, t.copper, t.copper_bel
 const SPANS = `SELECT t.pool_id, MIN(t.sampled_at), MAX(t.sampled_at), COUNT(*) FROM water_tests t JOIN pools p ON p.id = t.pool_id
   WHERE p.company_id = ? AND t.company_id = ? GROUP BY t.pool_id`;
 
-/** The kept rows an answer from the kept results reads. */
+/** The kept rows an answer from the kept results reads (a metal read alone: its own rows and the all-metals rows that stand for them). */
 const KEPT_ROWS = (readAs: string): Array<[string, unknown[]]> => [
-  [`SELECT e.* FROM kept_episodes e JOIN pools p ON p.id = e.pool_id JOIN kept_versions v ON v.id = e.version_id
-    WHERE v.company_id = ? AND v.state = 'ready' AND e.read_as = '${readAs}' AND p.company_id = ? ORDER BY e.pool_id, e.seq`, [c, c]],
-  [`SELECT s.* FROM kept_pool_spans s JOIN pools p ON p.id = s.pool_id JOIN kept_versions v ON v.id = s.version_id
-    WHERE v.company_id = ? AND v.state = 'ready' AND s.read_as IN ('${readAs}', 'any') AND p.company_id = ? ORDER BY s.pool_id`, [c, c]],
+  [`SELECT e.* FROM kept_episodes e JOIN kept_versions v ON v.id = e.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND e.company_id = ?
+      AND ${readAs === "all" ? "e.read_as = 'all'" : `(e.read_as = '${readAs}' OR (e.read_as = 'all' AND e.alone AND e.metal = '${readAs}'))`}
+    ORDER BY e.pool_id, e.seq`, [c, c]],
+  [`SELECT s.* FROM kept_pool_spans s JOIN kept_versions v ON v.id = s.version_id
+    WHERE v.company_id = ? AND v.state = 'ready' AND s.read_as IN ('${readAs}', 'any') AND s.company_id = ? ORDER BY s.pool_id`, [c, c]],
 ];
 
 /** The kept rows the monthly trend reads: the company's month histogram and its pool-months above the level. */

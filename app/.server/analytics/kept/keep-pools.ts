@@ -130,18 +130,19 @@ async function insertEpisodes(writer: Writer, versionId: number, companyId: numb
         e.testCount,
         e.chronic,
         e.recurrence,
+        e.alone,
       ]);
     await writer.execute(sql`INSERT INTO kept_episodes (version_id, company_id, pool_id, read_as, seq, metal, opened_at, opened_by_test_id,
-      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence) VALUES ${rowValues(values)}
+      closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence, alone) VALUES ${rowValues(values)}
       ON DUPLICATE KEY UPDATE metal = VALUES(metal), opened_at = VALUES(opened_at), opened_by_test_id = VALUES(opened_by_test_id),
         closed_at = VALUES(closed_at), closed_by_test_id = VALUES(closed_by_test_id), end_at = VALUES(end_at), peak = VALUES(peak),
-        test_count = VALUES(test_count), chronic = VALUES(chronic), recurrence = VALUES(recurrence)`);
+        test_count = VALUES(test_count), chronic = VALUES(chronic), recurrence = VALUES(recurrence), alone = VALUES(alone)`);
   }
 }
 
 const episodeKey = (poolId: unknown, readAs: unknown, seq: unknown) => `${String(poolId)}/${String(readAs)}/${String(seq)}`;
 const episodeLine = (e: KeptEpisode) =>
-  [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join("|");
+  [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence, e.alone].join("|");
 const instantOf = (value: unknown) => (value === null ? null : utcDate(value)!.getTime());
 
 type EpisodeKey = [readAs: KeptEpisode["readAs"], poolId: number, seq: number];
@@ -154,7 +155,7 @@ const ALL_READINGS = sql.raw(`'all', 'copper', 'iron', 'manganese'`);
 async function episodesKept(writer: Writer, versionId: number, ids: SQL): Promise<KeptEpisodeLines> {
   const rows = await rowsOf(
     writer,
-    sql`SELECT pool_id, read_as, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
+    sql`SELECT pool_id, read_as, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence, alone
       FROM kept_episodes WHERE version_id = ${versionId} AND read_as IN (${ALL_READINGS}) AND pool_id IN (${ids}) FOR UPDATE`,
   );
   const kept: KeptEpisodeLines = new Map();
@@ -170,6 +171,7 @@ async function episodesKept(writer: Writer, versionId: number, ids: SQL): Promis
       Number(r.test_count),
       Number(r.chronic) === 1,
       Number(r.recurrence) === 1,
+      Number(r.alone) === 1,
     ].join("|");
     const key: EpisodeKey = [r.read_as as KeptEpisode["readAs"], Number(r.pool_id), Number(r.seq)];
     kept.set(episodeKey(r.pool_id, r.read_as, r.seq), { key, line });

@@ -1,4 +1,4 @@
-import { and, asc, count, eq, gt, inArray, isNull } from "drizzle-orm";
+import { and, asc, count, eq, gt, inArray, isNull, or } from "drizzle-orm";
 import { DAY_MS, type Episode, type MetalHistory, type PoolObservation } from "@analysis/metals/episodes";
 import { historyFromKept, metalsReadAs, type ReadAs } from "@analysis/metals/kept-history";
 import { notTested, type MetalStateOfPool } from "@analysis/metals/metal-state";
@@ -73,6 +73,15 @@ export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadA
   }));
 }
 
+/**
+ * The kept episodes of one reading: a metal's own rows, and the all-metals
+ * rows of that metal that are also its episodes read alone (see KeptEpisode).
+ */
+function episodesOfReading(readAs: ReadAs) {
+  if (readAs === "all") return eq(keptEpisodes.readAs, "all");
+  return or(eq(keptEpisodes.readAs, readAs), and(eq(keptEpisodes.readAs, "all"), eq(keptEpisodes.alone, true), eq(keptEpisodes.metal, readAs)));
+}
+
 /** Kept episodes read one way, ordered by pool and in the order the analysis found them. */
 export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs: ReadAs, poolIds?: readonly number[]): Promise<Episode[]> {
   if (poolIds && poolIds.length === 0) return [];
@@ -105,7 +114,7 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
         recurrence: keptEpisodes.recurrence,
       })
       .from(keptEpisodes)
-      .where(and(eq(keptEpisodes.versionId, versionId), eq(keptEpisodes.readAs, readAs), keptRowsOfTenant(tenant, keptEpisodes, poolIds)))
+      .where(and(eq(keptEpisodes.versionId, versionId), episodesOfReading(readAs), keptRowsOfTenant(tenant, keptEpisodes, poolIds)))
       .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq)),
   );
   return rows.map(([poolId, metal, openedAtMs, openedByTestId, closedAtMs, closedByTestId, endAtMs, peak, testCount, chronic, recurrence]) => {
@@ -201,13 +210,13 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
         .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, keptPoolSpans, poolIds))),
     ),
     db()
-      // Read as one metal alone, every episode is of that metal.
-      .selectDistinct({ poolId: keptEpisodes.poolId, metal: keptEpisodes.readAs })
+      // Each metal read alone: its own rows, and the all-metals rows that stand for them.
+      .selectDistinct({ poolId: keptEpisodes.poolId, metal: keptEpisodes.metal })
       .from(keptEpisodes)
       .where(
         and(
           eq(keptEpisodes.versionId, versionId),
-          inArray(keptEpisodes.readAs, [...METALS]),
+          or(inArray(keptEpisodes.readAs, [...METALS]), and(eq(keptEpisodes.readAs, "all"), eq(keptEpisodes.alone, true))),
           isNull(keptEpisodes.closedAt),
           keptRowsOfTenant(tenant, keptEpisodes, poolIds),
         ),

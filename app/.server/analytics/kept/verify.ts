@@ -33,10 +33,10 @@ const ms = (value: unknown) => (value === null || value === undefined ? null : u
 function episodeLine(
   e: Pick<
     KeptEpisode,
-    "metal" | "openedAt" | "openedByTestId" | "closedAt" | "closedByTestId" | "endAt" | "peak" | "testCount" | "chronic" | "recurrence"
+    "metal" | "openedAt" | "openedByTestId" | "closedAt" | "closedByTestId" | "endAt" | "peak" | "testCount" | "chronic" | "recurrence" | "alone"
   >,
 ) {
-  return [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence].join(" ");
+  return [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence, e.alone].join(" ");
 }
 
 const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">) =>
@@ -99,7 +99,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   const expected = keptRowsOf(tests, levels);
 
   const [episodeRows] = (await db().execute(
-    sql`SELECT read_as, pool_id, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence
+    sql`SELECT read_as, pool_id, seq, metal, opened_at, opened_by_test_id, closed_at, closed_by_test_id, end_at, peak, test_count, chronic, recurrence, alone
       FROM kept_episodes WHERE version_id = ${version.id}`,
   )) as unknown as [Array<Record<string, unknown>>];
   const [spanRows] = (await db().execute(
@@ -120,6 +120,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
         testCount: Number(r.test_count),
         chronic: Number(r.chronic) === 1,
         recurrence: Number(r.recurrence) === 1,
+        alone: Number(r.alone) === 1,
       }),
     ]),
   );

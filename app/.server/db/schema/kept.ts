@@ -95,6 +95,8 @@ export const keptEpisodes = mysqlTable(
     testCount: int("test_count").notNull(),
     chronic: flag("chronic", false),
     recurrence: flag("recurrence", false),
+    /** On an "all" row: also the episode of its metal read alone, which then keeps no rows of its own for the pool. */
+    alone: flag("alone", false),
   },
   (t) => [primaryKey({ name: "kept_episodes_pk", columns: [t.versionId, t.readAs, t.poolId, t.seq] })],
 );
