@@ -77,7 +77,7 @@ export function keptRowsOf(tests: readonly KeptInputTest[], thresholds: MetalThr
         else ofPoolAndMetal.set(key, [e]);
       }
     } else {
-      for (let from = 0; from < read.length; ) {
+      for (let from = 0; from < read.length;) {
         let to = from + 1;
         while (to < read.length && read[to]!.poolId === read[from]!.poolId) to++;
         const alone = read.slice(from, to);
@@ -103,7 +103,20 @@ function numbered(found: readonly Episode[], readAs: ReadAs): KeptEpisode[] {
   });
 }
 
-const EPISODE_FACTS = ["metal", "openedAt", "openedByTestId", "closedAt", "closedByTestId", "censored", "endAt", "durationDays", "peak", "testCount", "chronic", "recurrence"] as const;
+const EPISODE_FACTS = [
+  "metal",
+  "openedAt",
+  "openedByTestId",
+  "closedAt",
+  "closedByTestId",
+  "censored",
+  "endAt",
+  "durationDays",
+  "peak",
+  "testCount",
+  "chronic",
+  "recurrence",
+] as const;
 
 function sameEpisodes(a: readonly Episode[], b: readonly Episode[]): boolean {
   return a.length === b.length && a.every((e, i) => EPISODE_FACTS.every((fact) => e[fact] === b[i]![fact]));
