@@ -37,6 +37,7 @@ const { commitUpload, undoBatch } = await import("~/.server/imports/commit");
 const { readImportOptions } = await import("~/lib/imports/options");
 const { keepCompanyCurrent } = await import("~/.server/analytics/kept/versions");
 const { keptVersions } = await import("~/.server/db/schema");
+const { serverEnv } = await import("~/.server/env");
 const { eq } = await import("drizzle-orm");
 const { findUpload } = await import("~/.server/imports/uploads");
 const { logVisit } = await import("~/.server/visits/commands/save-visit");
@@ -147,8 +148,12 @@ async function purged() {
   }
 }
 
-/** Commits an upload, with the company's kept analytics live (kept in step by the commit) or with none to keep. */
+/**
+ * Commits an upload, with the company's kept analytics live (kept in step by the commit) or with none to keep:
+ * then they are also switched off, so no answer or alert check after it starts building them again.
+ */
 async function timedCommit(id: string, kept: boolean, hooks: Parameters<typeof commitUpload>[2] = {}) {
+  serverEnv().PATINA_KEPT_ANALYTICS = kept ? "on" : "off";
   if (kept) await keepCompanyCurrent(companyId);
   else await db().delete(keptVersions).where(eq(keptVersions.companyId, companyId));
   await purged();
