@@ -144,21 +144,16 @@ function poolEvents(company: Company, label: PoolLabel, episodes: readonly Episo
 }
 
 /**
- * The episodes (every metal) of some pools up to `now`, and the reading that
- * opened each one since `since`: from their kept rows when those answer as
- * of `now`, else worked out from the pools' tests.
+ * The episodes (every metal) of some pools up to `now`: their kept rows when
+ * those answer as of `now`, else worked out from the pools' metal tests,
+ * which come back with them (null when kept rows answered).
  */
-async function poolEpisodesAndOpenings(company: Company, poolIds: readonly number[], now: number, since: number) {
+async function episodesAsOf(company: Company, poolIds: readonly number[], now: number): Promise<{ episodes: Episode[]; tests: MetalTest[] | null }> {
   const tenant = { companyId: company.id };
   const versionId = await keptVersionAsOf(company.id, company.thresholds, new Date(now), poolIds);
-  if (versionId !== null) {
-    const episodes = await keptEpisodeList(tenant, versionId, "all", poolIds);
-    const openedBy = [...new Set(episodes.filter((e) => e.openedAt >= since).map((e) => Number(e.openedByTestId)))];
-    const opening = openedBy.length ? await waterTestReadings(tenant, { poolIds, where: inIdList(waterTests.id, openedBy) }) : [];
-    return { episodes, valueAt: readingValues(opening) };
-  }
-  const tests = await waterTestReadings(tenant, { poolIds, window: { from: null, to: new Date(now) } });
-  return { episodes: analyseMetalHistory(tests, { thresholds: company.thresholds }).episodes, valueAt: readingValues(tests) };
+  if (versionId !== null) return { episodes: await keptEpisodeList(tenant, versionId, "all", poolIds), tests: null };
+  const tests = await metalReadings(tenant, { poolIds, window: { from: null, to: new Date(now) } });
+  return { episodes: analyseMetalHistory(tests, { thresholds: company.thresholds }).episodes, tests };
 }
 
 /** Each test's metal readings by "test id:metal". */
@@ -183,22 +178,15 @@ async function poolAlerts(company: Company, poolIds: readonly number[], now: num
   for (let from = 0; from < poolIds.length; from += POOLS_PER_CHECK) {
     const slice = poolIds.slice(from, from + POOLS_PER_CHECK).filter((id) => labels.has(id));
     if (slice.length === 0) continue;
-    const { episodes, valueAt } = await poolEpisodesAndOpenings(company, slice, now, since);
+    const { episodes, tests } = await episodesAsOf(company, slice, now);
+    // From kept rows, only the readings that opened an episode in the look-back are read.
+    const openedBy = tests ? [] : [...new Set(episodes.filter((e) => e.openedAt >= since).map((e) => Number(e.openedByTestId)))];
+    const opening = openedBy.length ? await waterTestReadings({ companyId: company.id }, { poolIds: slice, where: inIdList(waterTests.id, openedBy) }) : [];
+    const valueAt = readingValues(tests ?? opening);
     const byPool = group(episodes, (e) => Number(e.poolId));
     for (const poolId of slice) events.push(...poolEvents(company, labels.get(poolId)!, byPool.get(poolId) ?? [], valueAt, since));
   }
   return events;
-}
-
-/**
- * The episodes (every metal) of a source's pools up to `now`: their kept rows
- * when those answer as of `now`, else worked out from the pools' tests.
- */
-async function sourcePoolEpisodes(company: Company, poolIds: readonly number[], now: number): Promise<Episode[]> {
-  const versionId = await keptVersionAsOf(company.id, company.thresholds, new Date(now), poolIds);
-  if (versionId !== null) return keptEpisodeList({ companyId: company.id }, versionId, "all", poolIds);
-  const tests = await metalReadings({ companyId: company.id }, { poolIds, window: { from: null, to: new Date(now) } });
-  return analyseMetalHistory(tests, { thresholds: company.thresholds }).episodes;
 }
 
 async function sourceAlerts(company: Company, fillSourceId: number, now: number): Promise<AlertEvent[]> {
@@ -216,7 +204,7 @@ async function sourceAlerts(company: Company, fillSourceId: number, now: number)
     .from(pools)
     .where(and(eq(pools.companyId, company.id), eq(pools.fillSourceId, fillSourceId), eq(pools.active, true)));
   const poolIds = onSource.map((p) => p.id);
-  const episodes = await sourcePoolEpisodes(company, poolIds, now);
+  const { episodes } = await episodesAsOf(company, poolIds, now);
   const profiles: PoolProfile[] = onSource.map((p) => ({ poolId: String(p.id), fillSourceId: String(fillSourceId) }));
   const alerts = sharedSourceAlerts(episodes, profiles, {
     activePools: new Map([[String(fillSourceId), activeRow?.n ?? 0]]),
