@@ -66,8 +66,27 @@ describe("kept rows rebuild the metal history", () => {
     ];
     const spans = keptRowsOf(tests, DEFAULT_METAL_THRESHOLDS).spans;
     // three tests in all from day 0 to day 9, the one on day 0 with every balance input; one copper test, on day 1
-    expect(spans.find((s) => s.readAs === "any")).toEqual({ readAs: "any", poolId: "7", firstTestAt: T0, lastTestAt: T0 + 9 * DAY_MS, tests: 3, latestBalanceAt: T0 });
+    expect(spans.find((s) => s.readAs === "any")).toEqual({
+      readAs: "any",
+      poolId: "7",
+      firstTestAt: T0,
+      lastTestAt: T0 + 9 * DAY_MS,
+      tests: 3,
+      latestBalanceAt: T0,
+      latestBalanceTestId: "1",
+    });
     expect(spans.find((s) => s.readAs === "copper")).toEqual({ readAs: "copper", poolId: "7", firstTestAt: T0 + DAY_MS, lastTestAt: T0 + DAY_MS, tests: 1 });
     expect(spans.find((s) => s.readAs === "iron")).toBeUndefined();
+  });
+
+  it("names the last entered of two complete tests at one instant as the pool's latest balance test", () => {
+    const tests: KeptInputTest[] = [
+      { id: "11", poolId: "7", takenAt: T0, balanceComplete: true },
+      { id: "12", poolId: "7", takenAt: T0 + DAY_MS, balanceComplete: true },
+      { id: "14", poolId: "7", takenAt: T0 + DAY_MS, balanceComplete: true },
+      { id: "15", poolId: "7", takenAt: T0 + DAY_MS, balanceComplete: false },
+    ];
+    const any = keptRowsOf(tests, DEFAULT_METAL_THRESHOLDS).spans.find((s) => s.readAs === "any");
+    expect([any?.latestBalanceAt, any?.latestBalanceTestId]).toEqual([T0 + DAY_MS, "14"]);
   });
 });

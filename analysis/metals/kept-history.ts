@@ -25,7 +25,8 @@ export const READ_AS: readonly ReadAs[] = ["all", ...METALS];
  * large import writes.
  */
 export type KeptEpisode = Episode & { readAs: ReadAs; seq: number; alone: boolean };
-export type KeptSpan = PoolObservation & { readAs: ReadAs | "any"; latestBalanceAt?: number | null };
+/** "any" spans also name the latest test with the saturation index's four inputs: the last in test order, so the last entered of a tie. */
+export type KeptSpan = PoolObservation & { readAs: ReadAs | "any"; latestBalanceAt?: number | null; latestBalanceTestId?: string | null };
 
 /** A test as kept results read it: its metals and pH, and whether it carries the saturation index's four inputs. */
 export type KeptInputTest = MetalTest & { balanceComplete?: boolean; ph?: number | null };
@@ -56,12 +57,15 @@ export function keptRowsOf(tests: readonly KeptInputTest[], thresholds: MetalThr
   let current = null as KeptSpan | null;
   for (const t of tests) {
     if (current?.poolId !== t.poolId) {
-      current = { readAs: "any", poolId: t.poolId, firstTestAt: t.takenAt, lastTestAt: t.takenAt, tests: 0, latestBalanceAt: null };
+      current = { readAs: "any", poolId: t.poolId, firstTestAt: t.takenAt, lastTestAt: t.takenAt, tests: 0, latestBalanceAt: null, latestBalanceTestId: null };
       spans.push(current);
     }
     current.lastTestAt = t.takenAt;
     current.tests++;
-    if (t.balanceComplete) current.latestBalanceAt = t.takenAt;
+    if (t.balanceComplete) {
+      current.latestBalanceAt = t.takenAt;
+      current.latestBalanceTestId = t.id;
+    }
   }
   // A pool's all-metals episodes of each metal, to compare with the metal read alone.
   const ofPoolAndMetal = new Map<string, KeptEpisode[]>();

@@ -36,7 +36,8 @@ import { visitForm } from "../fixtures/visit-input";
 // Four pools on one shared well, days after T0 (visits unless marked):
 //   pool 0  d0 Fe 0.50 (opens) Cu <0.05 | d10 Fe 0.15 (between the levels) | d20 Fe <0.2 ("<x" above clear: unknown)
 //           d30 Fe 0.05 (closes) | d200 Fe 0.40 (opens again, a recurrence)
-//           d210 two tests at one instant: Fe 0.05 then Fe 0.30 (closes it, and the later one, by id, opens iron again)
+//           d210 two tests at one instant: Fe 0.05 then Fe 0.30 (closes it, and the later one, by id, opens iron again),
+//                each with every balance input: scale-forming, then corrosive
 //   pool 1  d5 Cu 0.90 Mn 0.03 | d50 Cu 0.60 | d100 Cu 0.50 + balance inputs (chronic, open)
 //           an import of d120 Cu 0.05 is undone, so copper stays open
 //   pool 2  d8 Fe 0.25 (opens) | d40 Fe 0.05 (closes) | d203 Fe 0.30 (opens again) | d207 Fe 0.15 after a sequestrant on d204
@@ -115,8 +116,9 @@ beforeAll(async () => {
   await visit(0, at(30), { iron: mgL(0.05) });
   await visit(0, at(200), { iron: mgL(0.4) });
   const sameInstant = T0 + 210 * DAY;
-  await visit(0, sameInstant, { iron: mgL(0.05) });
-  await visit(0, sameInstant, { iron: mgL(0.3) });
+  // Both with every balance input: the later one (corrosive) is the pool's latest balance test, counted once.
+  await visit(0, sameInstant, { iron: mgL(0.05), ph: 8.0, temperatureC: 28.9, calciumHardness: 400, totalAlkalinity: 150 });
+  await visit(0, sameInstant, { iron: mgL(0.3), ph: 7.8, temperatureC: 20, calciumHardness: 140, totalAlkalinity: 20 });
 
   await visit(1, at(5), { copper: mgL(0.9), manganese: mgL(0.03) });
   await visit(1, at(50), { copper: mgL(0.6) });
@@ -313,6 +315,25 @@ describe("mail from kept rows", () => {
     expect(new Set(keptEvents.filter((e) => e.kind === "episode_opened").map((e) => e.poolId))).toEqual(new Set([poolIds[0], poolIds[2], poolIds[3]]));
     expect(keptEvents.map((e) => e.kind)).toContain("shared_source");
     expect(await eventsOf()).toEqual(keptEvents);
+  });
+});
+
+describe("the summary from kept rows", () => {
+  it("counts each pool's latest balance test once, the last entered of two at one instant, as worked out from the tests", async () => {
+    const summary = await routeBookSummary(owner, params);
+    expect(summary.source).toBe("kept");
+    // Saturation index, 10 NYCRR 6-1.30 factor table (balanced within +/-0.3, common practice):
+    // 20 degC (68 degF), CH 140, TA 20, pH 7.8 -> -0.8 corrosive (pool 0's later test at d210, and pool 1);
+    // 28.9 degC (84 degF), CH 300, TA 100, pH 7.5 -> +0.2 balanced (pool 2 at d203; d207 has pH only).
+    // Pool 3 has pH only. Pool 0's earlier test at d210 (+1.0, scale-forming) is not its latest.
+    expect(summary.balance).toMatchObject({
+      corrosive: { pools: 2 },
+      balanced: { pools: 1 },
+      scaleForming: { pools: 0 },
+      notComputable: 0,
+      poolsWithoutBalanceTest: 1,
+    });
+    expect(withoutSource(summary)).toEqual(withoutSource(await recomputed(() => routeBookSummary(owner, params))));
   });
 });
 

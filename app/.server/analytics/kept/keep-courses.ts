@@ -12,8 +12,7 @@ import { rowValues } from "../../db/row-values";
 import { keptTreatmentCourses, type KeptCourseTreatment } from "../../db/schema";
 import { epochMs, utcDate } from "../../db/values";
 import { PRODUCT_CATEGORY } from "../queries/metal-readings";
-import type { Tenant } from "../queries/tenant-and-window";
-import { keptRowsOfTenant } from "./tenant-rows";
+import { rowsOfTenantPools, type Tenant } from "../queries/tenant-and-window";
 import type { LiveVersion, Writer } from "./writer";
 
 type Row = Record<string, unknown>;
@@ -331,7 +330,7 @@ function coursesOfTenant(tenant: Tenant, versionId: number, metal?: Metal) {
   return db()
     .select({ ...COURSE_KEYS, treatments: keptTreatmentCourses.treatments })
     .from(keptTreatmentCourses)
-    .where(and(eq(keptTreatmentCourses.versionId, versionId), metal ? eq(keptTreatmentCourses.metal, metal) : undefined, keptRowsOfTenant(tenant, keptTreatmentCourses)))
+    .where(and(eq(keptTreatmentCourses.versionId, versionId), metal ? eq(keptTreatmentCourses.metal, metal) : undefined, rowsOfTenantPools(tenant, keptTreatmentCourses)))
     .orderBy(asc(keptTreatmentCourses.metal), asc(keptTreatmentCourses.poolId), asc(keptTreatmentCourses.seq));
 }
 
@@ -376,7 +375,7 @@ export async function keptArmCourses(tenant: Tenant, versionId: number, metal: M
     db()
       .select({ ...ARM_COURSE, treatments })
       .from(keptTreatmentCourses)
-      .where(and(eq(keptTreatmentCourses.versionId, versionId), eq(keptTreatmentCourses.metal, metal), keptRowsOfTenant(tenant, keptTreatmentCourses)))
+      .where(and(eq(keptTreatmentCourses.versionId, versionId), eq(keptTreatmentCourses.metal, metal), rowsOfTenantPools(tenant, keptTreatmentCourses)))
       .orderBy(sql`CAST(${keptTreatmentCourses.poolId} AS BINARY)`, asc(keptTreatmentCourses.seq)),
   );
   return rows.map((v) => {

@@ -17,6 +17,7 @@ import { utcDate } from "../../db/values";
 import { metalReading } from "../queries/metal-readings";
 import { replaceKeptCourses } from "./keep-courses";
 import { KEPT_MONTH_COLUMNS, keptMonthOf, keptMonthRow } from "./kept-month-rows";
+import { balanceInputsOfTests, balanceValues, SPAN_BALANCE_COLUMNS } from "./span-balance";
 import type { LiveVersion, Writer } from "./writer";
 
 export type { LiveVersion, Writer };
@@ -196,13 +197,27 @@ function changedEpisodes(kept: KeptEpisodeLines, episodes: readonly KeptEpisode[
   return { stale: [...left.values()].map((k) => k.key), changed };
 }
 
+/** Writes the pools' spans, an "any" span with the inputs of the latest complete balance test it names. */
 async function insertSpans(writer: Writer, versionId: number, companyId: number, spans: readonly KeptSpan[]) {
+  const balanceTests = spans.flatMap((s) => (s.latestBalanceTestId ? [s.latestBalanceTestId] : []));
+  const balance = await balanceInputsOfTests(writer, balanceTests);
   for (let from = 0; from < spans.length; from += 1000) {
     const values = spans
       .slice(from, from + 1000)
-      .map((s) => [versionId, Number(s.poolId), s.readAs, companyId, at(s.firstTestAt), at(s.lastTestAt), s.tests, at(s.latestBalanceAt ?? null)]);
+      .map((s) => [
+        versionId,
+        Number(s.poolId),
+        s.readAs,
+        companyId,
+        at(s.firstTestAt),
+        at(s.lastTestAt),
+        s.tests,
+        at(s.latestBalanceAt ?? null),
+        ...balanceValues(s.latestBalanceTestId ? balance.get(s.latestBalanceTestId) : null),
+      ]);
     await writer.execute(
-      sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at) VALUES ${rowValues(values)}`,
+      sql`INSERT INTO kept_pool_spans (version_id, pool_id, read_as, company_id, first_at, last_at, tests, latest_balance_at, ${sql.raw(SPAN_BALANCE_COLUMNS.join(", "))})
+        VALUES ${rowValues(values)}`,
     );
   }
 }

@@ -10,9 +10,8 @@ import { epochMs } from "../../db/values";
 import { serverEnv } from "../../env";
 import { keptEpisodes, keptMonthValues, keptPoolMonths, keptPoolSpans, keptVersions, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
-import type { Tenant, TimeWindow } from "../queries/tenant-and-window";
+import { rowsOfTenantPools, type Tenant, type TimeWindow } from "../queries/tenant-and-window";
 import { elevatedBit } from "./kept-month-rows";
-import { keptRowsOfTenant } from "./tenant-rows";
 import { readyVersionFor } from "./versions";
 
 /** Where an answer came from: the kept results, or the tests read and worked out for this request. */
@@ -61,7 +60,7 @@ export async function keptSpans(tenant: Tenant, versionId: number, readAs: ReadA
         latestBalanceAt: epochMs(keptPoolSpans.latestBalanceAt),
       })
       .from(keptPoolSpans)
-      .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), keptRowsOfTenant(tenant, keptPoolSpans, poolIds)))
+      .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, readAs), rowsOfTenantPools(tenant, keptPoolSpans, poolIds)))
       .orderBy(asc(keptPoolSpans.poolId)),
   );
   return rows.map(([poolId, firstAt, lastAt, tests, latestBalanceAt]) => ({
@@ -114,7 +113,7 @@ export async function keptEpisodeList(tenant: Tenant, versionId: number, readAs:
         recurrence: keptEpisodes.recurrence,
       })
       .from(keptEpisodes)
-      .where(and(eq(keptEpisodes.versionId, versionId), episodesOfReading(readAs), keptRowsOfTenant(tenant, keptEpisodes, poolIds)))
+      .where(and(eq(keptEpisodes.versionId, versionId), episodesOfReading(readAs), rowsOfTenantPools(tenant, keptEpisodes, poolIds)))
       .orderBy(asc(keptEpisodes.poolId), asc(keptEpisodes.seq)),
   );
   return rows.map(([poolId, metal, openedAtMs, openedByTestId, closedAtMs, closedByTestId, endAtMs, peak, testCount, chronic, recurrence]) => {
@@ -207,7 +206,7 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
       db()
         .select({ poolId: keptPoolSpans.poolId, readAs: keptPoolSpans.readAs, lastAt: epochMs(keptPoolSpans.lastAt) })
         .from(keptPoolSpans)
-        .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), keptRowsOfTenant(tenant, keptPoolSpans, poolIds))),
+        .where(and(eq(keptPoolSpans.versionId, versionId), inArray(keptPoolSpans.readAs, [...METALS]), rowsOfTenantPools(tenant, keptPoolSpans, poolIds))),
     ),
     db()
       // Each metal read alone: its own rows, and the all-metals rows that stand for them.
@@ -218,7 +217,7 @@ export async function keptMetalStates(tenant: Tenant, versionId: number, poolIds
           eq(keptEpisodes.versionId, versionId),
           or(inArray(keptEpisodes.readAs, [...METALS]), and(eq(keptEpisodes.readAs, "all"), eq(keptEpisodes.alone, true))),
           isNull(keptEpisodes.closedAt),
-          keptRowsOfTenant(tenant, keptEpisodes, poolIds),
+          rowsOfTenantPools(tenant, keptEpisodes, poolIds),
         ),
       ),
   ]);

@@ -8,6 +8,7 @@ import { utcDate } from "../../db/values";
 import { courseInputs, courseKey, courseLine, keptCourses } from "./keep-courses";
 import { poolTests } from "./keep-pools";
 import { KEPT_MONTH_COLUMNS, keptMonthRow } from "./kept-month-rows";
+import { balanceInputsOfTests, balanceValues, SPAN_BALANCE_COLUMNS } from "./span-balance";
 
 export type KeptDifference = {
   table: "kept_episodes" | "kept_pool_spans" | "kept_pool_months" | "kept_month_values" | "kept_treatment_courses";
@@ -39,8 +40,9 @@ function episodeLine(
   return [e.metal, e.openedAt, e.openedByTestId, e.closedAt, e.closedByTestId, e.endAt, e.peak, e.testCount, e.chronic, e.recurrence, e.alone].join(" ");
 }
 
-const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">) =>
-  [s.firstTestAt, s.lastTestAt, s.tests, s.latestBalanceAt ?? null].join(" ");
+/** A span as one line; an "any" span's with the balance inputs it keeps. */
+const spanLine = (s: Pick<KeptSpan, "firstTestAt" | "lastTestAt" | "tests" | "latestBalanceAt">, balance: readonly unknown[] = []) =>
+  [s.firstTestAt, s.lastTestAt, s.tests, s.latestBalanceAt ?? null, ...balance.map((v) => (v === null ? null : Number(v)))].join(" ");
 
 function compare(table: KeptDifference["table"], kept: Map<string, string>, recomputed: Map<string, string>, into: KeptDifference[]) {
   for (const [key, line] of recomputed) {
@@ -103,7 +105,7 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
       FROM kept_episodes WHERE version_id = ${version.id}`,
   )) as unknown as [Array<Record<string, unknown>>];
   const [spanRows] = (await db().execute(
-    sql`SELECT read_as, pool_id, first_at, last_at, tests, latest_balance_at FROM kept_pool_spans WHERE version_id = ${version.id}`,
+    sql`SELECT read_as, pool_id, first_at, last_at, tests, latest_balance_at, ${sql.raw(SPAN_BALANCE_COLUMNS.join(", "))} FROM kept_pool_spans WHERE version_id = ${version.id}`,
   )) as unknown as [Array<Record<string, unknown>>];
 
   const keptEpisodes = new Map(
@@ -128,16 +130,25 @@ export async function verifyKeptResults(companyId: number): Promise<KeptCheck> {
   const keptSpans = new Map(
     spanRows.map((r) => [
       `${String(r.read_as)}/${String(r.pool_id)}`,
-      spanLine({
-        firstTestAt: ms(r.first_at)!,
-        lastTestAt: ms(r.last_at)!,
-        tests: Number(r.tests),
-        latestBalanceAt: r.read_as === "any" ? ms(r.latest_balance_at) : undefined,
-      }),
+      spanLine(
+        {
+          firstTestAt: ms(r.first_at)!,
+          lastTestAt: ms(r.last_at)!,
+          tests: Number(r.tests),
+          latestBalanceAt: r.read_as === "any" ? ms(r.latest_balance_at) : undefined,
+        },
+        r.read_as === "any" ? SPAN_BALANCE_COLUMNS.map((column) => r[column]) : [],
+      ),
     ]),
   );
+  const balance = await balanceInputsOfTests(db(), expected.spans.flatMap((s) => (s.latestBalanceTestId ? [s.latestBalanceTestId] : [])));
   const recomputedSpans = new Map(
-    expected.spans.map((s) => [`${s.readAs}/${s.poolId}`, spanLine({ ...s, latestBalanceAt: s.readAs === "any" ? s.latestBalanceAt : undefined })]),
+    expected.spans.map((s) => [
+      `${s.readAs}/${s.poolId}`,
+      s.readAs === "any"
+        ? spanLine(s, balanceValues(s.latestBalanceTestId ? balance.get(s.latestBalanceTestId) : null))
+        : spanLine({ ...s, latestBalanceAt: undefined }),
+    ]),
   );
   const differences: KeptDifference[] = [];
   compare("kept_episodes", keptEpisodes, recomputedEpisodes, differences);

@@ -4,7 +4,7 @@ import { db } from "../../db/client";
 import { inIdList } from "../../db/id-list";
 import { arrayRows } from "../../db/array-rows";
 import { type EQUIPMENT_KINDS, equipment, fillSources, pools, routes, type SANITISERS, type SOURCE_KINDS, type SURFACES } from "../../db/schema";
-import { companyOf, tenantCondition, type Tenant } from "./tenant-and-window";
+import { rowsOfTenantPools, tenantCondition, type Tenant } from "./tenant-and-window";
 
 // The stored enum values and the analysis core's names differ in spelling only.
 const SOURCE_KIND: Record<(typeof SOURCE_KINDS)[number], FillSourceKind> = {
@@ -130,7 +130,7 @@ export async function poolLabels(tenant: Tenant, options: { poolIds?: readonly n
   return new Map((await poolRows(tenant, options.poolIds)).map((r) => [r.poolId, labelOf(r)]));
 }
 
-/** Heaters, heat pumps and ionisers of the pools, with install and removal dates and exchanger metal. */
+/** Heaters, heat pumps and ionisers of the pools, with install and removal dates and exchanger metal: by their own company column, without a pool lookup per row. */
 async function fittedEquipment(tenant: Tenant, poolIds: readonly number[] | undefined): Promise<Map<number, Equipment[]>> {
   const query = db()
     .select({
@@ -142,15 +142,7 @@ async function fittedEquipment(tenant: Tenant, poolIds: readonly number[] | unde
       removedOn: equipment.removedOn,
     })
     .from(equipment)
-    .innerJoin(pools, eq(pools.id, equipment.poolId))
-    .where(
-      and(
-        tenantCondition(tenant),
-        eq(equipment.companyId, companyOf(tenant)),
-        inArray(equipment.kind, ["heater", "heat_pump", "ioniser"]),
-        onlyPools(poolIds),
-      ),
-    );
+    .where(and(rowsOfTenantPools(tenant, equipment, poolIds), inArray(equipment.kind, ["heater", "heat_pump", "ioniser"])));
   // As arrays, like the pools; a DATE comes from the driver as UTC midnight of that day.
   type Row = [
     id: number,

@@ -1,16 +1,16 @@
 import { and, count, countDistinct, eq, isNotNull, or, sql } from "drizzle-orm";
-import { classifyBalance, saturationIndex, type BalanceBand } from "@analysis/chemistry/saturation";
+import { classifyBalance, saturationIndex, type BalanceBand, type BalanceInputs } from "@analysis/chemistry/saturation";
 import type { Metal } from "@analysis/metals/reading";
+import { arrayRows } from "../../db/array-rows";
 import { db } from "../../db/client";
 import { utcDate } from "../../db/values";
 import { keptPoolSpans, pools, waterTests } from "../../db/schema";
 import type { Scope } from "../../scope";
 import { keptVersionFor, type AnswerSource } from "../kept/read-kept";
-import { keptRowsOfTenant } from "../kept/tenant-rows";
 import { loadMetalDataset, type MetalDataset } from "./metal-dataset";
 import { computeRiskyGroups, type RiskyGroup } from "./group-figures";
 import { BALANCE_COLUMNS, balanceInputsPresent } from "./balance-inputs";
-import { tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
+import { rowsOfTenantPools, tenantCondition, testsInScope, type AnalyticsParams, type TimeWindow } from "./tenant-and-window";
 
 export type BalanceShare = { pools: number; share: number | null };
 
@@ -77,33 +77,60 @@ async function poolCounts(scope: Scope) {
   return { activePools: row?.active ?? 0, routes: row?.routes ?? 0, fillSources: row?.sources ?? 0 };
 }
 
-/** The balance inputs of each pool's latest complete test, found through the kept spans: one index lookup per pool on (company, pool, time). */
-function keptBalanceTests(scope: Scope, versionId: number) {
-  return db()
-    .select(BALANCE_COLUMNS)
+/** The balance inputs of each pool's latest complete test, as its kept span holds them: no test looked up. */
+async function keptBalanceTests(scope: Scope, versionId: number): Promise<BalanceInputs[]> {
+  const query = db()
+    .select({
+      ph: keptPoolSpans.balancePh,
+      temperatureC: keptPoolSpans.balanceTemperatureC,
+      calciumHardness: keptPoolSpans.balanceCalciumHardness,
+      totalAlkalinity: keptPoolSpans.balanceTotalAlkalinity,
+      cyanuricAcid: keptPoolSpans.balanceCyanuricAcid,
+      tds: keptPoolSpans.balanceTds,
+      salt: keptPoolSpans.balanceSalt,
+    })
     .from(keptPoolSpans)
-    .innerJoin(
-      waterTests,
-      and(eq(waterTests.companyId, keptPoolSpans.companyId), eq(waterTests.poolId, keptPoolSpans.poolId), eq(waterTests.sampledAt, keptPoolSpans.latestBalanceAt)),
-    )
-    .where(and(eq(keptPoolSpans.versionId, versionId), eq(keptPoolSpans.readAs, "any"), keptRowsOfTenant({ scope }, keptPoolSpans)));
+    .where(
+      and(
+        eq(keptPoolSpans.versionId, versionId),
+        eq(keptPoolSpans.readAs, "any"),
+        isNotNull(keptPoolSpans.latestBalanceAt),
+        rowsOfTenantPools({ scope }, keptPoolSpans),
+      ),
+    );
+  type Row = [ph: number, temperatureC: number, calciumHardness: number, totalAlkalinity: number, cyanuricAcid: number | null, tds: number | null, salt: number | null];
+  return (await arrayRows<Row>(query)).map(([ph, temperatureC, calciumHardness, totalAlkalinity, cyanuricAcid, tds, salt]) => ({
+    ph: Number(ph),
+    temperatureC: Number(temperatureC),
+    calciumHardness: Number(calciumHardness),
+    totalAlkalinity: Number(totalAlkalinity),
+    cyanuricAcid: cyanuricAcid === null ? null : Number(cyanuricAcid),
+    tds: tds === null ? null : Number(tds),
+    salt: salt === null ? null : Number(salt),
+  }));
 }
 
 /**
  * The balance inputs of each pool's latest complete test, read by the
- * (pool, time) key the grouped pass found: one indexed lookup per pool.
+ * (pool, time) key the grouped pass found: one indexed lookup per pool. Of
+ * two complete tests at that instant the last entered counts, once, as the
+ * kept spans keep it.
  */
-async function balanceTestsAt(scope: Scope, latest: ReadonlyArray<{ poolId: number; at: Date }>) {
+async function balanceTestsAt(scope: Scope, latest: ReadonlyArray<{ poolId: number; at: Date }>): Promise<BalanceInputs[]> {
   if (latest.length === 0) return [];
-  return db()
-    .select(BALANCE_COLUMNS)
+  const rows = await db()
+    .select({ id: waterTests.id, poolId: waterTests.poolId, ...BALANCE_COLUMNS })
     .from(waterTests)
     .where(
       and(
         tenantCondition({ companyId: scope.companyId }, waterTests.companyId),
+        balanceInputsPresent,
         or(...latest.map((l) => and(eq(waterTests.poolId, l.poolId), eq(waterTests.sampledAt, l.at)))),
       ),
     );
+  const lastEntered = new Map<number, (typeof rows)[number]>();
+  for (const row of rows) if (Number(row.id) > Number(lastEntered.get(row.poolId)?.id ?? -1)) lastEntered.set(row.poolId, row);
+  return [...lastEntered.values()];
 }
 
 export async function routeBookSummary(

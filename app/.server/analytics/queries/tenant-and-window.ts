@@ -1,7 +1,9 @@
 import { TZDate } from "@date-fns/tz";
-import { and, eq, gte, lte, type SQL } from "drizzle-orm";
+import { and, eq, gte, inArray, lte, type SQL } from "drizzle-orm";
 import type { Metal, MetalThresholds } from "@analysis/metals/reading";
-import { pools, type treatments, waterTests } from "../../db/schema";
+import { db } from "../../db/client";
+import { inIdList } from "../../db/id-list";
+import { type equipment, type keptEpisodes, type keptPoolSpans, type keptTreatmentCourses, pools, type treatments, waterTests } from "../../db/schema";
 import { type Scope, poolsInScope } from "../../scope";
 
 /**
@@ -35,6 +37,23 @@ export function tenantCondition(tenant: Tenant, companyColumn: CompanyColumn = p
   if (!("scope" in tenant)) return eq(companyColumn, tenant.companyId);
   if (companyColumn === pools.companyId) return poolsInScope(tenant.scope);
   return and(poolsInScope(tenant.scope), eq(companyColumn, tenant.scope.companyId))!;
+}
+
+type TableOfPoolRows = typeof keptEpisodes | typeof keptPoolSpans | typeof keptTreatmentCourses | typeof equipment;
+
+/**
+ * The tenant's rows of a table of pool rows, by the row's own company and,
+ * for a member limited to some routes, their pools (a subquery). No join to
+ * `pools`: on a company-wide read it cost one pool lookup per row, tens of
+ * thousands of them on a large company.
+ */
+export function rowsOfTenantPools(tenant: Tenant, table: TableOfPoolRows, poolIds?: readonly number[]) {
+  const limitedTo = "scope" in tenant && tenant.scope.routeIds !== null ? tenant.scope : null;
+  return and(
+    eq(table.companyId, companyOf(tenant)),
+    limitedTo ? inArray(table.poolId, db().select({ id: pools.id }).from(pools).where(poolsInScope(limitedTo))) : undefined,
+    poolIds ? inIdList(table.poolId, poolIds) : undefined,
+  );
 }
 
 /** The window condition on a time column; undefined when the window is open at both ends. */

@@ -119,8 +119,16 @@ export const keptPoolSpans = mysqlTable(
     firstAt: instant("first_at").notNull(),
     lastAt: instant("last_at").notNull(),
     tests: int("tests").notNull(),
-    /** "any" only: the latest test carrying the four inputs the saturation index needs. */
+    /** "any" only: the latest test carrying the four inputs the saturation index needs (the last entered of any at one instant). */
     latestBalanceAt: instant("latest_balance_at"),
+    /** "any" only: that test's balance inputs, as stored on the test, so an answer need not look the test up. */
+    balancePh: decimalNumber("balance_ph", 4, 2),
+    balanceTemperatureC: decimalNumber("balance_temperature_c", 4, 1),
+    balanceCalciumHardness: decimalNumber("balance_calcium_hardness", 6, 1),
+    balanceTotalAlkalinity: decimalNumber("balance_total_alkalinity", 5, 1),
+    balanceCyanuricAcid: decimalNumber("balance_cyanuric_acid", 5, 1),
+    balanceSalt: decimalNumber("balance_salt", 7, 1),
+    balanceTds: decimalNumber("balance_tds", 7, 1),
   },
   (t) => [primaryKey({ columns: [t.versionId, t.readAs, t.poolId] }), index("kept_pool_spans_pool_idx").on(t.poolId, t.versionId)],
 );
