@@ -148,8 +148,30 @@ function solveIncreasing(f: (x: number) => number, target: number, low: number, 
   return (lo + hi) / 2;
 }
 
+/**
+ * Quantiles already worked out, by their arguments. A route book's groups share
+ * a few event counts (and the rest of the book the same total), so a thousand
+ * groups' exact intervals ask for a few dozen distinct quantiles, each a
+ * bisection of hundreds of steps. Emptied when full, so it stays small.
+ */
+const QUANTILES_KEPT = 4096;
+const quantiles = new Map<string, number>();
+
+function remembered(key: string, work: () => number): number {
+  let value = quantiles.get(key);
+  if (value === undefined) {
+    if (quantiles.size >= QUANTILES_KEPT) quantiles.clear();
+    quantiles.set(key, (value = work()));
+  }
+  return value;
+}
+
 /** Quantile of the gamma distribution with the given shape and unit scale. */
 export function gammaQuantile(p: number, shape: number): number {
+  return remembered(`gamma ${p} ${shape}`, () => gammaQuantileOf(p, shape));
+}
+
+function gammaQuantileOf(p: number, shape: number): number {
   if (!(shape > 0) || !(p >= 0 && p <= 1)) return NaN;
   if (p === 0) return 0;
   if (p === 1) return Infinity;
@@ -215,6 +237,10 @@ function betaContinuedFraction(x: number, a: number, b: number): number {
 
 /** Quantile of the beta distribution. */
 export function betaQuantile(p: number, a: number, b: number): number {
+  return remembered(`beta ${p} ${a} ${b}`, () => betaQuantileOf(p, a, b));
+}
+
+function betaQuantileOf(p: number, a: number, b: number): number {
   if (!(a > 0 && b > 0) || !(p >= 0 && p <= 1)) return NaN;
   if (p === 0) return 0;
   if (p === 1) return 1;

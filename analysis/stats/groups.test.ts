@@ -7,6 +7,7 @@ import {
   MS_PER_YEAR,
   compareGroups,
   groupComparison,
+  groupComparisonFinder,
   groupObservations,
   riskyGroups,
   riskyGroupFinder,
@@ -188,7 +189,7 @@ describe("risky groups alone", () => {
   });
 });
 
-describe("risky groups worked out cell by cell without observation objects", () => {
+describe("groups worked out cell by cell without observation objects", () => {
   const world = fc.record({
     pools: fc.array(
       fc.record({
@@ -232,12 +233,20 @@ describe("risky groups worked out cell by cell without observation objects", () 
         // One finder asked for every dimension in turn, as the summary asks it: fixed dimensions share their cells.
         const finder = riskyGroupFinder(pools, episodes, metals, { minPools: w.minPools });
         const everyKey = (["fill-source", "heater-age", "route", "exchanger-metal", "surface"] as const).map((key) => [key, finder(key, observed)] as const);
+        const compareAll = groupComparisonFinder(pools, episodes, metals, { minPools: w.minPools }, "every");
         for (const metal of metals) {
           const observations = groupObservations(pools, tests, episodes, w.key, { metal: metal ?? undefined, rules: { minPools: w.minPools } });
           expect(fast.get(metal)).toEqual(riskyGroups(observations, { minPools: w.minPools }));
           for (const [key, found] of everyKey) {
             const ofKey = groupObservations(pools, tests, episodes, key, { metal: metal ?? undefined, rules: { minPools: w.minPools } });
             expect(found.get(metal)).toEqual(riskyGroups(ofKey, { minPools: w.minPools }));
+            // Every group, and what they were compared over, as the groups answer gives them.
+            expect(compareAll(key, observed).get(metal)).toEqual({
+              groups: compareGroups(ofKey, { minPools: w.minPools }),
+              pools: new Set(ofKey.map((o) => o.poolId)).size,
+              poolYears: ofKey.reduce((sum, o) => sum + o.years, 0),
+              openings: ofKey.reduce((sum, o) => sum + o.openings, 0),
+            });
           }
         }
       }),

@@ -270,6 +270,32 @@ export function riskyGroupFinder<M extends Metal | null>(
   metals: readonly M[],
   rulesOverride?: Partial<GroupRules>,
 ): (key: GroupingKey, observed: readonly ObservedInstants[]) => Map<M, GroupStatistics[]> {
+  const find = groupComparisonFinder(pools, episodes, metals, rulesOverride, "risky");
+  return (key, observed) => new Map([...find(key, observed)].map(([metal, comparison]) => [metal, comparison.groups]));
+}
+
+/** Every group of one dimension compared with the rest, and what they were compared over. */
+export interface GroupComparison {
+  groups: GroupStatistics[];
+  /** Pools observed or with an opening. */
+  pools: number;
+  poolYears: number;
+  openings: number;
+}
+
+/**
+ * compareGroups (or riskyGroups) of each metal's observations, from the same
+ * pools, instants and episodes as groupObservationsByMetal, with every figure
+ * the same to the last digit: years and openings are summed cell by cell in
+ * the same order, but a cell is a few numbers, not an object per pool and metal.
+ */
+export function groupComparisonFinder<M extends Metal | null>(
+  pools: readonly PoolProfile[],
+  episodes: readonly Episode[],
+  metals: readonly M[],
+  rulesOverride: Partial<GroupRules> | undefined,
+  which: "every" | "risky",
+): (key: GroupingKey, observed: readonly ObservedInstants[]) => Map<M, GroupComparison> {
   const rules = { ...DEFAULT_GROUP_RULES, ...rulesOverride };
   const poolIndex = new Map<string, number>();
   pools.forEach((p, i) => poolIndex.set(p.poolId, i));
@@ -282,31 +308,44 @@ export function riskyGroupFinder<M extends Metal | null>(
     return instants;
   };
 
-  /** Each metal's flagged groups from cells: a cell is one pool's time (years) and openings in one group. */
+  /** Each metal's groups from cells: a cell is one pool's time (years) and openings in one group. */
   const judgeCells = (
     groupNames: readonly string[],
     cellGroup: ArrayLike<number>,
+    cellPool: ArrayLike<number>,
     cellYears: ArrayLike<number>,
     observedCells: number,
     openedOf: (m: number) => ArrayLike<number>,
   ) => {
-    const byMetal = new Map<M, GroupStatistics[]>();
+    const byMetal = new Map<M, GroupComparison>();
+    const seen = new Int32Array(pools.length).fill(-1);
     metals.forEach((metal, m) => {
       const opened = openedOf(m);
       const groups: GroupTotals[] = groupNames.map((group) => ({ group, pools: 0, poolsWithEpisode: 0, years: 0, openings: 0 }));
       const totals = { years: 0, openings: 0 };
+      let poolsCounted = 0;
       for (let c = 0; c < cellGroup.length; c++) {
         if (c >= observedCells && opened[c] === 0) continue;
         const g = groups[cellGroup[c]!]!;
         totals.years += cellYears[c]!;
         totals.openings += opened[c]!;
+        if (seen[cellPool[c]!] !== m) {
+          seen[cellPool[c]!] = m;
+          poolsCounted++;
+        }
         g.pools++;
         if (opened[c]! > 0) g.poolsWithEpisode++;
         g.years += cellYears[c]!;
         g.openings += opened[c]!;
       }
       const present = groups.filter((g) => g.pools > 0);
-      byMetal.set(metal, judgeGroups(present, totals, rules, true).filter((g) => g.risky));
+      const judged = judgeGroups(present, totals, rules, which === "risky");
+      byMetal.set(metal, {
+        groups: which === "risky" ? judged.filter((g) => g.risky) : judged,
+        pools: poolsCounted,
+        poolYears: totals.years,
+        openings: totals.openings,
+      });
     });
     return byMetal;
   };
@@ -362,10 +401,11 @@ export function riskyGroupFinder<M extends Metal | null>(
     if (!changes) {
       const cells = cellsOfFixedDimension(observed);
       const cellGroup = cells.pool.map((p, c) => groupAt(pools[p]!, cells.at[c]!));
-      return judgeCells(groupNames, cellGroup, cells.years, cells.observedCells, (m) => cells.opened[m]!);
+      return judgeCells(groupNames, cellGroup, cells.pool, cells.years, cells.observedCells, (m) => cells.opened[m]!);
     }
     // A cell is one pool's time in one group. A pool's observed cells are consecutive: [first, end).
     const cellGroup: number[] = [];
+    const cellPool: number[] = [];
     const cellYears: number[] = [];
     const firstCell = new Int32Array(pools.length).fill(-1);
     const endCell = new Int32Array(pools.length);
@@ -383,6 +423,7 @@ export function riskyGroupFinder<M extends Metal | null>(
         while (cell < cellGroup.length && cellGroup[cell] !== group) cell++;
         if (cell === cellGroup.length) {
           cellGroup.push(group);
+          cellPool.push(p);
           cellYears.push(0);
         }
         if (times.length > 1) cellYears[cell]! += (times[i + 1]! - times[i]!) / MS_PER_YEAR;
@@ -405,12 +446,13 @@ export function riskyGroupFinder<M extends Metal | null>(
         cell = openingCells.get(name) ?? -1;
         if (cell < 0) {
           cellYears.push(0);
+          cellPool.push(p);
           openingCells.set(name, (cell = cellGroup.push(group) - 1));
         }
       }
       episodeCell[e] = cell;
     });
-    return judgeCells(groupNames, cellGroup, cellYears, observedCells, (m) => {
+    return judgeCells(groupNames, cellGroup, cellPool, cellYears, observedCells, (m) => {
       const opened = new Int32Array(cellGroup.length);
       for (let e = 0; e < episodes.length; e++) if (episodeCell[e]! >= 0 && episodeMetals[e]! & (1 << m)) opened[episodeCell[e]!]!++;
       return opened;

@@ -2,12 +2,10 @@ import type { Metal } from "@analysis/metals/reading";
 import type { PoolProfile } from "@analysis/metals/route-book";
 import {
   CHANGES_OVER_TIME,
-  compareGroups,
   GROUPING_KEYS,
-  groupObservations,
+  groupComparisonFinder,
   riskyGroupFinder,
   type GroupingKey,
-  type GroupObservation,
   type GroupStatistics,
   type ObservedInstants,
 } from "@analysis/stats/groups";
@@ -52,13 +50,10 @@ function groupNames(dataset: MetalDataset, grouping: GroupingKey): Map<string, s
 }
 
 /**
- * Episode openings per pool-year in each group of one dimension. A pool's
- * observed time runs from its first to its last test in the window; for
- * heater age and exchanger metal it is split at the dates the answer changes.
+ * Each pool's observed instants for this dimension. A pool's observed time
+ * runs from its first to its last test in the window; for heater age and
+ * exchanger metal it is split at the dates the answer can change.
  */
-type Instant = { poolId: string; takenAt: number };
-
-/** Each pool's observed instants for this dimension: its span, split where the pool's group can change. */
 function observedInstants(
   dataset: MetalDataset,
   grouping: GroupingKey,
@@ -72,36 +67,22 @@ function observedInstants(
   return observed;
 }
 
-/** The same instants, one per pool and moment, as the observations take them. */
-function groupingInstants(dataset: MetalDataset, grouping: GroupingKey): Instant[] {
-  return observedInstants(dataset, grouping).flatMap(({ poolId, instants }) => instants.map((takenAt) => ({ poolId, takenAt })));
-}
-
-export function computeGroupFigures(
-  dataset: MetalDataset,
-  grouping: GroupingKey,
-  metal: Metal | null,
-  instants: readonly Instant[] = groupingInstants(dataset, grouping),
-): GroupFigures {
-  return figuresOf(
-    dataset,
-    grouping,
-    metal,
-    groupObservations(dataset.book.profiles, instants, dataset.history.episodes, grouping, metal ? { metal } : {}),
-  );
-}
-
-function figuresOf(dataset: MetalDataset, grouping: GroupingKey, metal: Metal | null, observations: readonly GroupObservation[]): GroupFigures {
-  const stats = compareGroups(observations);
+/**
+ * A dimension's groups compared with the rest of the route book, for one metal
+ * or all: the same figures as comparing the pools' observations (the analysis
+ * core's groupObservations and compareGroups), worked out from cells.
+ */
+export function computeGroupFigures(dataset: MetalDataset, grouping: GroupingKey, metal: Metal | null): GroupFigures {
+  const compare = groupComparisonFinder(dataset.book.profiles, dataset.history.episodes, [metal], undefined, "every");
+  const comparison = compare(grouping, observedInstants(dataset, grouping)).get(metal)!;
   const names = groupNames(dataset, grouping);
-  const groups = stats.map((s) => figureOf(grouping, s, names));
   return {
     grouping,
     metal,
-    pools: new Set(observations.map((o) => o.poolId)).size,
-    poolYears: observations.reduce((sum, o) => sum + o.years, 0),
-    openings: observations.reduce((sum, o) => sum + o.openings, 0),
-    groups,
+    pools: comparison.pools,
+    poolYears: comparison.poolYears,
+    openings: comparison.openings,
+    groups: comparison.groups.map((s) => figureOf(grouping, s, names)),
   };
 }
 
