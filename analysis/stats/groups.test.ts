@@ -1,7 +1,7 @@
 import { describe, expect, it } from "vitest";
 import fc from "fast-check";
 import { DAY_MS, analyseMetalHistory, type Episode, type MetalTest } from "../metals/episodes";
-import { heaterAgeBucketAt, type PoolProfile } from "../metals/route-book";
+import { ageBucketLabel, exchangerMetalAt, heaterAgeBucketAt, heatersAt, utcDateNumber, wholeYearsBetween, type PoolProfile } from "../metals/route-book";
 import { clopperPearsonInterval, poissonRateInterval, wilsonInterval } from "./intervals";
 import {
   MS_PER_YEAR,
@@ -44,6 +44,71 @@ describe("heater age bucket at the date of a test", () => {
     expect(heaterAgeBucketAt(pool, Date.UTC(2021, 2, 1))).toBe("0-4"); // replaced that day
     expect(heaterAgeBucketAt({ poolId: "q", equipment: [{ id: "h", kind: "heater", installedAt: Date.UTC(2000, 0, 1) }] }, Date.UTC(2024, 0, 1))).toBe("15+");
     expect(heaterAgeBucketAt({ poolId: "q", equipment: [{ id: "h", kind: "heat-pump", installedAt: null }] }, Date.UTC(2024, 0, 1))).toBe("unknown");
+  });
+
+  it("counts whole years on UTC calendar dates as the platform's Date does, leap days and years before 1970 included", () => {
+    const fromDates = (from: number, to: number) => {
+      const a = new Date(from);
+      const b = new Date(to);
+      const years = b.getUTCFullYear() - a.getUTCFullYear();
+      const before = b.getUTCMonth() < a.getUTCMonth() || (b.getUTCMonth() === a.getUTCMonth() && b.getUTCDate() < a.getUTCDate());
+      return before ? years - 1 : years;
+    };
+    // Leap-day birthdays: 2020-02-29 to 2021-02-28 is 0 whole years, to 2021-03-01 is 1.
+    expect(wholeYearsBetween(Date.UTC(2020, 1, 29), Date.UTC(2021, 1, 28, 23))).toBe(0);
+    expect(wholeYearsBetween(Date.UTC(2020, 1, 29), Date.UTC(2021, 2, 1))).toBe(1);
+    expect(utcDateNumber(Date.UTC(1969, 11, 31, 23, 59))).toBe(19691231);
+    const instant = fc.integer({ min: Date.UTC(1900, 0, 1), max: Date.UTC(2200, 0, 1) });
+    fc.assert(
+      fc.property(instant, instant, (from, to) => {
+        const d = new Date(from);
+        expect(utcDateNumber(from)).toBe(d.getUTCFullYear() * 10_000 + (d.getUTCMonth() + 1) * 100 + d.getUTCDate());
+        expect(wholeYearsBetween(from, to)).toBe(fromDates(from, to));
+      }),
+      { numRuns: 5000 },
+    );
+    expect([0, 4, 5, 9, 10, 14, 15, 40].map((age) => ageBucketLabel(age))).toEqual(["0-4", "0-4", "5-9", "5-9", "10-14", "10-14", "15+", "15+"]);
+    expect([0, 2, 3, 7].map((age) => ageBucketLabel(age, [3]))).toEqual(["0-2", "0-2", "3+", "3+"]);
+    expect(ageBucketLabel(12, [])).toBe("0+");
+  });
+
+  it("reads the heaters present as a list of them would, for any equipment and date", () => {
+    // The answers as read from heatersAt's list (oldest first, undated last): the definition the loops follow.
+    const ageFromList = (pool: PoolProfile, at: number) => {
+      const heaters = heatersAt(pool, at);
+      if (heaters.length === 0) return "none";
+      if (heaters.some((h) => h.installedAt === null)) return "unknown";
+      return ageBucketLabel(wholeYearsBetween(heaters[0]!.installedAt!, at));
+    };
+    const metalFromList = (pool: PoolProfile, at: number) => {
+      const heaters = heatersAt(pool, at);
+      if (heaters.length === 0) return "no-heater";
+      const metals = new Set(heaters.map((h) => h.exchangerMetal ?? "none-unknown"));
+      return (["copper", "cupronickel", "titanium", "none-unknown"] as const).find((m) => metals.has(m)) ?? "none-unknown";
+    };
+    const item = fc.record({
+      kind: fc.constantFrom("heater", "heat-pump", "pump", "ioniser") as fc.Arbitrary<"heater" | "heat-pump" | "pump" | "ioniser">,
+      installed: fc.option(fc.integer({ min: -8000, max: 3000 })),
+      removedAfter: fc.option(fc.nat(6000)),
+      metal: fc.constantFrom("copper", "cupronickel", "titanium", "none-unknown", null) as fc.Arbitrary<"copper" | "cupronickel" | "titanium" | "none-unknown" | null>,
+    });
+    fc.assert(
+      fc.property(fc.array(item, { maxLength: 4 }), fc.integer({ min: -8000, max: 6000 }), (items, d) => {
+        const pool: PoolProfile = {
+          poolId: "p",
+          equipment: items.map((e, i) => ({
+            id: `e${i}`,
+            kind: e.kind,
+            exchangerMetal: e.metal,
+            installedAt: e.installed === null ? null : day(e.installed),
+            removedAt: e.removedAfter === null ? null : day((e.installed ?? -8000) + e.removedAfter),
+          })),
+        };
+        expect(heaterAgeBucketAt(pool, day(d))).toBe(ageFromList(pool, day(d)));
+        expect(exchangerMetalAt(pool, day(d))).toBe(metalFromList(pool, day(d)));
+      }),
+      { numRuns: 2000 },
+    );
   });
 
   it("splits observed time by the bucket at each test", () => {

@@ -1,4 +1,4 @@
-import { DEFAULT_HEATER_AGE_EDGES, HEATING_KINDS, type PoolProfile } from "@analysis/metals/route-book";
+import { DEFAULT_HEATER_AGE_EDGES, HEATING_KINDS, utcDateNumber, type PoolProfile } from "@analysis/metals/route-book";
 import { CHANGES_OVER_TIME, type GroupingKey } from "@analysis/stats/groups";
 
 /**
@@ -18,20 +18,23 @@ export function observationInstants(
   key: GroupingKey,
   ageEdges: readonly number[] = DEFAULT_HEATER_AGE_EDGES,
 ): number[] {
-  if (!CHANGES_OVER_TIME.has(key)) return firstAt === lastAt ? [firstAt] : [Math.min(firstAt, lastAt), Math.max(firstAt, lastAt)];
-  const instants = new Set<number>([firstAt, lastAt]);
+  const instants = firstAt === lastAt ? [firstAt] : [Math.min(firstAt, lastAt), Math.max(firstAt, lastAt)];
+  if (!CHANGES_OVER_TIME.has(key)) return instants;
+  const ends = instants.length;
   for (const item of pool.equipment ?? []) {
     if (!HEATING_KINDS.includes(item.kind)) continue;
-    const changes: number[] = [];
-    if (item.installedAt !== null) changes.push(item.installedAt);
-    if (item.removedAt !== null && item.removedAt !== undefined) changes.push(item.removedAt);
+    if (item.installedAt !== null && item.installedAt > firstAt && item.installedAt < lastAt) instants.push(item.installedAt);
+    if (item.removedAt !== null && item.removedAt !== undefined && item.removedAt > firstAt && item.removedAt < lastAt) instants.push(item.removedAt);
     if (key === "heater-age" && item.installedAt !== null) {
-      const installed = new Date(item.installedAt);
+      const installed = utcDateNumber(item.installedAt);
+      const [year, month, day] = [Math.floor(installed / 10_000), Math.floor(installed / 100) % 100, installed % 100];
       for (const years of ageEdges) {
-        changes.push(Date.UTC(installed.getUTCFullYear() + years, installed.getUTCMonth(), installed.getUTCDate()));
+        const birthday = Date.UTC(year + years, month - 1, day);
+        if (birthday > firstAt && birthday < lastAt) instants.push(birthday);
       }
     }
-    for (const at of changes) if (at > firstAt && at < lastAt) instants.add(at);
   }
-  return [...instants].sort((a, b) => a - b);
+  if (instants.length === ends) return instants;
+  instants.sort((a, b) => a - b);
+  return instants.filter((at, i) => i === 0 || at !== instants[i - 1]);
 }
