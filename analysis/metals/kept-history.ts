@@ -57,7 +57,15 @@ export function keptRowsOf(tests: readonly KeptInputTest[], thresholds: MetalThr
   let current = null as KeptSpan | null;
   for (const t of tests) {
     if (current?.poolId !== t.poolId) {
-      current = { readAs: "any", poolId: t.poolId, firstTestAt: t.takenAt, lastTestAt: t.takenAt, tests: 0, latestBalanceAt: null, latestBalanceTestId: null };
+      current = {
+        readAs: "any",
+        poolId: t.poolId,
+        firstTestAt: t.takenAt,
+        lastTestAt: t.takenAt,
+        tests: 0,
+        latestBalanceAt: null,
+        latestBalanceTestId: null,
+      };
       spans.push(current);
     }
     current.lastTestAt = t.takenAt;
@@ -67,44 +75,53 @@ export function keptRowsOf(tests: readonly KeptInputTest[], thresholds: MetalThr
       current.latestBalanceTestId = t.id;
     }
   }
-  // A pool's all-metals episodes of each metal, to compare with the metal read alone.
-  const ofPoolAndMetal = new Map<string, KeptEpisode[]>();
+  // A pool's all-metals episodes, to compare each metal's with the metal read alone.
+  const ofPool = new Map<string, KeptEpisode[]>();
   for (const readAs of READ_AS) {
-    const history = analyseMetalHistory(testsReadAs(tests, readAs), { thresholds, metals: metalsReadAs(readAs) });
-    const read = numbered(history.episodes, readAs);
+    // A metal read alone: the tests that measured it, as they are. The analysis reads only the metals it is
+    // asked for, so its episodes and spans are those of testsReadAs, without a copy of every test.
+    const readings = readAs === "all" ? testsReadAs(tests, readAs) : tests.filter((t) => t[readAs]);
+    const read = numbered(analyseMetalHistory(readings, { thresholds, metals: metalsReadAs(readAs) }), readAs);
     if (readAs === "all") {
-      for (const e of read) {
+      for (const e of read.episodes) {
         episodes.push(e);
-        const key = `${e.poolId}/${e.metal}`;
-        const list = ofPoolAndMetal.get(key);
+        const list = ofPool.get(e.poolId);
         if (list) list.push(e);
-        else ofPoolAndMetal.set(key, [e]);
+        else ofPool.set(e.poolId, [e]);
       }
     } else {
-      for (let from = 0; from < read.length;) {
+      for (let from = 0; from < read.episodes.length;) {
         let to = from + 1;
-        while (to < read.length && read[to]!.poolId === read[from]!.poolId) to++;
-        const alone = read.slice(from, to);
-        const together = ofPoolAndMetal.get(`${alone[0]!.poolId}/${readAs}`) ?? [];
+        while (to < read.episodes.length && read.episodes[to]!.poolId === read.episodes[from]!.poolId) to++;
+        const alone = read.episodes.slice(from, to);
+        const together = (ofPool.get(alone[0]!.poolId) ?? []).filter((e) => e.metal === readAs);
         if (sameEpisodes(alone, together)) for (const e of together) e.alone = true;
         else for (const e of alone) episodes.push(e);
         from = to;
       }
     }
-    for (const p of history.pools) spans.push({ ...p, readAs });
+    for (const p of read.pools) spans.push({ readAs, poolId: p.poolId, firstTestAt: p.firstTestAt, lastTestAt: p.lastTestAt, tests: p.tests });
   }
   return { episodes, spans };
 }
 
-/** Episodes of one reading numbered pool by pool, in the order the analysis found them. */
-function numbered(found: readonly Episode[], readAs: ReadAs): KeptEpisode[] {
+/**
+ * One reading's episodes numbered pool by pool, in the order the analysis
+ * found them, and its pools. The episodes are the analysis's own objects,
+ * made kept episodes in place: an import keeps a hundred thousand of them.
+ */
+function numbered(history: MetalHistory, readAs: ReadAs): { episodes: KeptEpisode[]; pools: MetalHistory["pools"] } {
   let seq = 0;
   let pool: string | null = null;
-  return found.map((e) => {
+  const episodes = history.episodes as KeptEpisode[];
+  for (const e of episodes) {
     seq = e.poolId === pool ? seq + 1 : 0;
     pool = e.poolId;
-    return { ...e, readAs, seq, alone: false };
-  });
+    e.readAs = readAs;
+    e.seq = seq;
+    e.alone = false;
+  }
+  return { episodes, pools: history.pools };
 }
 
 const EPISODE_FACTS = [
