@@ -8,10 +8,16 @@ import { startBuiltServer, stopBuiltServer } from "../fixtures/server";
 
 const SUMMARY = "/api/analytics/summary";
 
-/** The server's statements that read water tests, as MariaDB lists them. */
-async function waterTestReads(probe: Connection) {
+/**
+ * The tables the summary cannot answer without: the tests (recomputed) and the
+ * kept spans (kept results). A test connection write-locks both to keep its reads waiting.
+ */
+const LOCK_SUMMARY_TABLES = "LOCK TABLES water_tests WRITE, kept_pool_spans WRITE";
+
+/** The server's statements that read those tables, as MariaDB lists them. */
+async function summaryTableReads(probe: Connection) {
   const [rows] = (await probe.query(
-    "SELECT id, state, info FROM information_schema.processlist WHERE db = ? AND id <> CONNECTION_ID() AND info LIKE '%water_tests%'",
+    "SELECT id, state, info FROM information_schema.processlist WHERE db = ? AND id <> CONNECTION_ID() AND (info LIKE '%water_tests%' OR info LIKE '%kept_pool_spans%')",
     [FAULT_DB_NAME],
   )) as unknown as [Array<{ id: number; state: string; info: string }>];
   return rows;
@@ -20,7 +26,7 @@ async function waterTestReads(probe: Connection) {
 /** Waits until a read of the server waits on the table lock (at most 20 s of polling). */
 async function untilWaitingOnLock(probe: Connection) {
   for (let i = 0; i < 200; i++) {
-    const waiting = (await waterTestReads(probe)).filter((r) => /lock/i.test(r.state));
+    const waiting = (await summaryTableReads(probe)).filter((r) => /lock/i.test(r.state));
     if (waiting.length > 0) return waiting;
     await sleep(100);
   }
@@ -34,7 +40,7 @@ function expectJson503(answer: Answer, code: string) {
   expect((JSON.parse(answer.body) as { error: { code: string } }).error.code).toBe(code);
 }
 
-/** A built server with its own limits; a test connection holds a write lock on water_tests to keep reads waiting. */
+/** A built server with its own limits; a test connection holds write locks (LOCK_SUMMARY_TABLES) to keep reads waiting. */
 function withServer(env: Record<string, string>) {
   const state = {} as { server: ChildProcess; cookie: string; lock: Connection; probe: Connection };
   beforeAll(async () => {
@@ -59,7 +65,7 @@ describe("the bound on concurrent heavy analytics (one running, no queue)", () =
 
   it("answers 503 with Retry-After beyond the queue, and lets the next one in once the slot is free", async () => {
     expect((await getAnswer(FAULT_SERVER_URL, SUMMARY, s.cookie)).status).toBe(200);
-    await s.lock.query("LOCK TABLES water_tests WRITE");
+    await s.lock.query(LOCK_SUMMARY_TABLES);
     const first = getAnswer(FAULT_SERVER_URL, SUMMARY, s.cookie);
     await untilWaitingOnLock(s.probe);
 
@@ -82,17 +88,17 @@ describe("the statement limit and abandoned requests (limit 1.5 s)", () => {
   const s = withServer({ PATINA_ANALYTICS_STATEMENT_MS: "1500" });
 
   it("stops a statement over the limit and answers 503 timeout with Retry-After", async () => {
-    await s.lock.query("LOCK TABLES water_tests WRITE");
+    await s.lock.query(LOCK_SUMMARY_TABLES);
     const answer = await getAnswer(FAULT_SERVER_URL, SUMMARY, s.cookie);
     expectJson503(answer, "timeout");
     // The lock is still held, yet none of the server's reads is left waiting: they were stopped.
-    expect(await waterTestReads(s.probe)).toEqual([]);
+    expect(await summaryTableReads(s.probe)).toEqual([]);
     await s.lock.query("UNLOCK TABLES");
     expect((await getAnswer(FAULT_SERVER_URL, SUMMARY, s.cookie)).status).toBe(200);
   });
 
   it("kills the running statement when the client goes away", async () => {
-    await s.lock.query("LOCK TABLES water_tests WRITE");
+    await s.lock.query(LOCK_SUMMARY_TABLES);
     const client = new AbortController();
     const abandoned = getAnswer(FAULT_SERVER_URL, SUMMARY, s.cookie, client.signal).catch((error: Error) => error.name);
     const waiting = await untilWaitingOnLock(s.probe);
@@ -102,7 +108,7 @@ describe("the statement limit and abandoned requests (limit 1.5 s)", () => {
     let left = waiting;
     for (let i = 0; i < 50 && left.length > 0; i++) {
       await sleep(20);
-      left = await waterTestReads(s.probe);
+      left = await summaryTableReads(s.probe);
     }
     expect(left).toEqual([]);
     await s.lock.query("UNLOCK TABLES");
